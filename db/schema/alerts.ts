@@ -1,0 +1,169 @@
+// Limits (rules and their versions), alerts and their history, the mail outbox and the on-call roster.
+import { bigint, boolean, double, index, int, json, mysqlEnum, mysqlTable, text, uniqueIndex, varchar } from "drizzle-orm/mysql-core";
+
+export const RULE_KINDS = [
+  "charge_high",
+  "charge_rate",
+  "rh_low",
+  "rh_forecast",
+  "sensor_silent",
+  "sensor_flat",
+  "effect_loss",
+] as const;
+export const SEVERITIES = ["low", "medium", "high"] as const;
+
+export const rules = mysqlTable(
+  "rules",
+  {
+    id: int("id").autoincrement().primaryKey(),
+    kind: mysqlEnum("kind", RULE_KINDS).notNull(),
+    name: varchar("name", { length: 160 }).notNull(),
+    // scope: exactly one of point / line / area / device / neutralizer, or none (plant-wide default)
+    pointId: int("point_id"),
+    lineId: int("line_id"),
+    areaId: int("area_id"),
+    deviceId: int("device_id"),
+    neutralizerId: int("neutralizer_id"),
+    enabled: boolean("enabled").notNull().default(true),
+    currentVersion: int("current_version").notNull().default(1),
+    createdAt: bigint("created_at", { mode: "number" }).notNull(),
+  },
+  (t) => [index("rules_scope_idx").on(t.kind, t.pointId, t.lineId, t.areaId)],
+);
+
+// Every saved change is a new version; alerts keep the version that raised them.
+export const ruleVersions = mysqlTable(
+  "rule_versions",
+  {
+    id: int("id").autoincrement().primaryKey(),
+    ruleId: int("rule_id").notNull(),
+    version: int("version").notNull(),
+    severity: mysqlEnum("severity", SEVERITIES).notNull(),
+    onDelayS: int("on_delay_s").notNull(),
+    offDelayS: int("off_delay_s").notNull(),
+    onlyWhileRunning: boolean("only_while_running").notNull().default(true),
+    params: json("params").notNull(),
+    createdBy: int("created_by"),
+    createdAt: bigint("created_at", { mode: "number" }).notNull(),
+    comment: varchar("comment", { length: 300 }),
+  },
+  (t) => [uniqueIndex("rule_versions_uq").on(t.ruleId, t.version)],
+);
+
+export const ALERT_STATES = ["active_unacked", "active_acked", "cleared_unacked", "closed"] as const;
+
+export const alerts = mysqlTable(
+  "alerts",
+  {
+    id: bigint("id", { mode: "number" }).autoincrement().primaryKey(),
+    ruleId: int("rule_id").notNull(),
+    ruleVersion: int("rule_version").notNull(),
+    kind: mysqlEnum("kind", RULE_KINDS).notNull(),
+    severity: mysqlEnum("severity", SEVERITIES).notNull(),
+    subjectKey: varchar("subject_key", { length: 80 }).notNull(),
+    areaId: int("area_id"),
+    lineId: int("line_id"),
+    pointId: int("point_id"),
+    deviceId: int("device_id"),
+    neutralizerId: int("neutralizer_id"),
+    state: mysqlEnum("state", ALERT_STATES).notNull().default("active_unacked"),
+    message: varchar("message", { length: 300 }).notNull(),
+    startTs: bigint("start_ts", { mode: "number" }).notNull(),
+    endTs: bigint("end_ts", { mode: "number" }),
+    closedTs: bigint("closed_ts", { mode: "number" }),
+    peakValue: double("peak_value"),
+    expectedCrossingTs: bigint("expected_crossing_ts", { mode: "number" }),
+    chattering: boolean("chattering").notNull().default(false),
+    shelvedUntilTs: bigint("shelved_until_ts", { mode: "number" }),
+    shelvedReason: varchar("shelved_reason", { length: 300 }),
+    ackedBy: int("acked_by"),
+    ackedTs: bigint("acked_ts", { mode: "number" }),
+    notifiedLevel: int("notified_level").notNull().default(0),
+  },
+  (t) => [
+    index("alerts_state_idx").on(t.state, t.severity),
+    index("alerts_line_idx").on(t.lineId, t.startTs),
+    index("alerts_area_idx").on(t.areaId, t.startTs),
+    index("alerts_start_idx").on(t.startTs),
+    index("alerts_rule_subject_idx").on(t.ruleId, t.subjectKey, t.startTs),
+  ],
+);
+
+export const ALERT_EVENT_KINDS = [
+  "raised",
+  "updated",
+  "cleared",
+  "acknowledged",
+  "commented",
+  "shelved",
+  "unshelved",
+  "closed",
+  "notified",
+  "escalated",
+] as const;
+
+export const alertEvents = mysqlTable(
+  "alert_events",
+  {
+    id: bigint("id", { mode: "number" }).autoincrement().primaryKey(),
+    alertId: bigint("alert_id", { mode: "number" }).notNull(),
+    ts: bigint("ts", { mode: "number" }).notNull(),
+    kind: mysqlEnum("kind", ALERT_EVENT_KINDS).notNull(),
+    personId: int("person_id"),
+    comment: text("comment"),
+    value: varchar("value", { length: 32 }),
+  },
+  (t) => [index("alert_events_alert_idx").on(t.alertId, t.ts)],
+);
+
+export const OUTBOX_STATES = ["pending", "sending", "sent", "failed"] as const;
+
+// Mail is written here in the same transaction as the state change that causes it, then sent
+// by the mailer loop. dedupe_key is unique so the same event can never queue two mails.
+export const outbox = mysqlTable(
+  "outbox",
+  {
+    id: bigint("id", { mode: "number" }).autoincrement().primaryKey(),
+    dedupeKey: varchar("dedupe_key", { length: 160 }).notNull().unique(),
+    toAddress: varchar("to_address", { length: 254 }).notNull(),
+    subject: varchar("subject", { length: 300 }).notNull(),
+    bodyText: text("body_text").notNull(),
+    bodyHtml: text("body_html"),
+    state: mysqlEnum("state", OUTBOX_STATES).notNull().default("pending"),
+    attempts: int("attempts").notNull().default(0),
+    nextAttemptTs: bigint("next_attempt_ts", { mode: "number" }).notNull(),
+    lastError: varchar("last_error", { length: 500 }),
+    createdTs: bigint("created_ts", { mode: "number" }).notNull(),
+    sentTs: bigint("sent_ts", { mode: "number" }),
+    messageId: varchar("message_id", { length: 200 }),
+  },
+  (t) => [index("outbox_state_idx").on(t.state, t.nextAttemptTs)],
+);
+
+// Who is on call when; escalation_order 1 is first called, 2 next, ...
+export const oncallShifts = mysqlTable(
+  "oncall_shifts",
+  {
+    id: int("id").autoincrement().primaryKey(),
+    personId: int("person_id").notNull(),
+    startTs: bigint("start_ts", { mode: "number" }).notNull(),
+    endTs: bigint("end_ts", { mode: "number" }).notNull(),
+    escalationOrder: int("escalation_order").notNull().default(1),
+    note: varchar("note", { length: 200 }),
+  },
+  (t) => [index("oncall_time_idx").on(t.startTs, t.endTs)],
+);
+
+export const lineNotes = mysqlTable(
+  "line_notes",
+  {
+    id: bigint("id", { mode: "number" }).autoincrement().primaryKey(),
+    lineId: int("line_id").notNull(),
+    pointId: int("point_id"),
+    ts: bigint("ts", { mode: "number" }).notNull(),
+    text: varchar("text", { length: 500 }).notNull(),
+    personId: int("person_id").notNull(),
+    createdTs: bigint("created_ts", { mode: "number" }).notNull(),
+  },
+  (t) => [index("line_notes_line_idx").on(t.lineId, t.ts)],
+);

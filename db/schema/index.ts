@@ -1,0 +1,5 @@
+export * from "./people";
+export * from "./plant";
+export * from "./readings";
+export * from "./alerts";
+export * from "./records";
