@@ -1,0 +1,199 @@
+/**
+ * Neutralizer performance: the effect seen in line data (charge before vs after the neutralizer),
+ * the pass/fail judgement of a charged-plate verification (decay time per polarity and offset
+ * voltage), and the trend of decay time across checks to predict when cleaning is due.
+ *
+ * Pure functions, no I/O. Impossible inputs throw a RangeError.
+ * Cleaning or touching emitters: isolate the power unit first and follow the plant's lockout
+ * procedure; neutralizer power units carry several kilovolts.
+ */
+
+import { linearRegression, mean, median } from "simple-statistics";
+
+/**
+ * Start and end voltages of the usual charged-plate decay test, V: the plate is charged to
+ * ±1000 V and the time to fall to ±100 V is the decay time (ANSI/ESD STM3.1 and
+ * IEC 61340-4-7 test method, from memory).
+ */
+export const DECAY_TEST_FROM_V = 1000;
+export const DECAY_TEST_TO_V = 100;
+
+export interface CheckLimits {
+  /** Longest acceptable decay time, s, for either polarity. */
+  maxDecayS: number;
+  /** Largest acceptable offset (balance) voltage magnitude, V. */
+  maxOffsetAbsV: number;
+}
+
+/**
+ * Default verification limits. ANSI/ESD STM3.1 and IEC 61340-4-7 define how to measure decay
+ * time and offset but set no universal acceptance limit: the user (the plant) sets them for
+ * each application. Defaults used here, to be overridden per neutralizer:
+ * - maxDecayS 20 s: a plant setting chosen for ionizing bars and blowers on web lines, not a
+ *   value from the standards;
+ * - maxOffsetAbsV 35 V: a limit common in ESD control programs (common practice, from memory).
+ */
+export const DEFAULT_CHECK_LIMITS: CheckLimits = { maxDecayS: 20, maxOffsetAbsV: 35 };
+
+function assertFinite(name: string, value: number): void {
+  if (typeof value !== "number" || !Number.isFinite(value)) {
+    throw new RangeError(`${name} must be a finite number (got ${String(value)}).`);
+  }
+}
+
+function magnitudes(name: string, valuesKv: readonly number[]): number[] {
+  if (!Array.isArray(valuesKv) || valuesKv.length === 0) {
+    throw new RangeError(`${name} needs at least one reading.`);
+  }
+  return valuesKv.map((v, i) => {
+    assertFinite(`${name} reading ${i + 1}`, v);
+    return Math.abs(v);
+  });
+}
+
+export type EffectMethod = "mean" | "median";
+
+/**
+ * Effect of a neutralizer from line data: the fraction of charge removed between the point
+ * before it and the point after it, over the same time window.
+ *   'mean' (default): effect = 1 − mean|after| / mean|before|
+ *   'median':         effect = 1 − median|after| / median|before|
+ * Magnitudes are used because either polarity is charge to be removed. The median form is
+ * robust to short spikes (a splice, a hand near the sensor); the two series need not have the
+ * same length. 1 means all charge removed, 0 no effect; a negative value means more charge after
+ * than before (a neutralizer out of balance or adding charge). Returns null when there is no
+ * charge before (the effect is undefined).
+ */
+export function effectFraction(
+  beforeKv: readonly number[],
+  afterKv: readonly number[],
+  method: EffectMethod = "mean",
+): number | null {
+  const before = magnitudes("Charge before", beforeKv);
+  const after = magnitudes("Charge after", afterKv);
+  const centre = method === "median" ? median : mean;
+  const beforeLevel = centre(before);
+  if (beforeLevel === 0) return null;
+  return 1 - centre(after) / beforeLevel;
+}
+
+export interface CheckReadings {
+  /** Decay time from +1000 V to +100 V, s; null if not measured. */
+  decayPosS: number | null;
+  /** Decay time from −1000 V to −100 V, s; null if not measured. */
+  decayNegS: number | null;
+  /** Offset (balance) voltage, V, signed; null if not measured. */
+  offsetV: number | null;
+}
+
+export interface CheckPartJudgement {
+  pass: boolean;
+  reason: string;
+}
+
+export interface CheckJudgement {
+  pass: boolean;
+  positive: CheckPartJudgement;
+  negative: CheckPartJudgement;
+  offset: CheckPartJudgement;
+  /** Reasons of the parts that failed, in order positive, negative, offset; empty on a pass. */
+  failures: string[];
+}
+
+function formatNumber(value: number): string {
+  return String(Number(value.toPrecision(3)));
+}
+
+function judgeDecay(label: string, decayS: number | null, maxDecayS: number): CheckPartJudgement {
+  if (decayS === null) return { pass: false, reason: `${label} decay time not recorded.` };
+  if (typeof decayS !== "number" || Number.isNaN(decayS) || decayS < 0) {
+    throw new RangeError(`${label} decay time must be 0 s or more (got ${String(decayS)}).`);
+  }
+  // Infinity is allowed: it records a plate that never reached 100 V within the test time.
+  if (decayS <= maxDecayS) {
+    return { pass: true, reason: `${label} decay ${formatNumber(decayS)} s is within the ${formatNumber(maxDecayS)} s limit.` };
+  }
+  return { pass: false, reason: `${label} decay ${formatNumber(decayS)} s is over the ${formatNumber(maxDecayS)} s limit.` };
+}
+
+/**
+ * Pass/fail of a charged-plate verification against the neutralizer's limits: each polarity
+ * passes when its decay time ≤ maxDecayS, the offset passes when |offsetV| ≤ maxOffsetAbsV, and
+ * the check passes only when all three do. A part that was not measured fails (a verification
+ * needs both polarities and the offset). Limits default to DEFAULT_CHECK_LIMITS (plant settings).
+ */
+export function judgeCheck(readings: CheckReadings, limits: CheckLimits = DEFAULT_CHECK_LIMITS): CheckJudgement {
+  assertFinite("Decay time limit", limits.maxDecayS);
+  assertFinite("Offset limit", limits.maxOffsetAbsV);
+  if (limits.maxDecayS <= 0) throw new RangeError("Decay time limit must be above 0 s.");
+  if (limits.maxOffsetAbsV < 0) throw new RangeError("Offset limit cannot be negative.");
+
+  const positive = judgeDecay("Positive", readings.decayPosS, limits.maxDecayS);
+  const negative = judgeDecay("Negative", readings.decayNegS, limits.maxDecayS);
+
+  let offset: CheckPartJudgement;
+  if (readings.offsetV === null) {
+    offset = { pass: false, reason: "Offset voltage not recorded." };
+  } else {
+    assertFinite("Offset voltage", readings.offsetV);
+    const within = Math.abs(readings.offsetV) <= limits.maxOffsetAbsV;
+    offset = {
+      pass: within,
+      reason: `Offset ${formatNumber(readings.offsetV)} V is ${within ? "within" : "outside"} ±${formatNumber(limits.maxOffsetAbsV)} V.`,
+    };
+  }
+
+  const failures = [positive, negative, offset].filter((p) => !p.pass).map((p) => p.reason);
+  return { pass: failures.length === 0, positive, negative, offset, failures };
+}
+
+export interface DecayCheckPoint {
+  /** Time of the check, epoch ms. */
+  ts: number;
+  /** Decay time measured, s. Pass the longer of the two polarities to project the earlier date. */
+  decayS: number;
+}
+
+export interface DecayTrend {
+  /** Least-squares slope, s of decay time per day. */
+  slopeSPerDay: number;
+  /** Fitted decay time at `originTs`, s. */
+  interceptS: number;
+  /** Time the fit is centred on (first check), epoch ms. */
+  originTs: number;
+}
+
+const MS_PER_DAY = 86_400_000;
+
+/**
+ * Least-squares straight line of decay time against time: decayS ≈ interceptS + slopeSPerDay ·
+ * (ts − originTs) / 1 day (ordinary least squares, simple-statistics linearRegression). Time is
+ * shifted to the first check and expressed in days so the sums stay well conditioned. Returns
+ * null with fewer than two distinct check times.
+ */
+export function fitDecayTrend(checks: readonly DecayCheckPoint[]): DecayTrend | null {
+  if (!Array.isArray(checks)) throw new RangeError("Checks must be a list.");
+  checks.forEach((c, i) => {
+    assertFinite(`Check ${i + 1} time`, c.ts);
+    assertFinite(`Check ${i + 1} decay time`, c.decayS);
+    if (c.decayS < 0) throw new RangeError(`Check ${i + 1} decay time cannot be negative.`);
+  });
+  if (new Set(checks.map((c) => c.ts)).size < 2) return null;
+  const originTs = Math.min(...checks.map((c) => c.ts));
+  const line = linearRegression(checks.map((c) => [(c.ts - originTs) / MS_PER_DAY, c.decayS]));
+  return { slopeSPerDay: line.m, interceptS: line.b, originTs };
+}
+
+/**
+ * When the decay time is predicted to reach `limitS`, epoch ms: from the least-squares line of
+ * `fitDecayTrend`, ts = originTs + (limitS − interceptS) / slopeSPerDay days. Returns null when
+ * the trend is not rising (slope ≤ 0) or there are fewer than two distinct check times.
+ * A result at or before the latest check means the line already reaches the limit: due now.
+ */
+export function projectDecayDueDate(checks: readonly DecayCheckPoint[], limitS: number): number | null {
+  assertFinite("Decay time limit", limitS);
+  if (limitS <= 0) throw new RangeError("Decay time limit must be above 0 s.");
+  const trend = fitDecayTrend(checks);
+  if (trend === null || !(trend.slopeSPerDay > 0)) return null;
+  return Math.round(trend.originTs + ((limitS - trend.interceptS) / trend.slopeSPerDay) * MS_PER_DAY);
+}
