@@ -3,7 +3,7 @@
  * state loaded back from the database is checked before the engine trusts it.
  */
 import { z } from "zod";
-import { channelSchema, ruleKindSchema } from "./types";
+import { channelSchema, ruleKindSchema, severitySchema } from "./types";
 
 export const ENGINE_STATE_FORMAT = 1;
 
@@ -77,7 +77,9 @@ export const evaluatorStateSchema = z.object({
   ruleId: z.number().int().positive(),
   ruleVersion: z.number().int().positive(),
   kind: ruleKindSchema,
+  severity: severitySchema,
   subjectKey: z.string(),
+  unit: z.string(),
   h: hysteresisStateSchema,
   /** Kind-specific window; checked by the evaluator that owns it. */
   w: z.unknown(),

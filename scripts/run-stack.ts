@@ -1,0 +1,135 @@
+// Starts Stillfield's processes in order, waits for each to be ready, prefixes their output,
+// and stops them all (in reverse order) on Ctrl-C / SIGTERM. Used by `npm run demo` (with the
+// simulators) and by `npm test` (without them). Written here rather than with `concurrently`
+// because start-up must be ordered by readiness (broker before worker before app) and a busy
+// port must give a clear message before anything starts.
+import { spawn, type ChildProcess } from "node:child_process";
+import fs from "node:fs";
+import net from "node:net";
+import path from "node:path";
+
+type Service = {
+  name: string;
+  /** file that must exist for the service to be part of the stack */
+  needs?: string;
+  cmd: string[];
+  port?: number;
+  readyTimeoutMs?: number;
+  env?: Record<string, string>;
+};
+
+const root = path.resolve(import.meta.dirname, "..");
+const mode = process.argv[2] === "demo" ? "demo" : "test";
+const env = process.env;
+const num = (v: string | undefined, d: number) => (v ? Number(v) : d);
+const tsx = [process.execPath, "--import", "tsx"];
+
+const services: Service[] = [
+  { name: "smtp", needs: "ingest/smtp-sink.ts", cmd: [...tsx, "ingest/smtp-sink.ts"], port: num(env.SMTP_PORT, 2525) },
+  { name: "broker", needs: "ingest/broker.ts", cmd: [...tsx, "ingest/broker.ts"], port: num(env.MQTT_PORT, 1884) },
+  { name: "worker", needs: "ingest/worker.ts", cmd: [...tsx, "ingest/worker.ts"], port: num(env.WORKER_HEALTH_PORT, 9464) },
+  { name: "mailer", needs: "ingest/mailer.ts", cmd: [...tsx, "ingest/mailer.ts"] },
+  {
+    name: "app",
+    cmd: [process.execPath, "node_modules/next/dist/bin/next", "start", "-H", "127.0.0.1", "-p", String(num(env.APP_PORT, 3000))],
+    port: num(env.APP_PORT, 3000),
+    readyTimeoutMs: 60_000,
+  },
+];
+if (mode === "demo") {
+  services.push({ name: "plant", needs: "simulators/plant.ts", cmd: [...tsx, "simulators/plant.ts"] });
+}
+
+const colours = ["36", "35", "33", "32", "34", "31", "90"];
+const running: { svc: Service; child: ChildProcess }[] = [];
+let stopping = false;
+
+function portOpen(port: number): Promise<boolean> {
+  return new Promise((resolve) => {
+    const s = net.connect({ host: "127.0.0.1", port });
+    s.once("connect", () => {
+      s.destroy();
+      resolve(true);
+    });
+    s.once("error", () => resolve(false));
+  });
+}
+
+async function waitForPort(svc: Service, child: ChildProcess): Promise<void> {
+  const deadline = Date.now() + (svc.readyTimeoutMs ?? 30_000);
+  while (Date.now() < deadline) {
+    if (child.exitCode !== null) throw new Error(`${svc.name} exited with code ${child.exitCode} before it was ready`);
+    if (await portOpen(svc.port!)) return;
+    await new Promise((r) => setTimeout(r, 200));
+  }
+  throw new Error(`${svc.name} did not open 127.0.0.1:${svc.port} in time`);
+}
+
+function pipe(stream: NodeJS.ReadableStream | null, prefix: string) {
+  if (!stream) return;
+  let buf = "";
+  stream.setEncoding("utf8");
+  stream.on("data", (chunk: string) => {
+    buf += chunk;
+    let i;
+    while ((i = buf.indexOf("\n")) >= 0) {
+      process.stdout.write(`${prefix} ${buf.slice(0, i)}\n`);
+      buf = buf.slice(i + 1);
+    }
+  });
+}
+
+async function stopAll(code: number) {
+  if (stopping) return;
+  stopping = true;
+  for (const { svc, child } of [...running].reverse()) {
+    if (child.exitCode !== null) continue;
+    child.kill("SIGTERM");
+    const done = await Promise.race([
+      new Promise<boolean>((r) => child.once("exit", () => r(true))),
+      new Promise<boolean>((r) => setTimeout(() => r(false), 8000)),
+    ]);
+    if (!done) {
+      console.log(`[stack] ${svc.name} did not stop in 8 s; killing it`);
+      child.kill("SIGKILL");
+    }
+  }
+  process.exit(code);
+}
+
+async function main() {
+  const active = services.filter((s) => !s.needs || fs.existsSync(path.join(root, s.needs)));
+  for (const svc of active) {
+    if (svc.port && (await portOpen(svc.port))) {
+      console.error(
+        `[stack] Port ${svc.port} on 127.0.0.1 (for ${svc.name}) is already in use by another program. ` +
+          `Stop it (is another Stillfield running?) or pick other ports, e.g. APP_PORT=3001 MQTT_PORT=1885 npm run demo.`,
+      );
+      process.exit(3);
+    }
+  }
+  for (const [i, svc] of active.entries()) {
+    const child = spawn(svc.cmd[0], svc.cmd.slice(1), { cwd: root, env: { ...env, ...svc.env }, stdio: ["ignore", "pipe", "pipe"] });
+    running.push({ svc, child });
+    const prefix = `\x1b[${colours[i % colours.length]}m[${svc.name}]\x1b[0m`;
+    pipe(child.stdout, prefix);
+    pipe(child.stderr, prefix);
+    child.on("exit", (code, signal) => {
+      if (!stopping) {
+        console.error(`[stack] ${svc.name} stopped unexpectedly (${signal ?? `code ${code}`}); stopping everything.`);
+        void stopAll(1);
+      }
+    });
+    if (svc.port) await waitForPort(svc, child);
+    console.log(`[stack] ${svc.name} ready${svc.port ? ` on 127.0.0.1:${svc.port}` : ""}`);
+  }
+  console.log("[stack] all services ready");
+  if (process.env.STACK_READY_FILE) fs.writeFileSync(process.env.STACK_READY_FILE, String(Date.now()));
+}
+
+process.on("SIGINT", () => void stopAll(0));
+process.on("SIGTERM", () => void stopAll(0));
+main().catch((err) => {
+  console.error(`[stack] ${err instanceof Error ? err.message : err}`);
+  void stopAll(1);
+});

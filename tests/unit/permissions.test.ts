@@ -1,0 +1,28 @@
+// The role → action map follows PRODUCT.md §2 row by row.
+import { describe, expect, it } from "vitest";
+import { ACTIONS, can, ROLE_NAMES, type Action, type Role } from "@/lib/permissions";
+
+const table: Record<Role, Action[]> = {
+  viewer: ["view"],
+  shift_lead: ["view", "alert.respond", "note.add"],
+  engineer: ["view", "alert.respond", "note.add", "limits.edit", "plant.edit", "equipment.edit", "check.record", "upload.add", "import.run", "audit.view"],
+  admin: [...ACTIONS],
+};
+
+describe("permissions (PRODUCT.md §2)", () => {
+  for (const role of ROLE_NAMES) {
+    for (const action of ACTIONS) {
+      const expected = table[role].includes(action);
+      it(`${role} ${expected ? "may" : "may not"} ${action}`, () => {
+        expect(can(role, action)).toBe(expected);
+      });
+    }
+  }
+  it("nobody signed in may do anything", () => {
+    for (const action of ACTIONS) expect(can(null, action)).toBe(false);
+  });
+  it("only admins manage people, on-call and devices", () => {
+    const admins = ROLE_NAMES.filter((r) => can(r, "people.manage") || can(r, "devices.manage") || can(r, "oncall.manage"));
+    expect(admins).toEqual(["admin"]);
+  });
+});
