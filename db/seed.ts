@@ -125,14 +125,16 @@ export async function seedDemoPlant(db: Db, opts: { nowMs?: number; secretsFile?
 
     // default limits: plant-wide charge and humidity rules (per point/line/area rules are added
     // by engineers in the Limits editor). Values are plant settings, not standards.
-    const defaults: Array<{ kind: (typeof s.RULE_KINDS)[number]; name: string; severity: "low" | "medium" | "high"; onDelayS: number; offDelayS: number; onlyWhileRunning: boolean; params: Record<string, number> }> = [
+    const defaults: Array<{ kind: (typeof s.RULE_KINDS)[number]; name: string; severity: "low" | "medium" | "high"; onDelayS: number; offDelayS: number; onlyWhileRunning: boolean; params: Record<string, number | string> }> = [
+      // the same figures as lib/rules/defaults.ts (plant settings from common practice, from memory; not published limits)
       { kind: "charge_high", name: "Charge over limit", severity: "medium", onDelayS: 10, offDelayS: 30, onlyWhileRunning: true, params: { limitKv: 12, clearKv: 10 } },
-      { kind: "charge_rate", name: "Charge rising fast", severity: "low", onDelayS: 30, offDelayS: 60, onlyWhileRunning: true, params: { rateKvPerMin: 3, clearRateKvPerMin: 1, windowS: 120 } },
+      { kind: "charge_high", name: "Charge far over limit", severity: "high", onDelayS: 10, offDelayS: 30, onlyWhileRunning: true, params: { limitKv: 20, clearKv: 17 } },
+      { kind: "charge_rate", name: "Charge rising fast", severity: "medium", onDelayS: 30, offDelayS: 60, onlyWhileRunning: true, params: { rateKvPerMin: 3, clearRateKvPerMin: 1.5, windowS: 120 } },
       { kind: "rh_low", name: "Hall humidity low", severity: "medium", onDelayS: 120, offDelayS: 300, onlyWhileRunning: false, params: { limitPct: 30, clearPct: 33 } },
-      { kind: "rh_forecast", name: "Hall humidity falling toward limit", severity: "low", onDelayS: 60, offDelayS: 600, onlyWhileRunning: false, params: { limitPct: 30, horizonMin: 60, windowMin: 30 } },
-      { kind: "sensor_silent", name: "Sensor silent", severity: "medium", onDelayS: 0, offDelayS: 0, onlyWhileRunning: false, params: { silentS: 120 } },
-      { kind: "sensor_flat", name: "Sensor reading flat", severity: "low", onDelayS: 0, offDelayS: 60, onlyWhileRunning: true, params: { windowS: 600, tolerance: 0.05 } },
-      { kind: "effect_loss", name: "Neutralizer losing effect", severity: "medium", onDelayS: 60, offDelayS: 300, onlyWhileRunning: true, params: { minReductionFraction: 0.5, windowS: 300 } },
+      { kind: "rh_forecast", name: "Hall humidity falling toward limit", severity: "low", onDelayS: 300, offDelayS: 600, onlyWhileRunning: false, params: { limitPct: 30, horizonMin: 60, windowMin: 30, clearMarginPct: 2 } },
+      { kind: "sensor_silent", name: "Sensor silent", severity: "medium", onDelayS: 0, offDelayS: 60, onlyWhileRunning: false, params: { silentS: 120 } },
+      { kind: "sensor_flat", name: "Sensor reading flat", severity: "low", onDelayS: 0, offDelayS: 60, onlyWhileRunning: true, params: { channel: "charge_kv", windowS: 600, tolerance: 0.05 } },
+      { kind: "effect_loss", name: "Neutralizer losing effect", severity: "medium", onDelayS: 60, offDelayS: 300, onlyWhileRunning: true, params: { minReductionFraction: 0.5, clearReductionFraction: 0.6, windowS: 300, minBeforeKv: 1 } },
     ];
     for (const d of defaults) {
       const [r] = await tx.insert(s.rules).values({ kind: d.kind, name: d.name, createdAt: now, currentVersion: 1 });

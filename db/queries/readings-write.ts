@@ -105,7 +105,7 @@ function rollupValues(aggs: readonly RollupAggregate[], from: number, to: number
   return parts.join(",");
 }
 
-type Conn = mysql.PoolConnection | mysql.Connection;
+type Conn = mysql.Pool | mysql.PoolConnection | mysql.Connection;
 
 async function insertRaw(conn: Conn, rows: readonly ReadingRow[], ignore: boolean): Promise<number> {
   let affected = 0;

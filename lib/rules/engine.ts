@@ -159,9 +159,13 @@ function toActiveAlert(state: EvaluatorState): ActiveAlert | null {
   };
 }
 
+function compareTs(a: AlertTransition, b: AlertTransition): number {
+  return a.ts - b.ts;
+}
+
 function sortByTs(out: AlertTransition[]): AlertTransition[] {
   // Array.prototype.sort is stable: transitions at the same ts keep their evaluation order.
-  if (out.length > 1) out.sort((a, b) => a.ts - b.ts);
+  if (out.length > 1) out.sort(compareTs);
   return out;
 }
 
@@ -234,16 +238,23 @@ export function createRuleEngine(options: CreateRuleEngineOptions): RuleEngine {
   }
 
   const ctx: EvalContext = {
-    isRunning(lineId, ts) {
-      if (lineId === null) return true;
+    getRunningSince(lineId, ts) {
+      if (lineId === null) return Number.NEGATIVE_INFINITY;
       const line = lines.get(lineId);
-      if (line === undefined || line.changes.length === 0) return true;
+      if (line === undefined || line.changes.length === 0) return Number.NEGATIVE_INFINITY;
       const changes = line.changes;
       for (let i = changes.length - 1; i >= 0; i--) {
-        if (changes[i][0] <= ts) return changes[i][1] === 1;
+        if (changes[i][0] <= ts) {
+          if (changes[i][1] === 0) return null;
+          // The very first entry is the first observation, not a start: running since unknown.
+          return i === 0 && !line.trimmed ? Number.NEGATIVE_INFINITY : changes[i][0];
+        }
       }
-      // Before every change kept: unknown if nothing was ever dropped, else the oldest kept.
-      return line.trimmed ? changes[0][1] === 1 : true;
+      // Before every entry kept. Nothing dropped yet: before the first observation, unknown
+      // (counts as running). Otherwise the oldest kept entry is a change, so the line was in
+      // the opposite state before it (since when is no longer known).
+      if (!line.trimmed) return Number.NEGATIVE_INFINITY;
+      return changes[0][1] === 1 ? null : Number.NEGATIVE_INFINITY;
     },
     getSensorLastTs(sensorKey) {
       return sensors.get(sensorKey)?.lastTs ?? null;

@@ -30,6 +30,9 @@
  *
  * onlyWhileRunning: while the line is stopped the raise condition is false; an open alert clears
  * once the line has been stopped for the off-delay (or the value clears, whichever first).
+ * Windowed kinds (charge_rate, sensor_flat, effect_loss) gated this way look only at readings
+ * taken since the line last started, so they judge nothing until the line has run for 90 % of
+ * the window after a start (no rate alert for every start-up ramp).
  */
 import type { ZodType } from "zod";
 import {
@@ -85,8 +88,12 @@ export const MAX_CROSS_SENSOR_LAG_MS = 15 * 60_000;
 const MAX_PENDING_EVALUATIONS = 100_000;
 
 export interface EvalContext {
-  /** Whether the line was running at reading time ts (true when the line has no running signal yet). */
-  isRunning(lineId: number | null, ts: number): boolean;
+  /**
+   * Since when the line has been running without a stop, at reading time ts: null when it was
+   * stopped; −Infinity when it has no running signal, has not reported yet, or has been
+   * running since before anything the engine has seen.
+   */
+  getRunningSince(lineId: number | null, ts: number): number | null;
   /** Latest reading time of a sensor, any channel; null if never heard from. */
   getSensorLastTs(sensorKey: string): number | null;
   /** First reading or tick time the engine saw. */
@@ -141,11 +148,16 @@ abstract class BaseEvaluator<R extends RuleDefinition, W> implements AlertHost {
   abstract onReading(reading: Reading, ctx: EvalContext, out: AlertTransition[]): void;
   abstract describe(type: TransitionType, alert: AlertRecord): string;
 
-  /** [running, stoppedClear]: raise needs running; a stopped gated line counts toward clearing. */
-  protected gate(ctx: EvalContext, t: number): [boolean, boolean] {
-    if (!this.rule.onlyWhileRunning) return [true, false];
-    const running = ctx.isRunning(this.lineId, t);
-    return [running, !running];
+  /**
+   * The line gate at time t: [running, stopped, windowFloorTs]. Raise needs running; a stopped
+   * gated line counts toward clearing; windowed kinds judge only readings taken since the line
+   * last started (windowFloorTs), so a start-up ramp or a stopped web's steady zero never
+   * counts as an excursion or a stuck sensor.
+   */
+  protected gate(ctx: EvalContext, t: number): [boolean, boolean, number] {
+    if (!this.rule.onlyWhileRunning) return [true, false, Number.NEGATIVE_INFINITY];
+    const since = ctx.getRunningSince(this.lineId, t);
+    return since === null ? [false, true, t] : [true, false, since];
   }
 
   /**
@@ -240,9 +252,9 @@ export class ChargeRateEvaluator extends BaseEvaluator<ChargeRateRule, SampleWin
     const t = reading.ts;
     const windowMs = this.rule.params.windowS * 1000;
     const w = this.state.w;
-    pushSample(w, t, reading.value, windowMs);
+    const [running, stopped, floorTs] = this.gate(ctx, t);
+    pushSample(w, t, reading.value, Math.max(t - windowMs, floorTs));
     this.lastChargeKv = reading.value;
-    const [running, stopped] = this.gate(ctx, t);
     if (!isSampleWindowFull(w, t, windowMs)) {
       this.stoppedClear = stopped;
       stepHysteresis(this, t, false, stopped, null, undefined, out);
@@ -305,6 +317,11 @@ export class RhLowEvaluator extends BaseEvaluator<RhLowRule, null> {
 
 // ---------------------------------------------------------------------------------------------
 
+function inAbout(ms: number): string {
+  const minutes = Math.round(ms / 60_000);
+  return minutes < 1 ? "within a minute" : `in about ${formatDuration(minutes * 60_000)}`;
+}
+
 export class RhForecastEvaluator extends BaseEvaluator<RhForecastRule, SampleWindowState> {
   readonly worse = "lower";
   override carriesCrossing = true;
@@ -326,7 +343,7 @@ export class RhForecastEvaluator extends BaseEvaluator<RhForecastRule, SampleWin
     const { limitPct, horizonMin, windowMin, clearMarginPct } = this.rule.params;
     const windowMs = windowMin * 60_000;
     const w = this.state.w;
-    pushSample(w, t, rhPct, windowMs);
+    pushSample(w, t, rhPct, t - windowMs);
     this.lastTs = t;
     if (!isSampleWindowFull(w, t, windowMs)) {
       stepHysteresis(this, t, false, false, null, undefined, out);
@@ -356,7 +373,7 @@ export class RhForecastEvaluator extends BaseEvaluator<RhForecastRule, SampleWin
     if (alert.value <= limitPct) {
       return `Relative humidity in ${where} has fallen to ${falling}, under the ${formatLimit(limitPct)} % limit as forecast`;
     }
-    return `Relative humidity in ${where} is ${falling}: expected under the ${formatLimit(limitPct)} % limit in about ${formatDuration(alert.expectedCrossingTs - this.lastTs)}`;
+    return `Relative humidity in ${where} is ${falling}: expected under the ${formatLimit(limitPct)} % limit ${inAbout(alert.expectedCrossingTs - this.lastTs)}`;
   }
 }
 
@@ -389,8 +406,8 @@ export class SensorFlatEvaluator extends BaseEvaluator<SensorFlatRule, RangeWind
     const { windowS, tolerance, clearTolerance } = this.rule.params;
     const windowMs = windowS * 1000;
     const w = this.state.w;
-    pushRange(w, t, reading.value, windowMs);
-    const [running, stopped] = this.gate(ctx, t);
+    const [running, stopped, floorTs] = this.gate(ctx, t);
+    pushRange(w, t, reading.value, Math.max(t - windowMs, floorTs));
     if (!isRangeWindowFull(w, t, windowMs)) {
       this.stoppedClear = stopped;
       stepHysteresis(this, t, false, stopped, null, undefined, out);
@@ -458,9 +475,9 @@ export class EffectLossEvaluator extends BaseEvaluator<EffectLossRule, EffectWin
   private evaluateAt(t: number, ctx: EvalContext, out: AlertTransition[]): void {
     const { windowS, minReductionFraction, clearReductionFraction, minBeforeKv } = this.rule.params;
     const windowMs = windowS * 1000;
-    const meanBefore = getWindowMean(this.state.w.before, t, windowMs);
-    const meanAfter = getWindowMean(this.state.w.after, t, windowMs);
-    const [running, stopped] = this.gate(ctx, t);
+    const [running, stopped, floorTs] = this.gate(ctx, t);
+    const meanBefore = getWindowMean(this.state.w.before, t, windowMs, floorTs);
+    const meanAfter = getWindowMean(this.state.w.after, t, windowMs, floorTs);
     if (meanBefore === null || meanAfter === null || meanBefore < minBeforeKv) {
       // Not judged: too little data, or too little charge before the neutralizer.
       this.stoppedClear = stopped;

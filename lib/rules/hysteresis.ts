@@ -21,6 +21,9 @@ export const CHATTER_WINDOW_MS = 60_000;
 /** At most one `update` transition per active alert per this much reading time. */
 export const UPDATE_MIN_INTERVAL_MS = 60_000;
 
+/** A forecast crossing that moves by less than this is not worth an update. */
+export const CROSSING_SHIFT_MIN_MS = 60_000;
+
 /** Which way is worse for a kind's value: the peak keeps the worst. */
 export type WorseDirection = "higher" | "lower" | "magnitude";
 
@@ -118,9 +121,18 @@ export function clearAlert(host: AlertHost, t: number, out: AlertTransition[]): 
   h.lastClearTs = t;
 }
 
+/** Rounding noise in running sums must not count as a new peak. */
+function differs(a: number, b: number): boolean {
+  return Math.abs(a - b) > 1e-9 * Math.max(1, Math.abs(a), Math.abs(b));
+}
+
 function maybeUpdate(host: AlertHost, t: number, alert: AlertRecord, out: AlertTransition[]): void {
   const changed =
-    alert.peakValue !== alert.lastEmittedPeak || alert.expectedCrossingTs !== alert.lastEmittedCrossingTs;
+    differs(alert.peakValue, alert.lastEmittedPeak) ||
+    (alert.expectedCrossingTs === null) !== (alert.lastEmittedCrossingTs === null) ||
+    (alert.expectedCrossingTs !== null &&
+      alert.lastEmittedCrossingTs !== null &&
+      Math.abs(alert.expectedCrossingTs - alert.lastEmittedCrossingTs) >= CROSSING_SHIFT_MIN_MS);
   if (!changed || t - alert.lastEmittedTs < UPDATE_MIN_INTERVAL_MS) return;
   alert.lastEmittedTs = t;
   alert.lastEmittedPeak = alert.peakValue;
@@ -145,8 +157,8 @@ export function stepHysteresis(
   expectedCrossingTs: number | null | undefined,
   out: AlertTransition[],
 ): void {
+  // No closures in here: this runs for every reading of every rule.
   const h = host.state.h;
-  const delayMs = (s: number) => s * 1000;
   if (h.phase === "normal" || h.alert === null) {
     if (!raise || value === null) {
       h.sinceTs = null;
@@ -159,7 +171,7 @@ export function stepHysteresis(
     } else {
       h.pendingPeak = pickWorse(host.worse, h.pendingPeak ?? value, value);
     }
-    if (t - h.sinceTs >= delayMs(host.rule.onDelayS)) {
+    if (t - h.sinceTs >= host.rule.onDelayS * 1000) {
       raiseAlert(host, t, h.sinceTs, value, h.pendingPeak, expectedCrossingTs ?? null, out);
     }
     return;
@@ -173,7 +185,7 @@ export function stepHysteresis(
   if (expectedCrossingTs !== undefined) alert.expectedCrossingTs = expectedCrossingTs;
   if (clear) {
     if (h.sinceTs === null) h.sinceTs = t;
-    if (t - h.sinceTs >= delayMs(host.rule.offDelayS)) {
+    if (t - h.sinceTs >= host.rule.offDelayS * 1000) {
       clearAlert(host, t, out);
       return;
     }

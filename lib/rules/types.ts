@@ -411,7 +411,8 @@ export type TransitionType = "raise" | "clear" | "update";
  *   condition began (largest |charge|, fastest rate, lowest RH, smallest flat range, smallest
  *   neutralizer reduction, longest silence).
  * - `update` is emitted at most once per minute of reading time while an alert is active, and
- *   only when its peak or its expected crossing time changed since the last transition.
+ *   only when its peak changed or its expected crossing time moved by a minute or more since
+ *   the last transition.
  * - `chattering` is true on a raise that comes within 60 s of the previous clear of the same
  *   rule and subject.
  */

@@ -27,10 +27,10 @@ export function createSampleWindow(): SampleWindowState {
   return { ts: [], values: [] };
 }
 
-export function pushSample(w: SampleWindowState, ts: number, value: number, windowMs: number): void {
+/** Add a reading and drop those older than `cutoff` (normally ts − window). */
+export function pushSample(w: SampleWindowState, ts: number, value: number, cutoff: number): void {
   w.ts.push(ts);
   w.values.push(value);
-  const cutoff = ts - windowMs;
   while (w.ts.length > 0 && w.ts[0] < cutoff) {
     w.ts.shift();
     w.values.shift();
@@ -44,9 +44,16 @@ export function isSampleWindowFull(w: SampleWindowState, t: number, windowMs: nu
 export type FittedLine = {
   /** Slope in value units per minute. */
   slopePerMin: number;
-  /** Fitted value at time `atTs`. */
-  valueAt: (atTs: number) => number;
+  /** Fitted value at originTs. */
+  interceptAtOrigin: number;
+  /** The window's first reading time (x = 0). */
+  originTs: number;
 };
+
+/** The fitted line's value at time atTs. */
+export function getFittedValue(line: FittedLine, atTs: number): number {
+  return line.interceptAtOrigin + line.slopePerMin * ((atTs - line.originTs) / 60_000);
+}
 
 // Re-used [x, y] pairs so that a fit allocates nothing per reading.
 const pairPool: [number, number][] = [];
@@ -68,7 +75,7 @@ export function fitSampleWindow(w: SampleWindowState): FittedLine {
     pairView[i] = pair;
   }
   const { m, b } = linearRegression(pairView);
-  return { slopePerMin: m, valueAt: (atTs: number) => b + m * ((atTs - t0) / 60_000) };
+  return { slopePerMin: m, interceptAtOrigin: b, originTs: t0 };
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -79,13 +86,13 @@ export function createRangeWindow(): RangeWindowState {
   return { ts: [], maxQueue: [], minQueue: [] };
 }
 
-export function pushRange(w: RangeWindowState, ts: number, value: number, windowMs: number): void {
+/** Add a reading and drop those older than `cutoff` (normally ts − window). */
+export function pushRange(w: RangeWindowState, ts: number, value: number, cutoff: number): void {
   w.ts.push(ts);
   while (w.maxQueue.length > 0 && w.maxQueue[w.maxQueue.length - 1][1] <= value) w.maxQueue.pop();
   w.maxQueue.push([ts, value]);
   while (w.minQueue.length > 0 && w.minQueue[w.minQueue.length - 1][1] >= value) w.minQueue.pop();
   w.minQueue.push([ts, value]);
-  const cutoff = ts - windowMs;
   while (w.ts.length > 0 && w.ts[0] < cutoff) w.ts.shift();
   while (w.maxQueue.length > 0 && w.maxQueue[0][0] < cutoff) w.maxQueue.shift();
   while (w.minQueue.length > 0 && w.minQueue[0][0] < cutoff) w.minQueue.shift();
@@ -156,10 +163,16 @@ function upperBound(ts: number[], x: number): number {
 }
 
 /**
- * Mean |value| over [to − windowMs, to], or null when that span is not a full window.
+ * Mean |value| over [max(to − windowMs, floorTs), to], or null when the readings there do not
+ * make a full window of windowMs.
  */
-export function getWindowMean(b: MeanBufferState, to: number, windowMs: number): number | null {
-  const first = lowerBound(b.ts, to - windowMs);
+export function getWindowMean(
+  b: MeanBufferState,
+  to: number,
+  windowMs: number,
+  floorTs = Number.NEGATIVE_INFINITY,
+): number | null {
+  const first = lowerBound(b.ts, Math.max(to - windowMs, floorTs));
   const last = upperBound(b.ts, to) - 1;
   const count = last - first + 1;
   if (count <= 0 || !isFull(count, b.ts[first], to, windowMs)) return null;

@@ -183,6 +183,19 @@ describe("charge_high gated by the line running", () => {
     expect(gatewayFirst).toEqual(interleaved);
   });
 
+  it("a meter lagging far behind the gateway still sees the line stopped before its last start", () => {
+    // Gateway: stopped at 0 min, started at 10 min, running readings to 40 min (older history is
+    // dropped beyond the 15 min lag horizon). The meter's readings from 5 min arrive only afterwards.
+    const running = [
+      { sensorKey: "gw-gravure", channel: "running" as const, ts: T0, value: 0 },
+      ...series("gw-gravure", "running", T0 + 10 * MIN, MIN, repeat(1, 31)),
+    ];
+    const lateCharge = series(UNWIND, "charge_kv", T0 + 5 * MIN, S, repeat(15, 60));
+    expect(runRules([gated], [...running, ...lateCharge]).transitions).toEqual([]);
+    // The same readings interleaved in time order agree.
+    expect(runRules([gated], mergeByTs(running, lateCharge)).transitions).toEqual([]);
+  });
+
   it("counts a line as running before its running sensor has reported", () => {
     const charge = series(UNWIND, "charge_kv", T0, S, repeat(15, 20));
     const { transitions } = runRules([gated], charge);

@@ -10,12 +10,16 @@ import { S, T0, baseRule, brief, mergeByTs, runRules, series } from "./fixtures"
 
 const UNWIND = "fm-gp-unwind";
 
-function rateRule(rateKvPerMin: number, over: Partial<ReturnType<typeof baseRule>> = {}): RuleDefinitionInput {
+function rateRule(
+  rateKvPerMin: number,
+  over: Partial<ReturnType<typeof baseRule>> & { onlyWhileRunning?: boolean } = {},
+): RuleDefinitionInput {
+  const { onlyWhileRunning = false, ...rest } = over;
   return {
-    ...baseRule(3, over),
+    ...baseRule(3, rest),
     kind: "charge_rate",
-    onlyWhileRunning: false,
-    params: { rateKvPerMin, clearRateKvPerMin: 1, windowS: 60 },
+    onlyWhileRunning,
+    params: { rateKvPerMin, clearRateKvPerMin: Math.min(1, rateKvPerMin / 2), windowS: 60 },
   };
 }
 
@@ -85,7 +89,7 @@ describe("charge_rate", () => {
   });
 
   it("is gated by the line running when asked", () => {
-    const gated = { ...rateRule(2.5), onlyWhileRunning: true };
+    const gated = rateRule(2.5, { onlyWhileRunning: true });
     const readings = mergeByTs(
       [{ sensorKey: "gw-gravure", channel: "running" as const, ts: T0, value: 0 }],
       series(UNWIND, "charge_kv", T0, 10 * S, RISING_NEGATIVE),

@@ -85,7 +85,7 @@ export function pushAll(engine: RuleEngine, readings: readonly Reading[]): Alert
   return out;
 }
 
-export function runRules(rules: RuleDefinitionInput[], readings: readonly Reading[], topology: Topology = PLANT) {
+export function runRules(rules: readonly RuleDefinitionInput[], readings: readonly Reading[], topology: Topology = PLANT) {
   const engine = createRuleEngine({ rules, topology });
   return { engine, transitions: pushAll(engine, readings) };
 }

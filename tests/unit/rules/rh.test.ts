@@ -115,11 +115,18 @@ describe("rh_forecast", () => {
     expect(types[types.length - 1]).toBe("clear");
     expect(types.filter((t) => t === "raise")).toHaveLength(1);
     const clear = transitions[transitions.length - 1];
-    // The clear needs the projection at +60 min above 32 % for 10 min: only once the window's
-    // slope has turned up; it must come after the RH minimum (31.0 % at 35 min).
-    expect(clear.ts).toBeGreaterThan(T0 + 45 * MIN);
+    // Hand check (x̄ = 15 min in each 30 min window, Σ(x − x̄)² = 700):
+    // window 20..50 min: y = 32.9, 32.1, 31.3, 31.0, 31.2, 31.8, 32.6;
+    //   Σ(x − x̄)·y = −493.5 − 321 − 156.5 + 0 + 156 + 318 + 489 = −8; m = −0.0114286 %/min;
+    //   ȳ = 222.9 / 7 = 31.842857; fitted now = 31.842857 − 15·0.0114286 = 31.671429;
+    //   at +60 min: 31.671429 − 0.685714 = 30.99 % ≤ 30 + 2 margin → not clear.
+    // window 25..55 min: y = 32.1, 31.3, 31.0, 31.2, 31.8, 32.6, 33.5;
+    //   Σ(x − x̄)·y = −481.5 − 313 − 155 + 0 + 159 + 326 + 502.5 = 38; m = 0.0542857 %/min;
+    //   ȳ = 223.5 / 7 = 31.928571; fitted now = 32.742857; at +60 min: 36.0 % > 32 % → clear holds from 55 min.
+    // Off-delay 600 s: clear at 65 min (RH 35.2 %).
+    expect((clear.ts - T0) / MIN).toBe(65);
     expect(clear.peakValue).toBe(31.0);
-    expect(clear.message).toBe("Relative humidity in Press Hall no longer forecast to fall under 30 % within 60 min (now 36.0 %)");
+    expect(clear.message).toBe("Relative humidity in Press Hall no longer forecast to fall under 30 % within 60 min (now 35.2 %)");
   });
 
   it("needs a full window before forecasting", () => {

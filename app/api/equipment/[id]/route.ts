@@ -1,0 +1,23 @@
+// GET /api/equipment/:id — one neutralizer: record, checks, decay trend, effect, history, uploads.
+// PATCH /api/equipment/:id — edit it (engineers); the whole record is sent.
+import { NextResponse } from "next/server";
+import { readJson, route } from "@/app/_server/route";
+import { updateNeutralizerAction } from "@/app/_server/actions/equipment";
+import { getDb } from "@/db/client";
+import { getNeutralizerDetail } from "@/db/queries/equipment";
+import { notFound } from "@/lib/errors";
+import { actionResponse, routeId } from "../_respond";
+
+export const dynamic = "force-dynamic";
+
+export const GET = route<{ id: string }>("view", async ({ params }) => {
+  const id = routeId(params.id);
+  const detail = id !== null ? await getNeutralizerDetail(getDb(), id) : null;
+  if (!detail) throw notFound("No such neutralizer.");
+  return NextResponse.json(detail);
+});
+
+export const PATCH = route<{ id: string }>("equipment.edit", async ({ session, params, request }) => {
+  const body = await readJson(request);
+  return actionResponse(await updateNeutralizerAction.run(session, { ...(typeof body === "object" && body !== null ? body : {}), id: params.id }));
+});

@@ -1,0 +1,47 @@
+// Turns a server action's result into a JSON response with the right status, so route handlers
+// and forms share one validated, permission-checked code path (used by every equipment, checks,
+// devices, uploads and imports route).
+import "server-only";
+import { NextResponse } from "next/server";
+import type { ActionResult } from "@/app/_server/action";
+import { AppError } from "@/lib/errors";
+
+export function actionResponse<T>(result: ActionResult<T>, okStatus = 200): NextResponse {
+  if (result.ok) return NextResponse.json(result.data ?? { ok: true }, { status: okStatus, headers: { "Cache-Control": "no-store" } });
+  const code = { 400: "bad_input", 401: "unauthenticated", 403: "forbidden", 404: "not_found", 409: "conflict", 413: "too_large", 422: "unprocessable" }[result.status] ?? "internal";
+  return NextResponse.json({ error: result.message, code, fieldErrors: result.fieldErrors }, { status: result.status });
+}
+
+/** Positive integer id from a route parameter, or null. */
+export function routeId(raw: string | undefined): number | null {
+  return raw !== undefined && /^[1-9]\d{0,9}$/.test(raw) ? Number(raw) : null;
+}
+
+/** Multipart form data → plain object (files stay File objects) for an action's zod schema. */
+export async function readForm(request: Request): Promise<Record<string, FormDataEntryValue>> {
+  let fd: FormData;
+  try {
+    fd = await request.formData();
+  } catch {
+    throw new AppError("bad_input", "Send the file as multipart/form-data.");
+  }
+  const out: Record<string, FormDataEntryValue> = {};
+  for (const [k, v] of fd.entries()) if (!(k in out)) out[k] = v;
+  return out;
+}
+
+/** Refuses a body larger than `maxBytes` (plus room for the form's other fields) before reading it. */
+export function tooLargeResponse(request: Request, maxBytes: number): NextResponse | null {
+  const length = Number(request.headers.get("content-length") ?? "0");
+  if (Number.isFinite(length) && length > maxBytes + 256 * 1024) {
+    return NextResponse.json({ error: `The file is larger than ${Math.round(maxBytes / 1024 / 1024)} MB.`, code: "too_large", fieldErrors: { file: [`At most ${Math.round(maxBytes / 1024 / 1024)} MB`] } }, { status: 413 });
+  }
+  return null;
+}
+
+/** RFC 6266 / RFC 5987: an ASCII fallback name plus the exact name, percent-encoded as UTF-8. */
+export function contentDisposition(kind: "inline" | "attachment", name: string): string {
+  const ascii = name.replace(/[^\x20-\x7e]/g, "_").replace(/["\\;,%]/g, "_") || "file";
+  const encoded = encodeURIComponent(name).replace(/['()*]/g, (c) => `%${c.charCodeAt(0).toString(16).toUpperCase()}`);
+  return `${kind}; filename="${ascii}"; filename*=UTF-8''${encoded}`;
+}

@@ -1,0 +1,263 @@
+"use client";
+// A time chart on uPlot: created once per mount (uPlot is loaded only in the browser, as its own
+// chunk), then updated in place with setData as data arrive — never re-created per tick.
+// Charts sharing a `syncKey` move one cursor together; a drag selects a time window that the
+// parent applies to all of them (zoom), a click picks a moment (e.g. for a note).
+// Drawn on top: limit lines, markers (notes), spans (alerts), shaded bands (a humidity aim).
+import "uplot/dist/uPlot.min.css";
+import type uPlot from "uplot";
+import { useEffect, useRef } from "react";
+import clsx from "clsx";
+import { tokenColors, withAlpha, type TokenName } from "./token-colors";
+
+export type ChartSeries = {
+  label: string;
+  color: TokenName;
+  width?: number;
+  scale?: "y" | "y2";
+  dash?: number[];
+  /** min/max series only outline the band */
+  faint?: boolean;
+};
+export type HLine = { value: number; scale?: "y" | "y2"; color: TokenName; dash?: number[]; alpha?: number };
+export type HBand = { from: number; to: number; scale?: "y" | "y2"; color: TokenName; alpha: number };
+export type VMarker = { ts: number; label: string; color: TokenName };
+export type Span = { from: number; to: number; color: TokenName; alpha: number };
+export type Axis = { fmt: (v: number) => string; range?: (min: number, max: number) => [number, number]; size?: number; label?: string };
+
+export type TimeChartProps = {
+  syncKey: string;
+  height: number;
+  timeZone: string;
+  xRange: [number, number];
+  /** [xs, ...one array per series]; null is a gap */
+  data: Array<Array<number | null>>;
+  series: ChartSeries[];
+  /** 1-based series indexes of the band's upper and lower edge */
+  band?: { upper: number; lower: number; color: TokenName; alpha: number } | null;
+  y: Axis;
+  y2?: Axis;
+  hLines?: HLine[];
+  hBands?: HBand[];
+  markers?: VMarker[];
+  spans?: Span[];
+  onZoom?: (fromTs: number, toTs: number) => void;
+  onPick?: (ts: number) => void;
+  /** text for the cursor position (null idx: cursor left the chart) */
+  readout?: (idx: number | null, data: uPlot.AlignedData) => string;
+  className?: string;
+  testId?: string;
+  attrs?: Record<string, string | number>;
+};
+
+export function TimeChart(props: TimeChartProps) {
+  const boxRef = useRef<HTMLDivElement>(null);
+  const readoutRef = useRef<HTMLSpanElement>(null);
+  const plotRef = useRef<uPlot | null>(null);
+  const propsRef = useRef(props);
+  propsRef.current = props;
+
+  // create once
+  useEffect(() => {
+    let cancelled = false;
+    let plot: uPlot | null = null;
+    let ro: ResizeObserver | null = null;
+    const box = boxRef.current;
+    if (!box) return;
+    void import("uplot").then(({ default: UPlot }) => {
+      if (cancelled || !boxRef.current) return;
+      const p = propsRef.current;
+      const c = tokenColors();
+      const dpr = () => window.devicePixelRatio || 1;
+      const font = `11px ${getComputedStyle(document.body).fontFamily}`;
+      const axisBase = { stroke: c.inkFaint, font, grid: { stroke: withAlpha(c.paperLine, 0.9), width: 1 }, ticks: { stroke: c.paperLine, width: 1, size: 4 } };
+      const yAxis = (a: Axis, scale: "y" | "y2", side: 1 | 3): uPlot.Axis => ({
+        ...axisBase,
+        scale,
+        side,
+        size: a.size ?? 58,
+        grid: side === 3 ? axisBase.grid : { show: false },
+        values: (_u, splits) => splits.map((v) => (v == null ? "" : a.fmt(v))),
+        label: a.label,
+        labelFont: font,
+        labelSize: a.label ? 14 : 0,
+      });
+      const mouse = { x: 0 };
+      const opts: uPlot.Options = {
+        width: Math.max(200, box.clientWidth),
+        height: p.height,
+        ms: 1,
+        tzDate: (ts) => UPlot.tzDate(new Date(ts), propsRef.current.timeZone),
+        legend: { show: false },
+        padding: [8, 8, 0, 0],
+        cursor: {
+          sync: { key: p.syncKey, scales: ["x", null] },
+          drag: { x: true, y: false, setScale: false },
+          points: { size: 6 },
+        },
+        scales: {
+          x: { time: true, range: () => propsRef.current.xRange },
+          y: { range: (_u, min, max) => (propsRef.current.y.range ? propsRef.current.y.range(min, max) : padRange(min, max)) },
+          ...(p.y2 ? { y2: { range: (_u: uPlot, min: number, max: number) => (propsRef.current.y2?.range ? propsRef.current.y2.range(min, max) : padRange(min, max)) } } : {}),
+        },
+        axes: [{ ...axisBase, space: 70 }, yAxis(p.y, "y", 3), ...(p.y2 ? [yAxis(p.y2, "y2", 1)] : [])],
+        series: [
+          {},
+          ...p.series.map((s) => ({
+            label: s.label,
+            scale: s.scale ?? "y",
+            stroke: s.faint ? withAlpha(c[s.color], 0.35) : c[s.color],
+            width: s.width ?? (s.faint ? 1 : 1.5),
+            dash: s.dash,
+            points: s.faint ? { show: false } : undefined,
+            spanGaps: false,
+          })),
+        ],
+        bands: p.band ? [{ series: [p.band.upper, p.band.lower], fill: withAlpha(c[p.band.color], p.band.alpha) }] : [],
+        hooks: {
+          drawClear: [
+            (u) => {
+              const q = propsRef.current;
+              const ctx = u.ctx;
+              const { left, top, width, height } = u.bbox;
+              ctx.save();
+              ctx.beginPath();
+              ctx.rect(left, top, width, height);
+              ctx.clip();
+              for (const b of q.hBands ?? []) {
+                const y1 = u.valToPos(b.to, b.scale ?? "y", true);
+                const y2 = u.valToPos(b.from, b.scale ?? "y", true);
+                ctx.fillStyle = withAlpha(c[b.color], b.alpha);
+                ctx.fillRect(left, Math.min(y1, y2), width, Math.abs(y2 - y1));
+              }
+              for (const s of q.spans ?? []) {
+                const x1 = u.valToPos(s.from, "x", true);
+                const x2 = u.valToPos(s.to, "x", true);
+                ctx.fillStyle = withAlpha(c[s.color], s.alpha);
+                ctx.fillRect(Math.max(left, x1), top, Math.max(dpr(), Math.min(left + width, x2) - Math.max(left, x1)), height);
+              }
+              ctx.restore();
+            },
+          ],
+          draw: [
+            (u) => {
+              const q = propsRef.current;
+              const ctx = u.ctx;
+              const { left, top, width, height } = u.bbox;
+              ctx.save();
+              ctx.beginPath();
+              ctx.rect(left, top, width, height);
+              ctx.clip();
+              for (const h of q.hLines ?? []) {
+                const y = Math.round(u.valToPos(h.value, h.scale ?? "y", true)) + 0.5;
+                ctx.strokeStyle = withAlpha(c[h.color], h.alpha ?? 0.8);
+                ctx.lineWidth = dpr();
+                ctx.setLineDash((h.dash ?? [6, 4]).map((d) => d * dpr()));
+                ctx.beginPath();
+                ctx.moveTo(left, y);
+                ctx.lineTo(left + width, y);
+                ctx.stroke();
+              }
+              ctx.setLineDash([3 * dpr(), 3 * dpr()]);
+              ctx.font = `600 ${10 * dpr()}px ${getComputedStyle(document.body).fontFamily}`;
+              ctx.textBaseline = "top";
+              for (const m of q.markers ?? []) {
+                const x = Math.round(u.valToPos(m.ts, "x", true)) + 0.5;
+                if (x < left || x > left + width) continue;
+                ctx.strokeStyle = c[m.color];
+                ctx.lineWidth = dpr();
+                ctx.beginPath();
+                ctx.moveTo(x, top);
+                ctx.lineTo(x, top + height);
+                ctx.stroke();
+                const tw = ctx.measureText(m.label).width + 6 * dpr();
+                ctx.fillStyle = c[m.color];
+                ctx.fillRect(x, top, tw, 13 * dpr());
+                ctx.fillStyle = "white";
+                ctx.fillText(m.label, x + 3 * dpr(), top + 1.5 * dpr());
+              }
+              ctx.restore();
+            },
+          ],
+          setSelect: [
+            (u) => {
+              const sel = u.select;
+              if (sel.width > 4 && propsRef.current.onZoom) {
+                const a = u.posToVal(sel.left, "x");
+                const b = u.posToVal(sel.left + sel.width, "x");
+                propsRef.current.onZoom(Math.round(a), Math.round(b));
+              }
+              if (sel.width > 0) u.setSelect({ left: 0, top: 0, width: 0, height: 0 }, false);
+            },
+          ],
+          setCursor: [
+            (u) => {
+              const r = readoutRef.current;
+              const fn = propsRef.current.readout;
+              if (!r || !fn) return;
+              const idx = u.cursor.idx ?? null;
+              r.textContent = fn(u.cursor.left !== undefined && u.cursor.left >= 0 ? idx : null, u.data);
+            },
+          ],
+        },
+      };
+      plot = new UPlot(opts, p.data as uPlot.AlignedData, box);
+      plotRef.current = plot;
+      const over = plot.over;
+      over.addEventListener("mousedown", (e) => {
+        mouse.x = e.clientX;
+      });
+      over.addEventListener("mouseup", (e) => {
+        const fn = propsRef.current.onPick;
+        if (!fn || !plot || Math.abs(e.clientX - mouse.x) > 3 || plot.cursor.left === undefined || plot.cursor.left < 0) return;
+        fn(Math.round(plot.posToVal(plot.cursor.left, "x")));
+      });
+      ro = new ResizeObserver(() => {
+        if (plot && boxRef.current) plot.setSize({ width: Math.max(200, boxRef.current.clientWidth), height: propsRef.current.height });
+      });
+      ro.observe(box);
+      if (readoutRef.current && p.readout) readoutRef.current.textContent = p.readout(null, plot.data);
+    });
+    return () => {
+      cancelled = true;
+      ro?.disconnect();
+      plot?.destroy();
+      plotRef.current = null;
+    };
+    // created once per mount; later changes go through setData / redraw below
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+  }, []);
+
+  // new data or a new window: update in place
+  const { data, xRange, hLines, hBands, markers, spans } = props;
+  useEffect(() => {
+    const plot = plotRef.current;
+    if (!plot) return;
+    plot.setData(data as uPlot.AlignedData, true);
+    const r = readoutRef.current;
+    if (r && propsRef.current.readout && (plot.cursor.left === undefined || plot.cursor.left < 0)) r.textContent = propsRef.current.readout(null, plot.data);
+  }, [data, xRange]);
+  useEffect(() => {
+    plotRef.current?.redraw(false, false);
+  }, [hLines, hBands, markers, spans]);
+
+  return (
+    <div className={clsx("relative", props.className)} data-testid={props.testId} {...dataAttrs(props.attrs)}>
+      <div ref={boxRef} className="w-full" style={{ minHeight: props.height }} />
+      {props.readout ? <span ref={readoutRef} className="num pointer-events-none absolute right-2 top-0 text-[11px] text-ink-faint" aria-hidden="true" /> : null}
+    </div>
+  );
+}
+
+function dataAttrs(attrs?: Record<string, string | number>): Record<string, string> {
+  const out: Record<string, string> = {};
+  for (const [k, v] of Object.entries(attrs ?? {})) out[`data-${k}`] = String(v);
+  return out;
+}
+
+function padRange(min: number | null, max: number | null): [number, number] {
+  if (min === null || max === null || !Number.isFinite(min) || !Number.isFinite(max)) return [0, 1];
+  if (min === max) return [min - 1, max + 1];
+  const pad = (max - min) * 0.08;
+  return [min - pad, max + pad];
+}

@@ -1,0 +1,202 @@
+// Read models for the live screens: plant settings (time zone, shifts, units), the Floor's
+// current-state snapshot (structure, limits, open alerts, the last 15 minutes of every sensor)
+// and the alerts drawn on a line's time axis.
+import { and, desc, eq, gte, isNull, lte, ne, or } from "drizzle-orm";
+import type { Db } from "../client";
+import { alerts, devices, settings } from "../schema";
+import { DEFAULT_PLANT_SETTINGS, plantSettingsSchema, type PlantSettings } from "../../lib/plant-settings";
+import { getPlantLayout, type PlantArea } from "./plant";
+import { getRecentTrends, type RecentSeries } from "./history";
+import { listLimitRules, resolveChargeLimit, resolveRhLimit, type ChargeLimit, type RhLimit } from "./limits";
+
+/** The "plant" settings row, with defaults for anything missing or unreadable. */
+export async function getPlantSettings(db: Db): Promise<PlantSettings> {
+  const rows = await db.select({ value: settings.value }).from(settings).where(eq(settings.key, "plant")).limit(1);
+  const parsed = plantSettingsSchema.safeParse(rows[0]?.value ?? {});
+  if (parsed.success) return parsed.data;
+  return { name: "Plant", ...DEFAULT_PLANT_SETTINGS };
+}
+
+export type FloorPoint = {
+  id: number;
+  name: string;
+  position: number;
+  fieldMeter: { deviceId: number; code: string; enabled: boolean; lastSeenTs: number | null } | null;
+  neutralizer: { id: number; tag: string; kind: string; state: string } | null;
+  limit: ChargeLimit | null;
+  openAlerts: number;
+  shelved: boolean;
+};
+
+export type FloorLine = {
+  id: number;
+  areaId: number;
+  name: string;
+  kind: string;
+  nominalSpeedMpm: number;
+  material: string | null;
+  solventName: string | null;
+  speedGateway: { deviceId: number; lastSeenTs: number | null } | null;
+  openAlerts: number;
+  points: FloorPoint[];
+};
+
+export type FloorArea = {
+  id: number;
+  slug: string;
+  name: string;
+  rhMinPct: number;
+  rhMaxPct: number;
+  tempSetpointC: number;
+  rhLimit: RhLimit;
+  logger: { deviceId: number; code: string; lastSeenTs: number | null } | null;
+  /** open alerts of the hall itself (humidity), not of its lines */
+  openAlerts: number;
+  lines: FloorLine[];
+};
+
+export type FloorSnapshot = {
+  nowTs: number;
+  settings: PlantSettings;
+  areas: FloorArea[];
+  /** last `trendMs` of every sensor: bucket means plus the exact newest reading */
+  series: RecentSeries[];
+  trendMs: number;
+};
+
+export const FLOOR_TREND_MS = 15 * 60_000;
+export const FLOOR_TREND_BUCKET_MS = 10_000;
+
+type OpenAlertRow = { areaId: number | null; lineId: number | null; pointId: number | null; shelvedUntilTs: number | null };
+
+async function listOpenAlerts(db: Db): Promise<OpenAlertRow[]> {
+  return db
+    .select({ areaId: alerts.areaId, lineId: alerts.lineId, pointId: alerts.pointId, shelvedUntilTs: alerts.shelvedUntilTs })
+    .from(alerts)
+    .where(ne(alerts.state, "closed"))
+    .limit(5000);
+}
+
+/** Structure, limits and open alerts of the whole plant, or of one hall when areaId is given. */
+export async function getFloorStructure(db: Db, opts: { nowMs?: number; areaId?: number } = {}): Promise<FloorArea[]> {
+  const nowMs = opts.nowMs ?? Date.now();
+  const [layout, limitRules, open, deviceSeen] = await Promise.all([
+    getPlantLayout(db),
+    listLimitRules(db),
+    listOpenAlerts(db),
+    db.select({ id: devices.id, lastSeenTs: devices.lastSeenTs }).from(devices),
+  ]);
+  const seen = new Map(deviceSeen.map((d) => [d.id, d.lastSeenTs]));
+  const areas: PlantArea[] = opts.areaId === undefined ? layout : layout.filter((a) => a.id === opts.areaId);
+  return areas.map((a) => ({
+    id: a.id,
+    slug: a.slug,
+    name: a.name,
+    rhMinPct: a.rhMinPct,
+    rhMaxPct: a.rhMaxPct,
+    tempSetpointC: a.tempSetpointC,
+    rhLimit: resolveRhLimit({ areaId: a.id, rhMinPct: a.rhMinPct }, limitRules),
+    logger: a.logger ? { deviceId: a.logger.id, code: a.logger.code, lastSeenTs: seen.get(a.logger.id) ?? null } : null,
+    openAlerts: open.filter((x) => x.areaId === a.id && x.lineId === null).length,
+    lines: a.lines.map((l) => ({
+      id: l.id,
+      areaId: l.areaId,
+      name: l.name,
+      kind: l.kind,
+      nominalSpeedMpm: l.nominalSpeedMpm,
+      material: l.material,
+      solventName: l.solventName,
+      speedGateway: l.speedGateway ? { deviceId: l.speedGateway.id, lastSeenTs: seen.get(l.speedGateway.id) ?? null } : null,
+      openAlerts: open.filter((x) => x.lineId === l.id).length,
+      points: l.points.map((p) => ({
+        id: p.id,
+        name: p.name,
+        position: p.position,
+        fieldMeter: p.fieldMeter
+          ? { deviceId: p.fieldMeter.id, code: p.fieldMeter.code, enabled: p.fieldMeter.enabled, lastSeenTs: seen.get(p.fieldMeter.id) ?? null }
+          : null,
+        neutralizer: p.neutralizer,
+        limit: resolveChargeLimit({ pointId: p.id, lineId: l.id, areaId: a.id }, limitRules),
+        openAlerts: open.filter((x) => x.pointId === p.id).length,
+        shelved: open.some((x) => x.pointId === p.id && x.shelvedUntilTs !== null && x.shelvedUntilTs > nowMs),
+      })),
+    })),
+  }));
+}
+
+/** Every sensor device id of a set of halls (loggers, speed gateways, field meters). */
+export function deviceIdsOf(areas: FloorArea[]): number[] {
+  const ids: number[] = [];
+  for (const a of areas) {
+    if (a.logger) ids.push(a.logger.deviceId);
+    for (const l of a.lines) {
+      if (l.speedGateway) ids.push(l.speedGateway.deviceId);
+      for (const p of l.points) if (p.fieldMeter) ids.push(p.fieldMeter.deviceId);
+    }
+  }
+  return ids;
+}
+
+/** The Floor (or one hall for the wallboard): structure plus the last 15 minutes of every sensor. */
+export async function getFloorSnapshot(db: Db, opts: { nowMs?: number; areaId?: number } = {}): Promise<FloorSnapshot> {
+  const nowTs = opts.nowMs ?? Date.now();
+  const [plantSettings, areas] = await Promise.all([getPlantSettings(db), getFloorStructure(db, { nowMs: nowTs, areaId: opts.areaId })]);
+  const fromTs = Math.floor((nowTs - FLOOR_TREND_MS) / FLOOR_TREND_BUCKET_MS) * FLOOR_TREND_BUCKET_MS;
+  const series = await getRecentTrends(db, deviceIdsOf(areas), fromTs, nowTs, FLOOR_TREND_BUCKET_MS);
+  return { nowTs, settings: plantSettings, areas, series, trendMs: FLOOR_TREND_MS };
+}
+
+export type TimelineAlert = {
+  id: number;
+  kind: string;
+  severity: string;
+  state: string;
+  message: string;
+  startTs: number;
+  endTs: number | null;
+  pointId: number | null;
+  lineId: number | null;
+  areaId: number | null;
+  peakValue: number | null;
+  shelvedUntilTs: number | null;
+};
+
+/** Alerts of a line (and its hall's own humidity alerts) that overlap [fromTs, toTs]. */
+export async function listLineAlerts(db: Db, q: { lineId: number; areaId: number; fromTs: number; toTs: number; limit?: number }): Promise<TimelineAlert[]> {
+  return db
+    .select({
+      id: alerts.id,
+      kind: alerts.kind,
+      severity: alerts.severity,
+      state: alerts.state,
+      message: alerts.message,
+      startTs: alerts.startTs,
+      endTs: alerts.endTs,
+      pointId: alerts.pointId,
+      lineId: alerts.lineId,
+      areaId: alerts.areaId,
+      peakValue: alerts.peakValue,
+      shelvedUntilTs: alerts.shelvedUntilTs,
+    })
+    .from(alerts)
+    .where(
+      and(
+        or(eq(alerts.lineId, q.lineId), and(eq(alerts.areaId, q.areaId), isNull(alerts.lineId))),
+        lte(alerts.startTs, q.toTs),
+        or(isNull(alerts.endTs), gte(alerts.endTs, q.fromTs), ne(alerts.state, "closed")),
+      ),
+    )
+    .orderBy(desc(alerts.startTs))
+    .limit(Math.min(q.limit ?? 200, 1000));
+}
+
+/** Ids of the line's devices (speed gateway, field meters) and its hall's logger, for the live stream's filter. */
+export function liveDeviceIdsOfLine(area: FloorArea, lineId: number): number[] {
+  const line = area.lines.find((l) => l.id === lineId);
+  const ids: number[] = [];
+  if (area.logger) ids.push(area.logger.deviceId);
+  if (line?.speedGateway) ids.push(line.speedGateway.deviceId);
+  for (const p of line?.points ?? []) if (p.fieldMeter) ids.push(p.fieldMeter.deviceId);
+  return ids;
+}
+

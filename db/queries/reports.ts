@@ -1,0 +1,371 @@
+// Read models behind the reports (shift handover, weekly line review, equipment compliance) and
+// the handover e-mail's outbox row. Loads exactly the rows a report needs (explicit columns,
+// people by name only) and hands them to the pure builders in lib/reports.
+import { and, asc, eq, gte, inArray, isNull, lt, or, sql } from "drizzle-orm";
+import type { Db } from "../client";
+import {
+  alertEvents,
+  alerts,
+  checks,
+  devices,
+  lineNotes,
+  neutralizers,
+  outbox,
+  people,
+  rollup1h,
+  rollup1m,
+  ruleVersions,
+  rules,
+  settings,
+  readings,
+} from "../schema";
+import { getPlantLayout, type PlantArea } from "./plant";
+import { DEFAULT_PLANT_SETTINGS, plantSettingsSchema, type PlantSettings } from "../../lib/plant-settings";
+import { dateRangeWindow, localTimeToTs, shiftWindowFor, weekWindow, type ShiftWindow } from "../../lib/report-shifts";
+import { buildCompliance, type ComplianceCheckInput, type ComplianceReport } from "../../lib/reports/compliance";
+import { buildHandover, RAW_HOLD_MS, type HandoverAlertInput, type HandoverReport } from "../../lib/reports/handover";
+import type { StoredRule } from "../../lib/reports/limits";
+import { bucketExtreme, type Sample } from "../../lib/reports/series";
+import { buildPlaceIndex } from "../../lib/reports/types";
+import { buildWeekly, MINUTE_HOLD_MS, type HourlyMean, type WeeklyReport } from "../../lib/reports/weekly";
+
+/** The plant settings (settings key "plant"), with defaults for anything missing or invalid. */
+export async function getPlantSettings(db: Db): Promise<PlantSettings> {
+  const rows = await db.select({ value: settings.value }).from(settings).where(eq(settings.key, "plant")).limit(1);
+  const parsed = plantSettingsSchema.safeParse(rows[0]?.value ?? {});
+  if (parsed.success) return parsed.data;
+  return { name: "Plant", ...DEFAULT_PLANT_SETTINGS };
+}
+
+/** Every rule with its current version's severity and params. */
+export async function loadStoredRules(db: Db): Promise<StoredRule[]> {
+  const rows = await db
+    .select({
+      ruleId: rules.id,
+      kind: rules.kind,
+      name: rules.name,
+      enabled: rules.enabled,
+      pointId: rules.pointId,
+      lineId: rules.lineId,
+      areaId: rules.areaId,
+      severity: ruleVersions.severity,
+      params: ruleVersions.params,
+    })
+    .from(rules)
+    .innerJoin(ruleVersions, and(eq(ruleVersions.ruleId, rules.id), eq(ruleVersions.version, rules.currentVersion)))
+    .orderBy(asc(rules.id));
+  return rows;
+}
+
+function groupSamples(rows: readonly { deviceId: number; ts: number; value: number }[]): Map<number, Sample[]> {
+  const out = new Map<number, Sample[]>();
+  for (const r of rows) {
+    let list = out.get(r.deviceId);
+    if (!list) out.set(r.deviceId, (list = []));
+    list.push({ ts: r.ts, value: r.value });
+  }
+  return out;
+}
+
+/**
+ * Raw readings of one channel for some devices from `fromTs − holdMs` (so a reading just before
+ * the window still counts for its hold) to `toTs`, oldest first, grouped by device.
+ */
+export async function loadRawSeries(db: Db, channel: string, deviceIds: readonly number[], fromTs: number, toTs: number, holdMs: number): Promise<Map<number, Sample[]>> {
+  if (deviceIds.length === 0) return new Map();
+  const rows = await db
+    .select({ deviceId: readings.deviceId, ts: readings.ts, value: readings.value })
+    .from(readings)
+    .where(and(inArray(readings.deviceId, [...deviceIds]), eq(readings.channel, channel), gte(readings.ts, fromTs - holdMs), lt(readings.ts, toTs)))
+    .orderBy(asc(readings.deviceId), asc(readings.ts));
+  return groupSamples(rows);
+}
+
+const fieldMeterIds = (plant: readonly PlantArea[]) => plant.flatMap((a) => a.lines.flatMap((l) => l.points.flatMap((p) => (p.fieldMeter ? [p.fieldMeter.id] : []))));
+const loggerIds = (plant: readonly PlantArea[]) => plant.flatMap((a) => (a.logger ? [a.logger.id] : []));
+
+/** Alerts active at any time in [fromTs, toTs), with rule names, who acknowledged and what people wrote. */
+export async function loadAlertsInWindow(db: Db, fromTs: number, toTs: number): Promise<HandoverAlertInput[]> {
+  const rows = await db
+    .select({
+      id: alerts.id,
+      kind: alerts.kind,
+      severity: alerts.severity,
+      ruleName: rules.name,
+      message: alerts.message,
+      state: alerts.state,
+      startTs: alerts.startTs,
+      endTs: alerts.endTs,
+      peakValue: alerts.peakValue,
+      chattering: alerts.chattering,
+      shelvedUntilTs: alerts.shelvedUntilTs,
+      shelvedReason: alerts.shelvedReason,
+      ackedByName: people.name,
+      ackedTs: alerts.ackedTs,
+      areaId: alerts.areaId,
+      lineId: alerts.lineId,
+      pointId: alerts.pointId,
+      deviceId: alerts.deviceId,
+      neutralizerId: alerts.neutralizerId,
+    })
+    .from(alerts)
+    .leftJoin(rules, eq(rules.id, alerts.ruleId))
+    .leftJoin(people, eq(people.id, alerts.ackedBy))
+    .where(and(lt(alerts.startTs, toTs), or(isNull(alerts.endTs), sql`${alerts.endTs} > ${fromTs}`)))
+    .orderBy(asc(alerts.startTs), asc(alerts.id));
+  if (rows.length === 0) return [];
+  const events = await db
+    .select({ alertId: alertEvents.alertId, ts: alertEvents.ts, kind: alertEvents.kind, personName: people.name, comment: alertEvents.comment })
+    .from(alertEvents)
+    .leftJoin(people, eq(people.id, alertEvents.personId))
+    .where(and(inArray(alertEvents.alertId, rows.map((r) => r.id)), inArray(alertEvents.kind, ["acknowledged", "commented", "shelved", "unshelved"])))
+    .orderBy(asc(alertEvents.ts), asc(alertEvents.id));
+  const byAlert = new Map<number, HandoverAlertInput["events"][number][]>();
+  for (const e of events) {
+    const list = byAlert.get(e.alertId) ?? [];
+    list.push({ ts: e.ts, kind: e.kind, personName: e.personName, comment: e.comment });
+    byAlert.set(e.alertId, list);
+  }
+  return rows.map((r) => ({ ...r, events: byAlert.get(r.id) ?? [] }));
+}
+
+/** Neutralizers with their intervals, last cleaning and the last check before `beforeTs`. */
+export async function loadNeutralizerRecords(db: Db, beforeTs: number, timeZone: string) {
+  const list = await db
+    .select({
+      id: neutralizers.id,
+      tag: neutralizers.tag,
+      kind: neutralizers.kind,
+      state: neutralizers.state,
+      pointId: neutralizers.pointId,
+      cleaningIntervalDays: neutralizers.cleaningIntervalDays,
+      checkIntervalDays: neutralizers.checkIntervalDays,
+      lastCleanedTs: neutralizers.lastCleanedTs,
+      installedOn: neutralizers.installedOn,
+    })
+    .from(neutralizers)
+    .orderBy(asc(neutralizers.tag));
+  const last = await db
+    .select({ neutralizerId: checks.neutralizerId, ts: checks.ts, passed: checks.passed, failReasons: checks.failReasons, id: checks.id })
+    .from(checks)
+    .where(lt(checks.ts, beforeTs))
+    .orderBy(asc(checks.neutralizerId), asc(checks.ts), asc(checks.id));
+  const lastBy = new Map<number, { ts: number; passed: boolean; failReasons: string | null }>();
+  for (const c of last) lastBy.set(c.neutralizerId, { ts: c.ts, passed: c.passed, failReasons: c.failReasons });
+  return list.map(({ installedOn, ...n }) => ({
+    ...n,
+    installedTs: installedOn ? localTimeToTs(installedOn, 0, timeZone) : null,
+    lastCheck: lastBy.get(n.id) ?? null,
+  }));
+}
+
+export async function loadLineNotes(db: Db, fromTs: number, toTs: number) {
+  return db
+    .select({ id: lineNotes.id, ts: lineNotes.ts, lineId: lineNotes.lineId, pointId: lineNotes.pointId, text: lineNotes.text, personName: people.name })
+    .from(lineNotes)
+    .leftJoin(people, eq(people.id, lineNotes.personId))
+    .where(and(gte(lineNotes.ts, fromTs), lt(lineNotes.ts, toTs)))
+    .orderBy(asc(lineNotes.ts), asc(lineNotes.id));
+}
+
+// ---------------------------------------------------------------------------------------------
+// Shift handover
+// ---------------------------------------------------------------------------------------------
+
+export type HandoverRequest = { date: string; shift: string };
+
+/** The handover of a shift, or null when the plant has no shift of that name. */
+export async function getHandoverReport(db: Db, req: HandoverRequest, nowTs: number): Promise<HandoverReport | null> {
+  const plantSettings = await getPlantSettings(db);
+  const window = shiftWindowFor(req.date, req.shift, plantSettings);
+  if (!window) return null;
+  return buildHandoverForWindow(db, window, plantSettings.name, nowTs);
+}
+
+export async function buildHandoverForWindow(db: Db, window: ShiftWindow, plantName: string, nowTs: number): Promise<HandoverReport> {
+  const plant = await getPlantLayout(db);
+  const [ruleList, chargeSeries, rhSeries, alertList, neutralizerList, notes] = await Promise.all([
+    loadStoredRules(db),
+    loadRawSeries(db, "charge_kv", fieldMeterIds(plant), window.startTs, window.endTs, RAW_HOLD_MS),
+    loadRawSeries(db, "rh_pct", loggerIds(plant), window.startTs, window.endTs, RAW_HOLD_MS),
+    loadAlertsInWindow(db, window.startTs, window.endTs),
+    loadNeutralizerRecords(db, window.endTs, window.timeZone),
+    loadLineNotes(db, window.startTs, window.endTs),
+  ]);
+  return buildHandover({
+    plantName,
+    window,
+    generatedTs: nowTs,
+    plant,
+    rules: ruleList,
+    chargeSeries,
+    rhSeries,
+    alerts: alertList,
+    neutralizers: neutralizerList,
+    notes,
+  });
+}
+
+/** People who can take a handover (shift leads and up), by name; the e-mail stays on the server. */
+export async function listHandoverRecipients(db: Db): Promise<{ id: number; name: string; role: string }[]> {
+  return db
+    .select({ id: people.id, name: people.name, role: people.role })
+    .from(people)
+    .where(and(eq(people.active, true), inArray(people.role, ["shift_lead", "engineer", "admin"])))
+    .orderBy(asc(people.name));
+}
+
+export async function getRecipient(db: Db, personId: number): Promise<{ id: number; name: string; email: string; role: string; active: boolean } | null> {
+  const rows = await db.select({ id: people.id, name: people.name, email: people.email, role: people.role, active: people.active }).from(people).where(eq(people.id, personId)).limit(1);
+  return rows[0] ?? null;
+}
+
+export type OutboxMail = { dedupeKey: string; toAddress: string; subject: string; bodyText: string; bodyHtml?: string | null };
+
+/**
+ * Queues a mail for the mailer loop. Returns false (and changes nothing) when a mail with the
+ * same dedupe key is already queued or sent: the unique key makes a double click harmless.
+ */
+export async function queueOutboxMail(db: Db, mail: OutboxMail, nowTs: number): Promise<{ queued: boolean; id: number | null }> {
+  try {
+    const [res] = await db
+      .insert(outbox)
+      .values({ ...mail, bodyHtml: mail.bodyHtml ?? null, state: "pending", attempts: 0, nextAttemptTs: nowTs, createdTs: nowTs });
+    return { queued: true, id: res.insertId };
+  } catch (err) {
+    if (isDuplicateKey(err)) return { queued: false, id: null };
+    throw err;
+  }
+}
+
+function isDuplicateKey(err: unknown): boolean {
+  const code = (e: unknown) => (typeof e === "object" && e !== null && "code" in e ? (e as { code?: unknown }).code : undefined);
+  const cause = typeof err === "object" && err !== null && "cause" in err ? (err as { cause?: unknown }).cause : undefined;
+  return code(err) === "ER_DUP_ENTRY" || code(cause) === "ER_DUP_ENTRY";
+}
+
+// ---------------------------------------------------------------------------------------------
+// Weekly line review
+// ---------------------------------------------------------------------------------------------
+
+export type WeeklyRequest = { lineId: number; date: string };
+
+export async function getWeeklyReport(db: Db, req: WeeklyRequest, nowTs: number): Promise<WeeklyReport | null> {
+  const plantSettings = await getPlantSettings(db);
+  const plant = await getPlantLayout(db);
+  const area = plant.find((a) => a.lines.some((l) => l.id === req.lineId));
+  const line = area?.lines.find((l) => l.id === req.lineId);
+  if (!area || !line) return null;
+  const window = weekWindow(req.date, plantSettings.timeZone);
+  const meterIds = line.points.flatMap((p) => (p.fieldMeter ? [p.fieldMeter.id] : []));
+  const hourlyIds = [...meterIds, ...(line.speedGateway ? [line.speedGateway.id] : []), ...(area.logger ? [area.logger.id] : [])];
+  const pointIds = line.points.map((p) => p.id);
+
+  const [ruleList, minuteCharge, minuteRh, hourlyRows, alertRows] = await Promise.all([
+    loadStoredRules(db),
+    meterIds.length
+      ? db
+          .select({ deviceId: rollup1m.deviceId, bucketTs: rollup1m.bucketTs, min: rollup1m.min, max: rollup1m.max })
+          .from(rollup1m)
+          .where(and(inArray(rollup1m.deviceId, meterIds), eq(rollup1m.channel, "charge_kv"), gte(rollup1m.bucketTs, window.startTs - MINUTE_HOLD_MS), lt(rollup1m.bucketTs, window.endTs)))
+          .orderBy(asc(rollup1m.deviceId), asc(rollup1m.bucketTs))
+      : Promise.resolve([]),
+    area.logger
+      ? db
+          .select({ bucketTs: rollup1m.bucketTs, min: rollup1m.min })
+          .from(rollup1m)
+          .where(and(eq(rollup1m.deviceId, area.logger.id), eq(rollup1m.channel, "rh_pct"), gte(rollup1m.bucketTs, window.startTs - MINUTE_HOLD_MS), lt(rollup1m.bucketTs, window.endTs)))
+          .orderBy(asc(rollup1m.bucketTs))
+      : Promise.resolve([]),
+    hourlyIds.length
+      ? db
+          .select({ deviceId: rollup1h.deviceId, channel: rollup1h.channel, bucketTs: rollup1h.bucketTs, sum: rollup1h.sum, count: rollup1h.count })
+          .from(rollup1h)
+          .where(and(inArray(rollup1h.deviceId, hourlyIds), gte(rollup1h.bucketTs, window.startTs), lt(rollup1h.bucketTs, window.endTs)))
+      : Promise.resolve([]),
+    db
+      .select({
+        id: alerts.id,
+        ruleId: alerts.ruleId,
+        ruleName: rules.name,
+        kind: alerts.kind,
+        severity: alerts.severity,
+        startTs: alerts.startTs,
+        endTs: alerts.endTs,
+        chattering: alerts.chattering,
+        pointId: alerts.pointId,
+        lineId: alerts.lineId,
+        areaId: alerts.areaId,
+      })
+      .from(alerts)
+      .leftJoin(rules, eq(rules.id, alerts.ruleId))
+      .where(
+        and(
+          gte(alerts.startTs, window.startTs),
+          lt(alerts.startTs, window.endTs),
+          or(
+            eq(alerts.lineId, line.id),
+            pointIds.length ? inArray(alerts.pointId, pointIds) : sql`false`,
+            and(eq(alerts.areaId, area.id), isNull(alerts.lineId), isNull(alerts.pointId)),
+          ),
+        ),
+      )
+      .orderBy(asc(alerts.startTs)),
+  ]);
+
+  const hourly: HourlyMean[] = hourlyRows.filter((r) => r.count > 0).map((r) => ({ deviceId: r.deviceId, channel: r.channel, bucketTs: r.bucketTs, mean: r.sum / r.count }));
+  return buildWeekly({
+    plantName: plantSettings.name,
+    window,
+    generatedTs: nowTs,
+    area,
+    line,
+    rules: ruleList,
+    minuteCharge: groupSamples(minuteCharge.map((r) => ({ deviceId: r.deviceId, ts: r.bucketTs, value: bucketExtreme(r.min, r.max) }))),
+    minuteRhMin: minuteRh.map((r) => ({ ts: r.bucketTs, value: r.min })),
+    hourly,
+    alerts: alertRows,
+  });
+}
+
+// ---------------------------------------------------------------------------------------------
+// Equipment compliance
+// ---------------------------------------------------------------------------------------------
+
+export type ComplianceRequest = { from: string; to: string };
+
+export async function getComplianceReport(db: Db, req: ComplianceRequest, nowTs: number): Promise<ComplianceReport> {
+  const plantSettings = await getPlantSettings(db);
+  const window = dateRangeWindow(req.from, req.to, plantSettings.timeZone);
+  const plant = await getPlantLayout(db);
+  const places = buildPlaceIndex(plant);
+  const [neutralizerRows, checkRows, meterRows] = await Promise.all([
+    loadNeutralizerRecords(db, window.endTs, plantSettings.timeZone),
+    db
+      .select({ id: checks.id, neutralizerId: checks.neutralizerId, ts: checks.ts, passed: checks.passed, failReasons: checks.failReasons, personName: people.name })
+      .from(checks)
+      .leftJoin(people, eq(people.id, checks.personId))
+      .where(lt(checks.ts, window.endTs))
+      .orderBy(asc(checks.ts), asc(checks.id)),
+    db
+      .select({ id: devices.id, code: devices.code, label: devices.label, kind: devices.kind, pointId: devices.pointId, lineId: devices.lineId, areaId: devices.areaId, calibrationDue: devices.calibrationDue })
+      .from(devices)
+      .where(and(eq(devices.enabled, true), inArray(devices.kind, ["field_meter", "th_logger"])))
+      .orderBy(asc(devices.code)),
+  ]);
+  const checkList: ComplianceCheckInput[] = checkRows;
+  return buildCompliance({
+    plantName: plantSettings.name,
+    window,
+    generatedTs: nowTs,
+    neutralizers: neutralizerRows.map((n) => ({ ...n, where: places.where({ pointId: n.pointId }) })),
+    checks: checkList,
+    meters: meterRows.map((m) => ({
+      id: m.id,
+      deviceCode: m.code,
+      label: m.label,
+      where: places.where({ pointId: m.pointId, lineId: m.lineId, areaId: m.areaId }),
+      calibrationDue: m.calibrationDue,
+    })),
+  });
+}

@@ -1,0 +1,145 @@
+// The words of Stillfield's alert e-mails (pure: data in, subject/text/html out): the on-call
+// e-mail for one alert and the daily digest of a day's alerts. Each alert e-mail says what,
+// where, since when, the peak, and links to the line page at the alert's time; the state code is
+// the same shape-and-word set the screens use (STATE_SYMBOLS / STATE_WORDS).
+import { formatPlantTime } from "../lib/shifts";
+import { ALERT_STATE_LABELS, RULE_KIND_LABELS, SEVERITY_LABELS, alertStateCode, stateCodeText, type AlertStateName, type RuleKindName, type SeverityName } from "../components/alerts/labels";
+import { formatAlertValue, formatDurationMs } from "../components/alerts/format";
+
+export type AlertMailInput = {
+  alertId: number;
+  kind: RuleKindName;
+  severity: SeverityName;
+  state: AlertStateName;
+  message: string;
+  startTs: number;
+  peakValue: number | null;
+  expectedCrossingTs: number | null;
+  areaName: string | null;
+  lineName: string | null;
+  pointName: string | null;
+  /** the place words from the subject directory, when known ("Press Hall › Gravure Press 1 › Unwind") */
+  where: string | null;
+  /** the line page to link to (the alert's line, or the first line of its hall) */
+  linkLineId: number | null;
+};
+
+export type MailText = { subject: string; text: string; html: string };
+
+export function escapeHtml(s: string): string {
+  return s.replace(/[&<>"']/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c] ?? c);
+}
+
+export function lineLinkAt(appUrl: string, lineId: number, ts: number): string {
+  return `${appUrl.replace(/\/$/, "")}/lines/${lineId}?at=${ts}`;
+}
+
+function whereText(a: AlertMailInput): string {
+  return a.where ?? ([a.areaName, a.lineName, a.pointName].filter(Boolean).join(" › ") || "the plant");
+}
+
+const SAFETY =
+  "Stillfield is a monitoring aid, not a safety system. Where solvents are used, static hazards are assessed by a qualified person under NFPA 77, IEC TS 60079-32-1 and local codes; isolate power units before touching neutralizers.";
+
+/**
+ * The e-mail to an on-call person. `level` 1 is the first call; 2 and up say it is an
+ * escalation because nobody acknowledged.
+ */
+export function composeAlertEmail(
+  a: AlertMailInput,
+  opts: { level: number; recipientName: string; appUrl: string; timeZone: string; nowMs: number; unackedForMs: number },
+): MailText {
+  const code = alertStateCode({ kind: a.kind, state: a.state, shelved: false });
+  const codeText = stateCodeText(code);
+  const where = whereText(a);
+  const what = RULE_KIND_LABELS[a.kind];
+  const since = formatPlantTime(a.startTs, opts.timeZone, "EEE d MMM yyyy, HH:mm");
+  const peak = formatAlertValue(a.kind, a.peakValue);
+  const link = a.linkLineId !== null ? lineLinkAt(opts.appUrl, a.linkLineId, a.startTs) : `${opts.appUrl.replace(/\/$/, "")}/alerts`;
+  const alertsLink = `${opts.appUrl.replace(/\/$/, "")}/alerts`;
+  const escalation = opts.level > 1;
+  const subject = `${escalation ? "[Escalated] " : ""}${codeText}: ${what} — ${where} (${SEVERITY_LABELS[a.severity].toLowerCase()})`;
+  const waited = formatDurationMs(opts.unackedForMs);
+  const lines = [
+    `Hello ${opts.recipientName},`,
+    "",
+    escalation
+      ? `This alert has not been acknowledged for ${waited}; you are next on the on-call list (order ${opts.level}).`
+      : `This alert has not been acknowledged for ${waited} and you are on call.`,
+    "",
+    `State:   ${codeText} — ${ALERT_STATE_LABELS[a.state]}`,
+    `What:    ${what}: ${a.message}`,
+    `Where:   ${where}`,
+    `Since:   ${since} (plant time)`,
+    `Peak:    ${peak}`,
+    ...(a.kind === "rh_forecast" && a.expectedCrossingTs !== null ? [`Expected to cross the limit at: ${formatPlantTime(a.expectedCrossingTs, opts.timeZone, "HH:mm")}`] : []),
+    `Severity: ${SEVERITY_LABELS[a.severity]}`,
+    "",
+    `Open the chart at that time: ${link}`,
+    `Acknowledge it in Stillfield: ${alertsLink}`,
+    "",
+    SAFETY,
+    "",
+    `Alert ${a.alertId}. You get this e-mail because you are on the Stillfield on-call roster.`,
+  ];
+  const row = (k: string, v: string) => `<tr><td style="padding:2px 12px 2px 0;color:#555;white-space:nowrap;vertical-align:top">${escapeHtml(k)}</td><td style="padding:2px 0">${v}</td></tr>`;
+  const html = [
+    `<div style="font-family:sans-serif;font-size:14px;color:#23262b">`,
+    `<p>Hello ${escapeHtml(opts.recipientName)},</p>`,
+    `<p>${escapeHtml(lines[2])}</p>`,
+    `<table style="border-collapse:collapse;font-size:14px">`,
+    row("State", `<b>${escapeHtml(codeText)}</b> — ${escapeHtml(ALERT_STATE_LABELS[a.state])}`),
+    row("What", `<b>${escapeHtml(what)}</b>: ${escapeHtml(a.message)}`),
+    row("Where", escapeHtml(where)),
+    row("Since", `${escapeHtml(since)} (plant time)`),
+    row("Peak", escapeHtml(peak)),
+    ...(a.kind === "rh_forecast" && a.expectedCrossingTs !== null ? [row("Expected to cross", escapeHtml(formatPlantTime(a.expectedCrossingTs, opts.timeZone, "HH:mm")))] : []),
+    row("Severity", escapeHtml(SEVERITY_LABELS[a.severity])),
+    `</table>`,
+    `<p><a href="${escapeHtml(link)}">Open the chart at that time</a> · <a href="${escapeHtml(alertsLink)}">Acknowledge in Stillfield</a></p>`,
+    `<p style="font-size:12px;color:#555">${escapeHtml(SAFETY)}</p>`,
+    `<p style="font-size:12px;color:#777">Alert ${a.alertId}. You get this e-mail because you are on the Stillfield on-call roster.</p>`,
+    `</div>`,
+  ].join("\n");
+  return { subject, text: lines.join("\n"), html };
+}
+
+export type DigestAlert = AlertMailInput & { endTs: number | null; shelved: boolean; chattering: boolean };
+
+/** The daily digest: yesterday's alerts (plant day), newest last, with a count per kind. */
+export function composeDigestEmail(
+  alerts: readonly DigestAlert[],
+  opts: { dayLabel: string; recipientName: string; appUrl: string; timeZone: string },
+): MailText {
+  const n = alerts.length;
+  const subject = n === 0 ? `Stillfield daily digest, ${opts.dayLabel}: no alerts` : `Stillfield daily digest, ${opts.dayLabel}: ${n} alert${n === 1 ? "" : "s"}`;
+  const byKind = new Map<RuleKindName, number>();
+  for (const a of alerts) byKind.set(a.kind, (byKind.get(a.kind) ?? 0) + 1);
+  const summary = [...byKind.entries()].sort((x, y) => y[1] - x[1]).map(([k, c]) => `${RULE_KIND_LABELS[k]}: ${c}`);
+  const base = opts.appUrl.replace(/\/$/, "");
+  const text: string[] = [`Hello ${opts.recipientName},`, "", n === 0 ? `No alerts were raised on ${opts.dayLabel}.` : `${n} alert${n === 1 ? " was" : "s were"} raised on ${opts.dayLabel} (plant time).`, ""];
+  if (summary.length) text.push(...summary, "");
+  const rows: string[] = [];
+  for (const a of alerts) {
+    const code = stateCodeText(alertStateCode({ kind: a.kind, state: a.state, shelved: a.shelved }));
+    const t = formatPlantTime(a.startTs, opts.timeZone, "HH:mm");
+    const dur = a.endTs !== null ? formatDurationMs(a.endTs - a.startTs) : "still active";
+    const link = a.linkLineId !== null ? lineLinkAt(base, a.linkLineId, a.startTs) : `${base}/alerts`;
+    text.push(`${t}  ${code}  ${SEVERITY_LABELS[a.severity]}  ${RULE_KIND_LABELS[a.kind]} — ${whereText(a)}; peak ${formatAlertValue(a.kind, a.peakValue)}; ${dur}${a.chattering ? "; chattering" : ""}`, `      ${link}`);
+    rows.push(
+      `<tr><td style="padding:2px 8px 2px 0">${t}</td><td style="padding:2px 8px">${escapeHtml(code)}</td><td style="padding:2px 8px">${escapeHtml(SEVERITY_LABELS[a.severity])}</td><td style="padding:2px 8px"><a href="${escapeHtml(link)}">${escapeHtml(RULE_KIND_LABELS[a.kind])}</a><br><span style="color:#666">${escapeHtml(whereText(a))}</span></td><td style="padding:2px 8px">${escapeHtml(formatAlertValue(a.kind, a.peakValue))}</td><td style="padding:2px 8px">${escapeHtml(dur)}${a.chattering ? " · chattering" : ""}</td></tr>`,
+    );
+  }
+  text.push("", `All alerts: ${base}/alerts · Alert load: ${base}/alert-load`, "", "You get this digest because you asked for it in Stillfield.");
+  const html = [
+    `<div style="font-family:sans-serif;font-size:14px;color:#23262b">`,
+    `<p>Hello ${escapeHtml(opts.recipientName)},</p>`,
+    `<p>${escapeHtml(text[2])}</p>`,
+    summary.length ? `<p>${summary.map(escapeHtml).join(" · ")}</p>` : "",
+    rows.length ? `<table style="border-collapse:collapse;font-size:13px">${rows.join("")}</table>` : "",
+    `<p><a href="${escapeHtml(`${base}/alerts`)}">All alerts</a> · <a href="${escapeHtml(`${base}/alert-load`)}">Alert load</a></p>`,
+    `<p style="font-size:12px;color:#777">You get this digest because you asked for it in Stillfield.</p>`,
+    `</div>`,
+  ].join("\n");
+  return { subject, text: text.join("\n"), html };
+}

@@ -1,0 +1,262 @@
+// The live rules engine inside the ingest worker (a reading sink, ingest/sinks.ts).
+//
+// - Loads the rules (current versions) and the plant topology from the database, and reloads
+//   them within RULES_POLL_MS of a change (it polls cheap signatures), carrying the engine's
+//   state over so delays, windows and open alerts continue without a restart.
+// - Feeds every committed reading to the engine (lib/rules) in reading-time order and ticks it
+//   with the wall clock (sensor silence).
+// - Writes each transition into `alerts` + `alert_events` in one transaction together with the
+//   engine's snapshot, so what the database says is open and what the engine holds never drift
+//   apart across a crash; the snapshot is also saved every SNAPSHOT_EVERY_MS while readings flow
+//   (it carries the windows). A restart continues from the last snapshot.
+// - Publishes each alert change on `stillfield/internal/alerts` ({alertId, lineId, areaId, state,
+//   severity, ts}) after the commit, for the app's live streams.
+// - Every ESCALATE_EVERY_MS: on-call e-mails and escalation (alerts-escalation.ts), and the end
+//   of shelvings whose time is up.
+// One engine per plant: run one worker with this sink (a second one would raise every alert
+// twice); sharing the load between workers is PRODUCT.md §11 work.
+import { eq } from "drizzle-orm";
+import { ZodError } from "zod";
+import { settings } from "../db/schema";
+import { applyClearTransition, applyUpdateTransition, expireShelving, insertRaisedAlert, listUnclearedAlerts, type AlertChange } from "../db/queries/alerts";
+import { loadRuleDefinitions, readRulesSignature } from "../db/queries/rules";
+import { loadPlantTopology, readTopologySignature, type PlantTopology } from "../db/queries/topology";
+import { getPlantSettings } from "../db/queries/equipment";
+import { internalTopics } from "../lib/contract/topics";
+import { CHANNELS, createRuleEngine, RuleEngineStateError, type AlertTransition, type Channel, type RuleDefinition, type RuleEngine } from "../lib/rules";
+import type { AlertStateName, SeverityName } from "../components/alerts/labels";
+import { runEscalation } from "./alerts-escalation";
+import { describeError } from "./log";
+import type { CommittedReading, ReadingSink, SinkContext } from "./sinks";
+
+export const ENGINE_STATE_KEY = "alerts.engine_state";
+
+const num = (v: string | undefined, d: number) => {
+  const n = Number(v);
+  return v !== undefined && v !== "" && Number.isFinite(n) && n >= 0 ? n : d;
+};
+
+const CHANNEL_SET: ReadonlySet<string> = new Set(CHANNELS);
+function isChannel(c: string): c is Channel {
+  return CHANNEL_SET.has(c);
+}
+
+type Published = { alertId: number; lineId: number | null; areaId: number | null; state: AlertStateName; severity: SeverityName; ts: number };
+
+function alertKey(ruleId: number, subjectKey: string, raisedTs: number): string {
+  return `${ruleId}|${subjectKey}|${raisedTs}`;
+}
+
+export async function createAlertsRunner(ctx: SinkContext): Promise<ReadingSink> {
+  const { db, log, env } = ctx;
+  if (process.env.ALERTS_RUNNER === "off") {
+    log.info("alerts runner switched off (ALERTS_RUNNER=off)");
+    return { name: "alerts", onCommitted: async () => undefined };
+  }
+  const RULES_POLL_MS = num(process.env.ALERTS_RULES_POLL_MS, 3000);
+  const ESCALATE_EVERY_MS = num(process.env.ALERTS_ESCALATE_EVERY_MS, 5000);
+  const SNAPSHOT_EVERY_MS = num(process.env.ALERTS_SNAPSHOT_EVERY_MS, 30_000);
+  const MAX_PENDING_TRANSITIONS = 20_000;
+
+  let topo: PlantTopology = await loadPlantTopology(db);
+  let topoSig = await readTopologySignature(db);
+  let rulesSig = await readRulesSignature(db);
+  let rules: RuleDefinition[] = await loadRules();
+  let timeZone = (await getPlantSettings(db)).timeZone;
+
+  // the engine, from the saved snapshot when there is a usable one
+  const [saved] = await db.select({ value: settings.value }).from(settings).where(eq(settings.key, ENGINE_STATE_KEY)).limit(1);
+  let engine: RuleEngine;
+  try {
+    engine = createRuleEngine({ rules, topology: topo.topology, state: saved?.value ?? undefined });
+    if (saved) log.info("alerts engine continues from its saved state");
+  } catch (err) {
+    if (!(err instanceof RuleEngineStateError) && !(err instanceof ZodError)) throw err;
+    log.warn("saved alerts-engine state not usable; starting afresh", { error: describeError(err) });
+    engine = createRuleEngine({ rules, topology: topo.topology });
+  }
+
+  // open alert rows by engine key
+  const openIds = new Map<string, number>();
+  for (const a of await listUnclearedAlerts(db)) openIds.set(alertKey(a.ruleId, a.subjectKey, a.startTs), a.id);
+
+  let pending: AlertTransition[] = [];
+  let dirty = false;
+  let lastSnapshotTs = Date.now();
+  let lastRulesPoll = 0;
+  let lastEscalation = 0;
+  let closed = false;
+
+  await reconcile("start-up");
+
+  async function loadRules(): Promise<RuleDefinition[]> {
+    const { rules: list, problems } = await loadRuleDefinitions(db);
+    for (const p of problems) log.warn(`rule ${p.ruleId} left out of the alerts engine: ${p.message}`);
+    return list;
+  }
+
+  function publish(changes: Published[]) {
+    for (const c of changes) ctx.publish(internalTopics.alerts, JSON.stringify(c), 1);
+  }
+
+  /**
+   * Open alert rows the engine does not hold active (its rule or subject is gone, or its state
+   * was lost) are cleared, so nothing stays open for ever.
+   */
+  async function reconcile(why: string): Promise<void> {
+    const active = new Set(engine.activeAlerts().map((a) => alertKey(a.ruleId, a.subjectKey, a.raisedTs)));
+    const stale = [...openIds.entries()].filter(([key]) => !active.has(key));
+    if (stale.length === 0) return;
+    const now = Date.now();
+    const changes: Published[] = [];
+    await db.transaction(async (tx) => {
+      for (const [key, id] of stale) {
+        const reason =
+          why === "rules changed"
+            ? "Cleared: its rule was removed, disabled or no longer applies here"
+            : "Cleared: the alerts engine restarted without this alert's state; it is raised again if the condition persists";
+        const r = await applyClearTransition(tx, id, { ts: now, reason });
+        openIds.delete(key);
+        if (r) changes.push({ alertId: id, lineId: r.lineId, areaId: r.areaId, state: r.state, severity: r.severity, ts: now });
+      }
+      await saveSnapshot(tx, now);
+    });
+    log.info(`cleared ${stale.length} alert(s) the engine no longer holds (${why})`);
+    publish(changes);
+  }
+
+  async function saveSnapshot(tx: Pick<typeof db, "insert">, nowMs: number): Promise<void> {
+    const state = engine.snapshot();
+    await tx
+      .insert(settings)
+      .values({ key: ENGINE_STATE_KEY, value: state, updatedAt: nowMs })
+      .onDuplicateKeyUpdate({ set: { value: state, updatedAt: nowMs } });
+    dirty = false;
+    lastSnapshotTs = nowMs;
+  }
+
+  /** Writes the pending transitions (and the snapshot) in one transaction; kept for a retry on failure. */
+  async function flush(): Promise<void> {
+    if (pending.length === 0) return;
+    const batch = pending;
+    const now = Date.now();
+    const changes: Published[] = [];
+    const added = new Map<string, number>();
+    const removed = new Set<string>();
+    try {
+      await db.transaction(async (tx) => {
+        for (const t of batch) {
+          const key = alertKey(t.ruleId, t.subjectKey, t.raisedTs);
+          const existing = removed.has(key) ? undefined : (added.get(key) ?? openIds.get(key));
+          if (t.type === "raise" || existing === undefined) {
+            if (t.type === "clear") continue; // raised before anything we know of: nothing to clear
+            if (existing !== undefined) continue; // a raise already written (retry)
+            const row = await insertRaisedAlert(tx, t, topo.subjects.get(t.subjectKey), now);
+            added.set(key, row.id);
+            const subject = topo.subjects.get(t.subjectKey);
+            changes.push({ alertId: row.id, lineId: subject?.lineId ?? null, areaId: subject?.areaId ?? null, state: "active_unacked", severity: t.severity, ts: t.ts });
+            if (t.type === "update") await applyUpdateTransition(tx, row.id, t);
+            continue;
+          }
+          if (t.type === "update") {
+            await applyUpdateTransition(tx, existing, t);
+            continue;
+          }
+          const r = await applyClearTransition(tx, existing, { ts: t.ts, peakValue: t.peakValue, message: t.message });
+          removed.add(key);
+          added.delete(key);
+          if (r) changes.push({ alertId: existing, lineId: r.lineId, areaId: r.areaId, state: r.state, severity: r.severity, ts: t.ts });
+        }
+        await saveSnapshot(tx, now);
+      });
+    } catch (err) {
+      log.error("could not store alert transitions; will retry", { error: describeError(err), transitions: batch.length });
+      return;
+    }
+    pending = pending.slice(batch.length);
+    for (const [k, id] of added) openIds.set(k, id);
+    for (const k of removed) openIds.delete(k);
+    publish(changes);
+  }
+
+  function take(list: AlertTransition[]) {
+    for (const t of list) pending.push(t);
+    if (pending.length > MAX_PENDING_TRANSITIONS) {
+      log.error("too many alert transitions waiting for the database; dropping the oldest", { dropped: pending.length - MAX_PENDING_TRANSITIONS });
+      pending = pending.slice(pending.length - MAX_PENDING_TRANSITIONS);
+    }
+  }
+
+  async function refreshIfChanged(nowMs: number): Promise<void> {
+    if (nowMs - lastRulesPoll < RULES_POLL_MS) return;
+    lastRulesPoll = nowMs;
+    const [nextRulesSig, nextTopoSig] = await Promise.all([readRulesSignature(db), readTopologySignature(db)]);
+    if (nextRulesSig === rulesSig && nextTopoSig === topoSig) return;
+    const topoChanged = nextTopoSig !== topoSig;
+    if (topoChanged) topo = await loadPlantTopology(db);
+    rules = await loadRules();
+    timeZone = (await getPlantSettings(db)).timeZone;
+    engine = createRuleEngine({ rules, topology: topo.topology, state: engine.snapshot() });
+    rulesSig = nextRulesSig;
+    topoSig = nextTopoSig;
+    log.info(`alerts engine reloaded (${topoChanged ? "plant and " : ""}rules changed)`, { rules: rules.length });
+    await flush();
+    await reconcile("rules changed");
+  }
+
+  async function escalate(nowMs: number): Promise<void> {
+    if (nowMs - lastEscalation < ESCALATE_EVERY_MS) return;
+    lastEscalation = nowMs;
+    const expired: AlertChange[] = await expireShelving(db, nowMs);
+    publish(expired.map(({ shelved: _s, ...c }) => c));
+    const r = await runEscalation(db, nowMs, { appUrl: env.APP_URL, timeZone, subjects: topo.subjects });
+    for (const n of r.notified) log.info(`alert ${n.alertId}: e-mail queued for on-call order ${n.order}`, { to: n.recipients });
+  }
+
+  return {
+    name: "alerts",
+    async onCommitted(readings: CommittedReading[]) {
+      if (closed) return;
+      // the worker hands them over per device in time order; the engine wants time order
+      const sorted = readings.length > 1 ? [...readings].sort((a, b) => a.ts - b.ts) : readings;
+      for (const r of sorted) {
+        if (!isChannel(r.channel)) continue;
+        const out = engine.push({ sensorKey: r.deviceCode, channel: r.channel, ts: r.ts, value: r.value });
+        if (out.length) take(out);
+      }
+      dirty = true;
+      await flush();
+    },
+    async onTick(nowMs: number) {
+      if (closed) return;
+      take(engine.tick(nowMs));
+      await flush();
+      try {
+        await refreshIfChanged(nowMs);
+      } catch (err) {
+        log.warn("could not reload rules", { error: describeError(err) });
+      }
+      try {
+        await escalate(nowMs);
+      } catch (err) {
+        log.warn("escalation round failed; will retry", { error: describeError(err) });
+      }
+      if (dirty && nowMs - lastSnapshotTs >= SNAPSHOT_EVERY_MS) {
+        try {
+          await saveSnapshot(db, nowMs);
+        } catch (err) {
+          log.warn("could not save the alerts-engine state", { error: describeError(err) });
+        }
+      }
+    },
+    async close() {
+      closed = true;
+      await flush();
+      try {
+        await saveSnapshot(db, Date.now());
+      } catch (err) {
+        log.warn("could not save the alerts-engine state on close", { error: describeError(err) });
+      }
+    },
+  };
+}

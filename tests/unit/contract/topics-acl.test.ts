@@ -1,0 +1,46 @@
+// Topic names and the broker's access rules (PRODUCT.md §4: a device publishes only under its
+// own prefix and subscribes to nothing but its command topic; internal topics are the service
+// account's).
+import { describe, expect, it } from "vitest";
+import { deviceTopics, internalTopics, parseDeviceTopic } from "@/lib/contract/topics";
+import { mayPublish, maySubscribe } from "@/ingest/broker-acl";
+
+const dev = { kind: "device" as const, code: "fm-gravure-1-unwind" };
+const svc = { kind: "service" as const };
+
+describe("device topics", () => {
+  it("round-trips a device topic", () => {
+    expect(parseDeviceTopic(deviceTopics.readings("th-press-hall"))).toEqual({ code: "th-press-hall", kind: "readings" });
+    expect(parseDeviceTopic(deviceTopics.status("sg-flexo-2"))).toEqual({ code: "sg-flexo-2", kind: "status" });
+  });
+  it("refuses anything else", () => {
+    for (const t of ["stillfield/d//readings", "stillfield/d/a/b/readings", "stillfield/d/+/readings", "other/d/x/readings", "stillfield/d/x/values"]) {
+      expect(parseDeviceTopic(t)).toBeNull();
+    }
+  });
+});
+
+describe("broker access rules", () => {
+  it("lets a device publish its own readings and status only", () => {
+    expect(mayPublish(dev, deviceTopics.readings(dev.code))).toBe(true);
+    expect(mayPublish(dev, deviceTopics.status(dev.code))).toBe(true);
+    expect(mayPublish(dev, deviceTopics.readings("fm-gravure-1-infeed"))).toBe(false);
+    expect(mayPublish(dev, deviceTopics.command(dev.code))).toBe(false);
+    expect(mayPublish(dev, internalTopics.liveLine(1))).toBe(false);
+    expect(mayPublish(dev, internalTopics.alerts)).toBe(false);
+    expect(mayPublish(dev, "$SYS/broker/x")).toBe(false);
+  });
+  it("lets a device subscribe to its command topic only", () => {
+    expect(maySubscribe(dev, deviceTopics.command(dev.code))).toBe(true);
+    for (const f of ["#", "stillfield/#", "stillfield/internal/#", internalTopics.liveLine(1), "stillfield/d/+/cmd", deviceTopics.command("other"), deviceTopics.readings(dev.code)]) {
+      expect(maySubscribe(dev, f)).toBe(false);
+    }
+  });
+  it("lets the service account use every topic under stillfield/ and nothing else", () => {
+    expect(mayPublish(svc, internalTopics.alerts)).toBe(true);
+    expect(maySubscribe(svc, "stillfield/internal/live/#")).toBe(true);
+    expect(maySubscribe(svc, "stillfield/d/+/readings")).toBe(true);
+    expect(maySubscribe(svc, "#")).toBe(false);
+    expect(mayPublish(svc, "$SYS/x")).toBe(false);
+  });
+});
