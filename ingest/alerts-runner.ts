@@ -47,12 +47,43 @@ function alertKey(ruleId: number, subjectKey: string, raisedTs: number): string 
   return `${ruleId}|${subjectKey}|${raisedTs}`;
 }
 
+type Core = Required<Pick<ReadingSink, "onCommitted" | "onTick" | "close">>;
+
+/**
+ * The sink factory. It returns at once and loads rules, plant and saved state in the background
+ * (the first call waits for it), so the worker's own start-up is never held up by it.
+ */
 export async function createAlertsRunner(ctx: SinkContext): Promise<ReadingSink> {
-  const { db, log, env } = ctx;
+  const { log } = ctx;
   if (process.env.ALERTS_RUNNER === "off") {
     log.info("alerts runner switched off (ALERTS_RUNNER=off)");
     return { name: "alerts", onCommitted: async () => undefined };
   }
+  let core: Promise<Core> | null = null;
+  const ready = (): Promise<Core> => {
+    core ??= startCore(ctx).catch((err: unknown) => {
+      core = null; // try again on the next call
+      throw err;
+    });
+    return core;
+  };
+  void ready().catch((err: unknown) => log.error("alerts runner could not start yet; will retry", { error: describeError(err) }));
+  return {
+    name: "alerts",
+    async onCommitted(readings) {
+      await (await ready()).onCommitted(readings);
+    },
+    async onTick(nowMs) {
+      await (await ready()).onTick(nowMs);
+    },
+    async close() {
+      if (core) await (await core).close();
+    },
+  };
+}
+
+async function startCore(ctx: SinkContext): Promise<Core> {
+  const { db, log, env } = ctx;
   const RULES_POLL_MS = num(process.env.ALERTS_RULES_POLL_MS, 3000);
   const ESCALATE_EVERY_MS = num(process.env.ALERTS_ESCALATE_EVERY_MS, 5000);
   const SNAPSHOT_EVERY_MS = num(process.env.ALERTS_SNAPSHOT_EVERY_MS, 30_000);
@@ -213,8 +244,8 @@ export async function createAlertsRunner(ctx: SinkContext): Promise<ReadingSink>
     for (const n of r.notified) log.info(`alert ${n.alertId}: e-mail queued for on-call order ${n.order}`, { to: n.recipients });
   }
 
+  log.info("alerts engine running", { rules: rules.length, openAlerts: openIds.size });
   return {
-    name: "alerts",
     async onCommitted(readings: CommittedReading[]) {
       if (closed) return;
       // the worker hands them over per device in time order; the engine wants time order

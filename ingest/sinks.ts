@@ -30,4 +30,4 @@ export type SinkContext = {
 export type SinkFactory = (ctx: SinkContext) => Promise<ReadingSink>;
 
 export const sinkFactories: SinkFactory[] = [];
-sinkFactories.push((ctx) => import("./alerts-runner").then((m) => m.createAlertsRunner(ctx)));
+import { createAlertsRunner } from "./alerts-runner"; sinkFactories.push(createAlertsRunner); // the live rules engine (hoisted import; it returns at once)

@@ -8,7 +8,7 @@
 // in `ingest_status`, partition maintenance, and the reading sinks of ingest/sinks.ts.
 // SIGTERM/SIGINT: stop taking messages, commit or spill what is buffered, then exit.
 import path from "node:path";
-import mqtt, { type IPublishPacket } from "mqtt";
+import mqtt, { type IPublishPacket, type MqttClient } from "mqtt";
 import { closeDb, getDb, getPool } from "../db/client";
 import { getEnv } from "../db/env";
 import { recordDevicesLastSeen, setDeviceOnline, type IngestDevice } from "../db/queries/devices-auth";
@@ -61,23 +61,10 @@ export async function startWorker() {
     log.warn("partition maintenance failed; will retry", { error: describeError(err) });
   }
 
-  // ---- MQTT ----
-  const client = mqtt.connect({
-    host: env.MQTT_HOST,
-    port: env.MQTT_PORT,
-    protocolVersion: 4,
-    clientId: cfg.INGEST_CLIENT_ID,
-    clean: false,
-    username: env.MQTT_SERVICE_USER,
-    password: env.MQTT_SERVICE_PASSWORD,
-    keepalive: 30,
-    reconnectPeriod: 1000,
-    connectTimeout: 10_000,
-    queueQoSZero: false,
-  });
-  const acks = new DeferredAcks(client);
+  // the MQTT connection is made once everything is ready (below); sinks may publish through it
+  let client: MqttClient | null = null;
   const publish = (topic: string, payload: string, qos: 0 | 1 = 0) => {
-    if (client.connected) client.publish(topic, payload, { qos });
+    if (client?.connected) client.publish(topic, payload, { qos });
   };
 
   // ---- sinks ----
@@ -92,6 +79,23 @@ export async function startWorker() {
       log.error("a reading sink failed to start; ingest goes on without it", { error: describeError(err) });
     }
   }
+
+  // ---- MQTT (every handler is attached in this same tick, before any packet can arrive) ----
+  client = mqtt.connect({
+    host: env.MQTT_HOST,
+    port: env.MQTT_PORT,
+    protocolVersion: 4,
+    clientId: cfg.INGEST_CLIENT_ID,
+    clean: false,
+    username: env.MQTT_SERVICE_USER,
+    password: env.MQTT_SERVICE_PASSWORD,
+    keepalive: 30,
+    reconnectPeriod: 1000,
+    connectTimeout: 10_000,
+    queueQoSZero: false,
+  });
+  const mqttClient = client;
+  const acks = new DeferredAcks(mqttClient);
 
   // ---- writer ----
   const live = new LiveSnapshots(directory);
@@ -253,7 +257,7 @@ export async function startWorker() {
     );
   }
 
-  client.handleMessage = (packet, callback) => {
+  mqttClient.handleMessage = (packet, callback) => {
     try {
       handlePacket(packet);
     } catch (err) {
@@ -265,10 +269,10 @@ export async function startWorker() {
 
   let subscribed: () => void = () => undefined;
   const firstSubscription = new Promise<void>((resolve) => (subscribed = resolve));
-  client.on("connect", (connack) => {
+  mqttClient.on("connect", (connack) => {
     counters.mqttConnected = true;
     log.info(`connected to the broker at ${env.MQTT_HOST}:${env.MQTT_PORT}`, { sessionPresent: connack.sessionPresent });
-    client.subscribe(
+    mqttClient.subscribe(
       { [ALL_DEVICE_READINGS]: { qos: 1 }, [ALL_DEVICE_STATUS]: { qos: 1 } },
       (err, granted) => {
         if (err) return log.error("subscribe failed", { error: describeError(err) });
@@ -277,11 +281,11 @@ export async function startWorker() {
       },
     );
   });
-  client.on("close", () => {
+  mqttClient.on("close", () => {
     if (counters.mqttConnected && !closing) log.warn("lost the broker connection; reconnecting");
     counters.mqttConnected = false;
   });
-  client.on("error", (err) => log.error("MQTT error", { error: describeError(err) }));
+  mqttClient.on("error", (err) => log.error("MQTT error", { error: describeError(err) }));
 
   // ---- timers ----
   const snapshot = (lagSinceTs?: number) =>
@@ -368,7 +372,7 @@ export async function startWorker() {
     await Promise.all(sinks.map((s) => s.close(1000)));
     await new Promise<void>((resolve) => {
       const t = setTimeout(resolve, 1500).unref();
-      client.end(false, {}, () => {
+      mqttClient.end(false, {}, () => {
         clearTimeout(t);
         resolve();
       });

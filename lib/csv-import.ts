@@ -141,7 +141,7 @@ const isNegative: Matcher = (h) => !isPositive(h) && (/(^|[^a-z])(neg|negative|m
 
 const MATCHERS: Record<ImportField, Matcher> = {
   date: has(/^(date|datum|timestamp|date ?\/? ?time|datetime|zeit ?stempel|recorded|logged)|(^|\W)(date|timestamp)(\W|$)/),
-  time: has(/^(time|time of day|uhrzeit|clock)(\W|$)/),
+  time: has(/^(time|time of day|uhrzeit|zeit|heure|hora|clock)(\W|$)/),
   tag: has(/neutrali[sz]er|ioni[sz](er|ing)|(^|\W)(tag|bar|equipment|asset)(\W|$)|unit id/),
   decayPos: (h) => /decay|discharge|t ?\+|t ?pos/.test(h) && isPositive(h) && !/neg|minus/.test(h),
   decayNeg: (h) => /decay|discharge|t ?-|t ?neg/.test(h) && isNegative(h),

@@ -45,7 +45,8 @@ export function valueState(value: number, limit: Limit | null, nearFraction = NE
   if (!limit || !Number.isFinite(value)) return "normal";
   const over = limit.direction === "high" ? Math.abs(value) > limit.limit : value < limit.limit;
   if (over) return "over";
-  return limitRatio(value, limit) >= nearFraction ? "near" : "normal";
+  // a hair of tolerance: 9.6 / 12 is 0.7999… in binary floating point
+  return limitRatio(value, limit) >= nearFraction - 1e-9 ? "near" : "normal";
 }
 
 export function pointState(input: PointStateInput): PointState {

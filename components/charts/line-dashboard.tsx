@@ -237,6 +237,7 @@ function LineDashboardInner({ area, line, settings, canAddNote, addNote, serverN
               spans={alertSpans((a) => a.pointId === null && a.lineId === null)}
               onZoom={(a, b) => setZoom([a, b])}
               onPick={canAddNote ? setPickedTs : undefined}
+              timeLabels={!line.speedGateway}
             />
           ) : null}
           {line.speedGateway ? (
@@ -540,13 +541,19 @@ function ChargePanel({
           { label: "max", color: "inkFaint", faint: true },
         ]}
         band={{ upper: 3, lower: 2, color: "inkFaint", alpha: 0.22 }}
-        y={{ fmt: (v) => formatCharge(v, "kV").replace(".0", ""), range: (mn, mx) => symmetricRange(mn, mx, limitInUnit), size: 52 }}
+        y={{
+          fmt: (v) => (unit === "V" ? formatCharge(v / 1000, "V") : formatCharge(v, "kV").replace(/\.0$/, "")),
+          range: (mn, mx) => symmetricRange(mn, mx, limitInUnit),
+          splits: (mn, mx) => (limitInUnit !== null ? [-limitInUnit, 0, limitInUnit] : [mn, 0, mx]),
+          size: unit === "V" ? 62 : 52,
+        }}
+        timeLabels={false}
         hLines={hLines}
         markers={c.markers}
         spans={c.spans}
         onZoom={c.onZoom}
         onPick={c.onPick}
-        readout={(idx, d) => readoutText(idx, d, c.timeZone, (v) => `${formatCharge(v, "kV")} ${unit}`, band)}
+        readout={(idx, d) => readoutText(idx, d, c.timeZone, (v) => formatCharge(unit === "V" ? v / 1000 : v, unit, { withUnit: true }), band)}
         testId="line-chart"
         attrs={{ kind: "charge", "point-id": p.id, source: result?.source ?? "", band: band ? "on" : "off", points: buckets.length, notes: c.markers.length }}
       />
@@ -573,8 +580,10 @@ function ClimatePanel({
   hall,
   rhLimitPct,
   aim,
+  timeLabels,
   ...c
 }: PanelCommon & {
+  timeLabels: boolean;
   areaName: string;
   rh: { buckets: Bucket[]; result: HistoryResult | undefined };
   temp: { buckets: Bucket[]; result: HistoryResult | undefined };
@@ -639,6 +648,7 @@ function ClimatePanel({
         band={{ upper: 3, lower: 2, color: "inkFaint", alpha: 0.22 }}
         y={{ fmt: (v) => `${v.toFixed(0)} %`, range: (mn, mx) => [Math.max(0, Math.min(mn ?? 30, rhLimitPct, aim[0]) - 5), Math.min(100, Math.max(mx ?? 60, aim[1]) + 5)], size: 48 }}
         y2={{ fmt: (v) => `${v.toFixed(0)}°`, size: 40 }}
+        timeLabels={timeLabels}
         hLines={hLines}
         hBands={hBands}
         markers={c.markers}

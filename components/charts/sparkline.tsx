@@ -17,13 +17,17 @@ type Props = {
   strokeClassName?: string;
   height?: number;
   label?: string;
+  /** dark background (wallboard) */
+  dark?: boolean;
 };
 
 const GAP_MS = 30_000;
 const MAX_POINTS = 180;
 const W = 100;
 
-function SparklineImpl({ samples, fromTs, toTs, symmetricLimit, lowLimit, band, className, strokeClassName = "stroke-ink-soft", height = 28, label }: Props) {
+function SparklineImpl({ samples, fromTs, toTs, symmetricLimit, lowLimit, band, className, strokeClassName = "stroke-ink-soft", height = 28, label, dark = false }: Props) {
+  const zeroClass = dark ? "stroke-night-line" : "stroke-paper-line";
+  const limitClass = dark ? "stroke-over-bright/60" : "stroke-over/50";
   const H = height;
   const span = Math.max(1, toTs - fromTs);
   const visible = samples.filter((s) => s[0] >= fromTs && s[0] <= toTs);
@@ -68,16 +72,16 @@ function SparklineImpl({ samples, fromTs, toTs, symmetricLimit, lowLimit, band, 
       role="img"
       aria-label={label ?? "trend"}
     >
-      {band ? <rect x={0} width={W} y={y(band[1])} height={Math.max(0, y(band[0]) - y(band[1]))} className="fill-paper-sunk" /> : null}
-      {symmetricLimit !== undefined ? <line x1={0} x2={W} y1={y(0)} y2={y(0)} className="stroke-paper-line" strokeWidth={1} vectorEffect="non-scaling-stroke" /> : null}
+      {band ? <rect x={0} width={W} y={y(band[1])} height={Math.max(0, y(band[0]) - y(band[1]))} className={dark ? "fill-night-line" : "fill-paper-sunk"} /> : null}
+      {symmetricLimit !== undefined ? <line x1={0} x2={W} y1={y(0)} y2={y(0)} className={zeroClass} strokeWidth={1} vectorEffect="non-scaling-stroke" /> : null}
       {symmetricLimit ? (
         <>
-          <line x1={0} x2={W} y1={y(symmetricLimit)} y2={y(symmetricLimit)} className="stroke-over/50" strokeDasharray="3 3" strokeWidth={1} vectorEffect="non-scaling-stroke" />
-          <line x1={0} x2={W} y1={y(-symmetricLimit)} y2={y(-symmetricLimit)} className="stroke-over/50" strokeDasharray="3 3" strokeWidth={1} vectorEffect="non-scaling-stroke" />
+          <line x1={0} x2={W} y1={y(symmetricLimit)} y2={y(symmetricLimit)} className={limitClass} strokeDasharray="3 3" strokeWidth={1} vectorEffect="non-scaling-stroke" />
+          <line x1={0} x2={W} y1={y(-symmetricLimit)} y2={y(-symmetricLimit)} className={limitClass} strokeDasharray="3 3" strokeWidth={1} vectorEffect="non-scaling-stroke" />
         </>
       ) : null}
       {lowLimit !== undefined && lowLimit !== null ? (
-        <line x1={0} x2={W} y1={y(lowLimit)} y2={y(lowLimit)} className="stroke-over/50" strokeDasharray="3 3" strokeWidth={1} vectorEffect="non-scaling-stroke" />
+        <line x1={0} x2={W} y1={y(lowLimit)} y2={y(lowLimit)} className={limitClass} strokeDasharray="3 3" strokeWidth={1} vectorEffect="non-scaling-stroke" />
       ) : null}
       {d ? <path d={d} fill="none" className={strokeClassName} strokeWidth={1.5} strokeLinejoin="round" vectorEffect="non-scaling-stroke" /> : null}
     </svg>

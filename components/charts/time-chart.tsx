@@ -8,6 +8,7 @@ import "uplot/dist/uPlot.min.css";
 import type uPlot from "uplot";
 import { useEffect, useRef } from "react";
 import clsx from "clsx";
+import { formatPlantTime } from "@/lib/shifts";
 import { tokenColors, withAlpha, type TokenName } from "./token-colors";
 
 export type ChartSeries = {
@@ -23,7 +24,14 @@ export type HLine = { value: number; scale?: "y" | "y2"; color: TokenName; dash?
 export type HBand = { from: number; to: number; scale?: "y" | "y2"; color: TokenName; alpha: number };
 export type VMarker = { ts: number; label: string; color: TokenName };
 export type Span = { from: number; to: number; color: TokenName; alpha: number };
-export type Axis = { fmt: (v: number) => string; range?: (min: number, max: number) => [number, number]; size?: number; label?: string };
+export type Axis = {
+  fmt: (v: number) => string;
+  range?: (min: number, max: number) => [number, number];
+  /** fixed tick values (e.g. −limit, 0, +limit) instead of uPlot's spacing */
+  splits?: (min: number, max: number) => number[];
+  size?: number;
+  label?: string;
+};
 
 export type TimeChartProps = {
   syncKey: string;
@@ -45,6 +53,8 @@ export type TimeChartProps = {
   onPick?: (ts: number) => void;
   /** text for the cursor position (null idx: cursor left the chart) */
   readout?: (idx: number | null, data: uPlot.AlignedData) => string;
+  /** time labels under this chart (only the bottom one of a stack needs them) */
+  timeLabels?: boolean;
   className?: string;
   testId?: string;
   attrs?: Record<string, string | number>;
@@ -78,6 +88,7 @@ export function TimeChart(props: TimeChartProps) {
         size: a.size ?? 58,
         grid: side === 3 ? axisBase.grid : { show: false },
         values: (_u, splits) => splits.map((v) => (v == null ? "" : a.fmt(v))),
+        ...(a.splits ? { splits: (u: uPlot) => a.splits!(u.scales[scale].min ?? 0, u.scales[scale].max ?? 1) } : {}),
         label: a.label,
         labelFont: font,
         labelSize: a.label ? 14 : 0,
@@ -100,7 +111,17 @@ export function TimeChart(props: TimeChartProps) {
           y: { range: (_u, min, max) => (propsRef.current.y.range ? propsRef.current.y.range(min, max) : padRange(min, max)) },
           ...(p.y2 ? { y2: { range: (_u: uPlot, min: number, max: number) => (propsRef.current.y2?.range ? propsRef.current.y2.range(min, max) : padRange(min, max)) } } : {}),
         },
-        axes: [{ ...axisBase, space: 70 }, yAxis(p.y, "y", 3), ...(p.y2 ? [yAxis(p.y2, "y2", 1)] : [])],
+        axes: [
+          {
+            ...axisBase,
+            space: 80,
+            size: p.timeLabels === false ? 6 : 30,
+            values: (_u, splits, _i, _space, incr) =>
+              p.timeLabels === false ? splits.map(() => "") : splits.map((ts) => formatTimeTick(ts, incr, propsRef.current.timeZone)),
+          },
+          yAxis(p.y, "y", 3),
+          ...(p.y2 ? [yAxis(p.y2, "y2", 1)] : []),
+        ],
         series: [
           {},
           ...p.series.map((s) => ({
@@ -253,6 +274,14 @@ function dataAttrs(attrs?: Record<string, string | number>): Record<string, stri
   const out: Record<string, string> = {};
   for (const [k, v] of Object.entries(attrs ?? {})) out[`data-${k}`] = String(v);
   return out;
+}
+
+/** Time tick labels in plant time: clock times within a day, dates at midnight or for day steps. */
+function formatTimeTick(ts: number, incrMs: number, timeZone: string): string {
+  const hm = formatPlantTime(ts, timeZone, "HH:mm");
+  if (incrMs >= 86_400_000) return formatPlantTime(ts, timeZone, "d MMM");
+  if (hm === "00:00") return formatPlantTime(ts, timeZone, "d MMM");
+  return incrMs < 60_000 ? formatPlantTime(ts, timeZone, "HH:mm:ss") : hm;
 }
 
 function padRange(min: number | null, max: number | null): [number, number] {

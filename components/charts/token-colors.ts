@@ -50,3 +50,11 @@ export function withAlpha(color: string, alpha: number): string {
   if (!m) return color;
   return `rgba(${m[1]}, ${m[2]}, ${m[3]}, ${alpha})`;
 }
+
+/** A token colour lightened toward white by `fraction` (0…1), for bright hues on a dark screen. */
+export function lighten(color: string, fraction: number): string {
+  const m = /rgba?\(\s*([\d.]+)[ ,]+([\d.]+)[ ,]+([\d.]+)/.exec(color);
+  if (!m) return color;
+  const mix = (c: string) => Math.round(Number(c) + (255 - Number(c)) * fraction);
+  return `rgb(${mix(m[1])}, ${mix(m[2])}, ${mix(m[3])})`;
+}

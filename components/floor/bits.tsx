@@ -78,7 +78,7 @@ export function PointStateMark({ state, dark = false, className }: { state: Poin
   if (state === "normal") {
     return (
       <span className={clsx("inline-flex items-center gap-1 px-1.5 text-xs", dark ? "text-night-soft" : "text-ink-faint", className)} data-state="normal">
-        <StateShape state="normal" className={clsx("h-2.5 w-2.5", dark && "!text-night-soft")} />
+        <StateShape state="normal" className={clsx("h-2.5 w-2.5", dark && "text-night-soft!")} />
         {STATE_WORDS.normal}
       </span>
     );

@@ -33,7 +33,7 @@ export type DueItem = {
   what: DueWhat;
   dueTs: number;
   overdue: boolean;
-  /** whole days until due (negative: days overdue) */
+  /** whole days until due (negative: whole days overdue; 0 with overdue = less than a day late) */
   daysLeft: number;
   reason: string;
   /** decay-time projection: when the trend reaches the limit ("cleaning likely due around …") */
@@ -67,7 +67,7 @@ export async function getDueList(db: Db, nowMs: number, opts: { horizonDays?: nu
       ...i,
       key: `${i.subjectType}:${i.subjectId}:${i.what}`,
       overdue: i.dueTs < nowMs,
-      daysLeft: Math.floor((i.dueTs - nowMs) / DAY_MS),
+      daysLeft: i.dueTs >= nowMs ? Math.floor((i.dueTs - nowMs) / DAY_MS) : -Math.floor((nowMs - i.dueTs) / DAY_MS),
       projectedTs: null,
       effectDay: null,
     });
@@ -192,7 +192,7 @@ export function formatDueListEmail(list: DueList, timeZone: string, appUrl: stri
       ? "Stillfield due list: nothing due in the next 14 days"
       : `Stillfield due list: ${list.overdueCount} overdue, ${list.dueSoonCount} due within ${list.horizonDays} days`;
   const link = `${appUrl.replace(/\/$/, "")}/checks`;
-  const status = (i: DueItem) => (i.overdue ? `◆ OVERDUE ${-i.daysLeft} d` : `▲ due in ${i.daysLeft} d`);
+  const status = (i: DueItem) => (i.overdue ? (i.daysLeft < 0 ? `◆ OVERDUE ${-i.daysLeft} d` : "◆ OVERDUE") : i.daysLeft === 0 ? "▲ due today" : `▲ due in ${i.daysLeft} d`);
   const textLines: string[] = [subject, "", `Generated ${fmtDate(list.generatedTs, timeZone)}. Open the list: ${link}`, ""];
   const htmlParts: string[] = [
     `<p style="font-family:sans-serif">${escapeHtml(subject)}.<br>Generated ${fmtDate(list.generatedTs, timeZone)}. <a href="${escapeHtml(link)}">Open the due list in Stillfield</a>.</p>`,

@@ -6,6 +6,7 @@ import type { Db } from "../client";
 import {
   alertEvents,
   alerts,
+  areas,
   checks,
   devices,
   lineNotes,
@@ -35,6 +36,11 @@ export async function getPlantSettings(db: Db): Promise<PlantSettings> {
   const parsed = plantSettingsSchema.safeParse(rows[0]?.value ?? {});
   if (parsed.success) return parsed.data;
   return { name: "Plant", ...DEFAULT_PLANT_SETTINGS };
+}
+
+/** Each hall's outdoor-air flow and humidifier capacity (for the humidity planner's presets). */
+export async function listHallAirSupply(db: Db): Promise<{ id: number; airflowM3PerH: number; humidifierKgPerH: number }[]> {
+  return db.select({ id: areas.id, airflowM3PerH: areas.airflowM3PerH, humidifierKgPerH: areas.humidifierKgPerH }).from(areas).orderBy(asc(areas.id));
 }
 
 /** Every rule with its current version's severity and params. */

@@ -2,17 +2,25 @@
 // share, and the one write path for a change (a new version + an audit-log entry, in one
 // transaction). The rule definitions themselves are checked with lib/rules' zod schemas, so a
 // rule that the engine would refuse can never be saved.
-import { and, asc, desc, eq, inArray, isNull, sql } from "drizzle-orm";
+import { and, asc, desc, eq, gte, inArray, isNull, lt, sql } from "drizzle-orm";
+import type mysql from "mysql2/promise";
 import { z } from "zod";
 import type { Db } from "../client";
-import { auditLog, people, rules, ruleVersions } from "../schema";
+import { alerts as alertsTable, auditLog, people, rules, ruleVersions } from "../schema";
 import { writeAudit } from "./audit";
+import { loadPlantTopology, type AlertSubject } from "./topology";
 import {
+  collectAlertEpisodes,
+  replay,
   ruleDefinitionSchema,
+  type AlertEpisode,
+  type Channel,
+  type Reading,
   type RuleDefinition,
   type RuleKind,
   type RuleScope,
   type Severity,
+  type Topology,
 } from "../../lib/rules";
 import { AppError, badInput, fieldErrorsFromIssues, notFound } from "../../lib/errors";
 import { RULE_KIND_LABELS } from "../../components/alerts/labels";
@@ -347,4 +355,262 @@ export async function listRuleVersions(db: Db, ruleId: number): Promise<RuleVers
     .leftJoin(people, eq(people.id, ruleVersions.createdBy))
     .where(eq(ruleVersions.ruleId, ruleId))
     .orderBy(desc(ruleVersions.version));
+}
+
+// ---------------------------------------------------------------------------------------------
+// Backtest: replay proposed rules over recorded data (the limits editor)
+
+/** Raw readings are replayed when the span holds at most this many (else 1-minute rollups). */
+export const REPLAY_RAW_BUDGET = 2_000_000;
+export const REPLAY_DEFAULT_SPAN_MS = 7 * 86_400_000;
+export const REPLAY_MAX_SPAN_MS = 31 * 86_400_000;
+const EPISODES_SHOWN = 300;
+
+type ReplaySensor = { deviceId: number; code: string; channels: Channel[] };
+
+/** The sensors (and channels) a replay of one kind within a scope needs, and the topology trimmed to them. */
+export function scopeTopologyForReplay(
+  topology: Topology,
+  kind: RuleKind,
+  scope: { pointId: number | null; lineId: number | null; areaId: number | null },
+  flatChannel: Channel | null,
+): Topology {
+  const lineOfPoint = new Map<number, number>();
+  for (const l of topology.lines) for (const p of l.pointIds) lineOfPoint.set(p, l.lineId);
+  const areaOfLine = new Map(topology.lines.map((l) => [l.lineId, l.areaId]));
+  const pointIn = (pointId: number) => {
+    const lineId = lineOfPoint.get(pointId);
+    const areaId = lineId !== undefined ? areaOfLine.get(lineId) : undefined;
+    return (scope.pointId === null || scope.pointId === pointId) && (scope.lineId === null || scope.lineId === lineId) && (scope.areaId === null || scope.areaId === areaId);
+  };
+  const lineIn = (lineId: number) => scope.pointId === null && (scope.lineId === null || scope.lineId === lineId) && (scope.areaId === null || scope.areaId === areaOfLine.get(lineId));
+  const areaIn = (areaId: number) => scope.pointId === null && scope.lineId === null && (scope.areaId === null || scope.areaId === areaId);
+
+  const usesCharge = kind === "charge_high" || kind === "charge_rate" || kind === "effect_loss" || (kind === "sensor_flat" && flatChannel === "charge_kv") || kind === "sensor_silent";
+  const usesClimate = kind === "rh_low" || kind === "rh_forecast" || (kind === "sensor_flat" && (flatChannel === "rh_pct" || flatChannel === "temp_c")) || kind === "sensor_silent";
+  const pointsKept = new Set<number>();
+  if (usesCharge) {
+    for (const p of topology.points) if (pointIn(p.pointId)) pointsKept.add(p.pointId);
+    if (kind === "effect_loss") for (const n of topology.neutralizers) if (pointsKept.has(n.afterPointId)) pointsKept.add(n.beforePointId);
+  }
+  const linesWithPoints = new Set([...pointsKept].map((p) => lineOfPoint.get(p)));
+  const keepGateway = (lineId: number) =>
+    (usesCharge && linesWithPoints.has(lineId)) || (kind === "sensor_silent" && lineIn(lineId)) || (kind === "sensor_flat" && flatChannel === "speed_mpm" && lineIn(lineId));
+  return {
+    areas: topology.areas.map((a) => ({ ...a, climateSensorKey: usesClimate && areaIn(a.areaId) ? a.climateSensorKey : null })),
+    lines: topology.lines.map((l) => ({ ...l, runningSensorKey: keepGateway(l.lineId) ? l.runningSensorKey : null, speedSensorKey: keepGateway(l.lineId) ? l.speedSensorKey : null })),
+    points: topology.points.map((p) => ({ ...p, fieldMeterSensorKey: pointsKept.has(p.pointId) ? p.fieldMeterSensorKey : null })),
+    neutralizers: topology.neutralizers,
+  };
+}
+
+function replaySensors(topology: Topology, deviceIdByCode: ReadonlyMap<string, number>, kind: RuleKind, flatChannel: Channel | null): ReplaySensor[] {
+  const out = new Map<string, Set<Channel>>();
+  const add = (code: string | null, ch: Channel) => {
+    if (code === null) return;
+    const set = out.get(code) ?? new Set<Channel>();
+    set.add(ch);
+    out.set(code, set);
+  };
+  for (const p of topology.points) add(p.fieldMeterSensorKey, "charge_kv");
+  for (const l of topology.lines) {
+    add(l.runningSensorKey, "running");
+    if (kind === "sensor_flat" && flatChannel === "speed_mpm") add(l.speedSensorKey, "speed_mpm");
+  }
+  for (const a of topology.areas) {
+    add(a.climateSensorKey, "rh_pct");
+    if (kind === "sensor_flat" && flatChannel === "temp_c") add(a.climateSensorKey, "temp_c");
+  }
+  const sensors: ReplaySensor[] = [];
+  for (const [code, channels] of out) {
+    const deviceId = deviceIdByCode.get(code);
+    if (deviceId !== undefined) sensors.push({ deviceId, code, channels: [...channels] });
+  }
+  return sensors;
+}
+
+async function estimateRawCount(pool: mysql.Pool, sensors: ReplaySensor[], fromTs: number, toTs: number): Promise<number> {
+  let total = 0;
+  for (const s of sensors) {
+    const [rows] = await pool.query<mysql.RowDataPacket[]>(
+      "SELECT COALESCE(SUM(`count`), 0) AS n FROM rollup_1m WHERE device_id = ? AND channel IN (?) AND bucket_ts >= ? AND bucket_ts < ?",
+      [s.deviceId, s.channels, fromTs - 60_000, toTs],
+    );
+    total += Number(rows[0]?.n ?? 0);
+  }
+  return total;
+}
+
+type Series = { code: string; channel: Channel; ts: number[]; values: number[] };
+
+async function loadRawSeries(pool: mysql.Pool, s: ReplaySensor, channel: Channel, fromTs: number, toTs: number): Promise<Series> {
+  const [rows] = await pool.query<mysql.RowDataPacket[]>({
+    sql: "SELECT ts, value FROM readings WHERE device_id = ? AND channel = ? AND ts >= ? AND ts < ? ORDER BY ts",
+    values: [s.deviceId, channel, fromTs, toTs],
+    rowsAsArray: true,
+  });
+  const ts = new Array<number>(rows.length);
+  const values = new Array<number>(rows.length);
+  for (let i = 0; i < rows.length; i++) {
+    ts[i] = Number(rows[i][0]);
+    values[i] = Number(rows[i][1]);
+  }
+  return { code: s.code, channel, ts, values };
+}
+
+/**
+ * One value per minute from the 1-minute rollups: charge the extreme by magnitude (an excursion
+ * inside the minute is not averaged away), running the minimum (a stop inside the minute
+ * counts), humidity, temperature and speed the mean.
+ */
+async function loadMinuteSeries(pool: mysql.Pool, s: ReplaySensor, channel: Channel, fromTs: number, toTs: number): Promise<Series> {
+  const [rows] = await pool.query<mysql.RowDataPacket[]>({
+    sql: "SELECT bucket_ts, `min`, `max`, `sum`, `count` FROM rollup_1m WHERE device_id = ? AND channel = ? AND bucket_ts >= ? AND bucket_ts < ? ORDER BY bucket_ts",
+    values: [s.deviceId, channel, fromTs, toTs],
+    rowsAsArray: true,
+  });
+  const ts: number[] = [];
+  const values: number[] = [];
+  for (const r of rows) {
+    const [b, mn, mx, sm, n] = [Number(r[0]), Number(r[1]), Number(r[2]), Number(r[3]), Number(r[4])];
+    if (!(n > 0)) continue;
+    const v = channel === "charge_kv" ? (Math.abs(mn) > Math.abs(mx) ? mn : mx) : channel === "running" ? mn : sm / n;
+    ts.push(b);
+    values.push(v);
+  }
+  return { code: s.code, channel, ts, values };
+}
+
+/** k-way merge of per-series arrays into time order (ties: series order, stable). */
+export function mergeSeries(series: readonly Series[]): Reading[] {
+  const total = series.reduce((n, s) => n + s.ts.length, 0);
+  const out = new Array<Reading>(total);
+  const idx = new Array<number>(series.length).fill(0);
+  for (let k = 0; k < total; k++) {
+    let best = -1;
+    let bestTs = Infinity;
+    for (let j = 0; j < series.length; j++) {
+      const i = idx[j];
+      if (i < series[j].ts.length && series[j].ts[i] < bestTs) {
+        bestTs = series[j].ts[i];
+        best = j;
+      }
+    }
+    const s = series[best];
+    out[k] = { sensorKey: s.code, channel: s.channel, ts: s.ts[idx[best]], value: s.values[idx[best]] };
+    idx[best]++;
+  }
+  return out;
+}
+
+export const replayInputSchema = saveRuleInputSchema.extend({
+  fromTs: z.number().int().optional(),
+  toTs: z.number().int().optional(),
+  /** force a source (tests); default: raw when within budget and retention, else 1-minute rollups */
+  source: z.enum(["raw", "1m"]).optional(),
+});
+export type ReplayInput = z.input<typeof replayInputSchema>;
+
+export type ReplayEpisode = { ruleId: number; severity: Severity; subjectKey: string; where: string; raisedTs: number; clearedTs: number | null; durationMs: number | null; peakValue: number; chattering: boolean; edited: boolean };
+export type ReplaySide = { count: number; totalDurationMs: number; stillActive: number; chattering: number; episodes: ReplayEpisode[] };
+export type ReplayResult = {
+  fromTs: number;
+  toTs: number;
+  source: "raw" | "1m";
+  readings: number;
+  sensors: string[];
+  elapsedMs: number;
+  editedRuleId: number;
+  current: ReplaySide;
+  proposed: ReplaySide;
+  /** alerts of this kind the live engine stored in the span, within the scope */
+  stored: number;
+};
+
+function summarize(episodes: AlertEpisode[], editedRuleId: number, subjects: ReadonlyMap<string, AlertSubject>): ReplaySide {
+  return {
+    count: episodes.length,
+    totalDurationMs: episodes.reduce((n, e) => n + (e.durationMs ?? 0), 0),
+    stillActive: episodes.filter((e) => e.clearedTs === null).length,
+    chattering: episodes.filter((e) => e.chattering).length,
+    episodes: episodes.slice(-EPISODES_SHOWN).map((e) => ({
+      ruleId: e.ruleId,
+      severity: e.severity,
+      subjectKey: e.subjectKey,
+      where: subjects.get(e.subjectKey)?.where ?? e.subjectKey,
+      raisedTs: e.raisedTs,
+      clearedTs: e.clearedTs,
+      durationMs: e.durationMs,
+      peakValue: e.peakValue,
+      chattering: e.chattering,
+      edited: e.ruleId === editedRuleId,
+    })),
+  };
+}
+
+/**
+ * Replays the current rules of the proposal's kind and the same set with the proposal in place
+ * over the recorded data of the sensors in the proposal's scope (lib/rules replay(), the code
+ * the live worker runs), and counts what each would have raised.
+ */
+export async function replayRuleProposal(db: Db, pool: mysql.Pool, raw: ReplayInput, nowMs = Date.now(), rawRetentionMs = 14 * 86_400_000): Promise<ReplayResult> {
+  const started = performance.now();
+  const parsedInput = replayInputSchema.safeParse(raw);
+  if (!parsedInput.success) throw badInput("The replay request is not valid.", fieldErrorsFromIssues(parsedInput.error.issues));
+  const input = parsedInput.data;
+  const toTs = Math.min(input.toTs ?? nowMs, nowMs);
+  const fromTs = input.fromTs ?? toTs - REPLAY_DEFAULT_SPAN_MS;
+  if (!(fromTs < toTs)) throw badInput("The replay must start before it ends.", { fromTs: ["Start before the end"] });
+  if (toTs - fromTs > REPLAY_MAX_SPAN_MS) throw badInput("Replay at most 31 days at a time.", { fromTs: ["At most 31 days"] });
+
+  const [topo, rows] = await Promise.all([loadPlantTopology(db), listRuleRows(db)]);
+  const { rules: current } = toRuleDefinitions(rows);
+  const existing = input.ruleId !== undefined ? rows.find((r) => r.id === input.ruleId) : undefined;
+  if (input.ruleId !== undefined && !existing) throw notFound("No such rule.");
+  const editedRuleId = existing?.id ?? rows.reduce((m, r) => Math.max(m, r.id), 0) + 1;
+  const proposal = checkProposedRule(input, editedRuleId, existing ? existing.currentVersion + 1 : 1);
+  const sameKind = current.filter((r) => r.kind === input.kind);
+  const proposedSet = [...sameKind.filter((r) => r.id !== editedRuleId), proposal];
+
+  const flatChannel: Channel | null = proposal.kind === "sensor_flat" ? proposal.params.channel : null;
+  const topology = scopeTopologyForReplay(topo.topology, input.kind, input.scope, flatChannel);
+  const sensors = replaySensors(topology, topo.deviceIdByCode, input.kind, flatChannel);
+
+  let source: "raw" | "1m" = input.source ?? "raw";
+  if (!input.source) {
+    if (fromTs < nowMs - rawRetentionMs) source = "1m";
+    else if ((await estimateRawCount(pool, sensors, fromTs, toTs)) > REPLAY_RAW_BUDGET) source = "1m";
+  }
+  const series: Series[] = [];
+  for (const s of sensors) {
+    for (const ch of s.channels) series.push(await (source === "raw" ? loadRawSeries(pool, s, ch, fromTs, toTs) : loadMinuteSeries(pool, s, ch, fromTs, toTs)));
+  }
+  const readings = mergeSeries(series);
+  const currentEpisodes = collectAlertEpisodes(replay(sameKind, topology, readings, { endTs: toTs }));
+  const proposedEpisodes = collectAlertEpisodes(replay(proposedSet, topology, readings, { endTs: toTs }));
+
+  // what the live engine stored over the span, within the scope
+  const subjectInScope = new Set<string>();
+  for (const p of topology.points) if (p.fieldMeterSensorKey !== null) subjectInScope.add(`point:${p.pointId}`);
+  for (const a of topology.areas) if (a.climateSensorKey !== null) subjectInScope.add(`area:${a.areaId}`);
+  for (const s of sensors) subjectInScope.add(`sensor:${s.code}`);
+  for (const n of topology.neutralizers) subjectInScope.add(`neutralizer:${n.neutralizerId}`);
+  const storedRows = await db
+    .select({ subjectKey: alertsTable.subjectKey })
+    .from(alertsTable)
+    .where(and(eq(alertsTable.kind, input.kind), gte(alertsTable.startTs, fromTs), lt(alertsTable.startTs, toTs)));
+  const stored = storedRows.filter((r) => subjectInScope.has(r.subjectKey)).length;
+
+  return {
+    fromTs,
+    toTs,
+    source,
+    readings: readings.length,
+    sensors: sensors.map((s) => s.code),
+    elapsedMs: Math.round(performance.now() - started),
+    editedRuleId,
+    current: summarize(currentEpisodes, editedRuleId, topo.subjects),
+    proposed: summarize(proposedEpisodes, editedRuleId, topo.subjects),
+    stored,
+  };
 }

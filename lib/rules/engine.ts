@@ -20,6 +20,10 @@
  * - A line with no running sensor, or whose running sensor has not reported yet, counts as
  *   running (rules err on the side of alerting).
  * - Memory is bounded: each window keeps only its span; held-back data at most the lag above.
+ * - tick(nowTs) compares nowTs with reading times, so tick with the clock the devices stamp
+ *   their readings with (the worker's wall clock, when device clocks are set right). Ticks only
+ *   reveal a silence that is still going on: every transition carries the exact reading-time
+ *   moment it happened, whatever the tick cadence.
  *
  * Rule edits: build a new engine with the new rules and the old engine's snapshot(). An
  * evaluator of an unchanged rule version continues exactly; a new version keeps its open alert

@@ -68,6 +68,7 @@ import {
   createRangeWindow,
   createSampleWindow,
   fitSampleWindow,
+  getFittedValue,
   getRange,
   getWindowMean,
   isRangeWindowFull,
@@ -261,7 +262,7 @@ export class ChargeRateEvaluator extends BaseEvaluator<ChargeRateRule, SampleWin
       return;
     }
     const line = fitSampleWindow(w);
-    const fittedNowKv = line.valueAt(t);
+    const fittedNowKv = getFittedValue(line, t);
     const rateKvPerMin =
       fittedNowKv > 0 ? line.slopePerMin : fittedNowKv < 0 ? -line.slopePerMin : Math.abs(line.slopePerMin);
     const valueClear = rateKvPerMin < this.rule.params.clearRateKvPerMin;
@@ -352,7 +353,7 @@ export class RhForecastEvaluator extends BaseEvaluator<RhForecastRule, SampleWin
     const line = fitSampleWindow(w);
     const slope = line.slopePerMin;
     this.slopePctPerMin = slope;
-    const fittedNowPct = line.valueAt(t);
+    const fittedNowPct = getFittedValue(line, t);
     const projectedPct = fittedNowPct + slope * horizonMin;
     const expectedCrossingTs =
       slope < 0 ? Math.round(t + Math.max(0, (fittedNowPct - limitPct) / -slope) * 60_000) : null;
@@ -566,14 +567,13 @@ export class SensorSilentEvaluator extends BaseEvaluator<SensorSilentRule, null>
   advance(ctx: EvalContext, until: number, inclusive: boolean, out: AlertTransition[]): void {
     const base = this.baseTs(ctx);
     if (base === null) return;
-    const reached = (ts: number) => (inclusive ? ts <= until : ts < until);
     const silentMs = this.rule.params.silentS * 1000;
     const h = this.state.h;
     // At most: a pending clear fires, then a new silence raises.
     for (let step = 0; step < 2; step++) {
       if (h.phase === "normal" || h.alert === null) {
         const raiseTs = base + silentMs + this.rule.onDelayS * 1000;
-        if (reached(raiseTs)) {
+        if (inclusive ? raiseTs <= until : raiseTs < until) {
           this.neverHeard = ctx.getSensorLastTs(this.sensor.sensorKey) === null;
           const silentS = (raiseTs - base) / 1000;
           raiseAlert(this, raiseTs, base + silentMs, silentS, silentS, null, out);
@@ -584,11 +584,11 @@ export class SensorSilentEvaluator extends BaseEvaluator<SensorSilentRule, null>
       const clearTs = h.sinceTs + this.rule.offDelayS * 1000;
       const silentAgainTs = base + silentMs;
       if (clearTs < silentAgainTs) {
-        if (!reached(clearTs)) return;
+        if (inclusive ? clearTs > until : clearTs >= until) return;
         clearAlert(this, clearTs, out);
         continue;
       }
-      if (reached(silentAgainTs)) h.sinceTs = null; // silence came back before the off-delay ran out
+      if (inclusive ? silentAgainTs <= until : silentAgainTs < until) h.sinceTs = null; // silence came back before the off-delay ran out
       return;
     }
   }

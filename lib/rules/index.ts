@@ -15,7 +15,7 @@ export {
   subjectKeyOfPoint,
   subjectKeyOfSensor,
 } from "./evaluators";
-export { CHATTER_WINDOW_MS, UPDATE_MIN_INTERVAL_MS } from "./hysteresis";
+export { CHATTER_WINDOW_MS, CROSSING_SHIFT_MIN_MS, UPDATE_MIN_INTERVAL_MS } from "./hysteresis";
 export { WINDOW_FULL_FRACTION, MIN_WINDOW_SAMPLES } from "./windows";
 export { collectAlertEpisodes, type AlertEpisode } from "./episodes";
 export { DEFAULT_RULES, DEFAULT_RULE_INPUTS } from "./defaults";

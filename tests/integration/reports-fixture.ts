@@ -3,13 +3,13 @@
 // comments, line notes, neutralizer records and checks (the shift handover and the equipment
 // report), and a week of 1-minute and 1-hour rollups of Gravure Press 1 (the weekly review).
 // The generators are plain functions of time so the tests can recompute every expected figure
-// on their own.
+// on their own. Relative imports: the browser tests (Playwright) load this file too.
 import { eq } from "drizzle-orm";
-import type { Db } from "@/db/client";
-import * as s from "@/db/schema";
-import { DEMO_PEOPLE } from "@/lib/demo-plant";
-import { addDaysToDate, localDateOf, localTimeToTs, shiftWindowFor, weekWindow, type ShiftWindow } from "@/lib/report-shifts";
-import { DEFAULT_PLANT_SETTINGS } from "@/lib/plant-settings";
+import type { Db } from "../../db/client";
+import * as s from "../../db/schema";
+import { DEMO_PEOPLE } from "../../lib/demo-plant";
+import { addDaysToDate, localDateOf, localTimeToTs, shiftWindowFor, weekWindow, type ShiftWindow } from "../../lib/report-shifts";
+import { DEFAULT_PLANT_SETTINGS } from "../../lib/plant-settings";
 
 export const FIXTURE_TZ = "Europe/London";
 export const SEC = 1000;

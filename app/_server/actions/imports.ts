@@ -55,10 +55,10 @@ async function readCsvText(file: File): Promise<{ text: string; sha256: string }
   if (bytes.includes(0)) throw new AppError("unprocessable", "This is not a text (CSV) file.", { file: ["Not a CSV file"] });
   let text: string;
   try {
-    text = new TextDecoder("utf-8", { fatal: true }).decode(bytes);
+    text = new TextDecoder("utf-8", { fatal: true, ignoreBOM: true }).decode(bytes);
   } catch {
-    // older instruments write Windows-1252 ("°" as one byte)
-    text = new TextDecoder("windows-1252").decode(bytes);
+    // older instruments write Windows-1252 ("°" as one byte); the BOM is kept for the analysis
+    text = new TextDecoder("windows-1252", { ignoreBOM: true }).decode(bytes);
   }
   return { text, sha256: sha256Hex(bytes) };
 }

@@ -1,0 +1,44 @@
+"use client";
+// The "cleaned" action and the note / fault report on an equipment page.
+import { ActionForm, Field, inputClass, SubmitButton } from "@/components/forms/action-form";
+import { addEquipmentNote, markCleaned } from "../actions";
+
+export function CleanedForm({ id, nowLocal }: { id: number; nowLocal: string }) {
+  return (
+    <ActionForm action={markCleaned} className="space-y-2" successMessage="Cleaning recorded; the cleaning clock starts again." resetOnSuccess>
+      <input type="hidden" name="id" value={id} />
+      <div className="grid grid-cols-[1fr_auto] items-end gap-2">
+        <Field label="Cleaned at" name="cleanedAt">
+          <input type="datetime-local" name="cleanedAt" defaultValue={nowLocal} className={inputClass} />
+        </Field>
+        <SubmitButton>Record cleaning</SubmitButton>
+      </div>
+      <Field label="What was done (optional)" name="note">
+        <input name="note" className={inputClass} maxLength={500} placeholder="e.g. wiped emitter pins with isopropanol" />
+      </Field>
+    </ActionForm>
+  );
+}
+
+export function NoteForm({ subjectType, subjectId }: { subjectType: "neutralizer" | "device"; subjectId: number }) {
+  return (
+    <ActionForm action={addEquipmentNote} className="space-y-2" successMessage="Added to the history." resetOnSuccess>
+      <input type="hidden" name="subjectType" value={subjectType} />
+      <input type="hidden" name="subjectId" value={subjectId} />
+      <Field label="Note" name="text">
+        <textarea name="text" rows={2} className={inputClass} maxLength={1000} required />
+      </Field>
+      <div className="flex items-center gap-3">
+        <label className="flex items-center gap-1.5 text-sm text-ink-soft">
+          <input type="radio" name="kind" value="note" defaultChecked className="accent-brand" /> Note
+        </label>
+        <label className="flex items-center gap-1.5 text-sm text-ink-soft">
+          <input type="radio" name="kind" value="fault" className="accent-brand" /> Fault report
+        </label>
+        <span className="ml-auto">
+          <SubmitButton variant="quiet">Add</SubmitButton>
+        </span>
+      </div>
+    </ActionForm>
+  );
+}

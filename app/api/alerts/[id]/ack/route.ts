@@ -1,0 +1,12 @@
+// POST /api/alerts/<id>/ack  body {comment?: string} — acknowledge an alert (shift leads and up;
+// the action checks again). 200 with {alertId, state, severity, …}; 400/403/404/409 otherwise.
+import { route } from "@/app/_server/route";
+import { ackAlertAction } from "@/app/_server/actions/alerts";
+import { actionResponse, alertIdOf, readBodyObject } from "../../_respond";
+
+export const dynamic = "force-dynamic";
+
+export const POST = route<{ id: string }>("alert.respond", async ({ session, params, request }) => {
+  const body = await readBodyObject(request);
+  return actionResponse(await ackAlertAction.run(session, { ...body, alertId: alertIdOf(params) }));
+});

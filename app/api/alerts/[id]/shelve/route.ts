@@ -1,0 +1,12 @@
+// POST /api/alerts/<id>/shelve  body {reason: string, durationMin?: number, untilTs?: number} — shelve (for a stated time, with a reason) an alert (shift leads and up;
+// the action checks again). 200 with {alertId, state, severity, …}; 400/403/404/409 otherwise.
+import { route } from "@/app/_server/route";
+import { shelveAlertAction } from "@/app/_server/actions/alerts";
+import { actionResponse, alertIdOf, readBodyObject } from "../../_respond";
+
+export const dynamic = "force-dynamic";
+
+export const POST = route<{ id: string }>("alert.respond", async ({ session, params, request }) => {
+  const body = await readBodyObject(request);
+  return actionResponse(await shelveAlertAction.run(session, { ...body, alertId: alertIdOf(params) }));
+});

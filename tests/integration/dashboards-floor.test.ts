@@ -1,0 +1,101 @@
+// The Floor's snapshot and the limits it draws, against a seeded database of its own.
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { createTestDatabase, type TestDatabase } from "../helpers/test-db";
+import { alerts, ruleVersions, rules, settings } from "@/db/schema";
+import { eq } from "drizzle-orm";
+import { getFloorSnapshot, getPlantSettings, listLineAlerts } from "@/db/queries/floor";
+import { DEMO_AREAS, DEMO_LINES } from "@/lib/demo-plant";
+
+let tdb: TestDatabase;
+const now = Math.floor(Date.now() / 1000) * 1000;
+
+beforeAll(async () => {
+  tdb = await createTestDatabase("dashboards_floor", { seed: true });
+});
+afterAll(async () => {
+  await tdb?.close();
+});
+
+async function addRule(kind: "charge_high" | "rh_low", scope: { pointId?: number; lineId?: number; areaId?: number }, params: Record<string, number>, enabled = true) {
+  const [r] = await tdb.db.insert(rules).values({ kind, name: `test ${kind}`, createdAt: now, currentVersion: 2, enabled, ...scope });
+  // version 1 is stale; the current version (2) is the one in force
+  await tdb.db.insert(ruleVersions).values([
+    { ruleId: r.insertId, version: 1, severity: "medium", onDelayS: 10, offDelayS: 30, params: { ...params, limitKv: 99, limitPct: 1 }, createdAt: now },
+    { ruleId: r.insertId, version: 2, severity: "medium", onDelayS: 10, offDelayS: 30, params, createdAt: now },
+  ]);
+  return r.insertId;
+}
+
+describe("floor snapshot", () => {
+  it("has every demo hall, line and point in web-path order, with the plant defaults as limits", async () => {
+    const snap = await getFloorSnapshot(tdb.db, { nowMs: now });
+    expect(snap.areas.map((a) => a.name)).toEqual(DEMO_AREAS.map((a) => a.name));
+    const lines = snap.areas.flatMap((a) => a.lines);
+    expect(lines.map((l) => l.name)).toEqual(DEMO_LINES.map((l) => l.name));
+    for (const [i, l] of lines.entries()) {
+      expect(l.points.map((p) => p.name)).toEqual(DEMO_LINES[i].points.map((p) => p.name));
+      expect(l.points.map((p) => p.position)).toEqual(l.points.map((_, j) => j + 1));
+      expect(l.speedGateway).not.toBeNull();
+      for (const p of l.points) {
+        expect(p.fieldMeter).not.toBeNull();
+        expect(p.limit).toMatchObject({ limitKv: 12, clearKv: 10, level: "plant" });
+      }
+    }
+    for (const a of snap.areas) expect(a.rhLimit).toMatchObject({ limitPct: 30, level: "plant" });
+    expect(snap.series).toEqual([]); // no readings yet
+    expect(snap.settings.timeZone).toBe("Europe/London");
+    expect(JSON.stringify(snap)).not.toMatch(/secret|\$2[aby]\$|sha256:/i);
+  });
+
+  it("uses a line's own limit over the plant default, a point's over the line's, the current version's params", async () => {
+    const before = await getFloorSnapshot(tdb.db, { nowMs: now });
+    const line = before.areas[0].lines[0];
+    await addRule("charge_high", { lineId: line.id }, { limitKv: 8, clearKv: 6 });
+    await addRule("charge_high", { pointId: line.points[1].id, lineId: line.id, areaId: line.areaId }, { limitKv: 25, clearKv: 20 });
+    await addRule("charge_high", { pointId: line.points[2].id, lineId: line.id, areaId: line.areaId }, { limitKv: 2, clearKv: 1 }, false);
+    await addRule("rh_low", { areaId: before.areas[1].id }, { limitPct: 35, clearPct: 38 });
+    const after = await getFloorSnapshot(tdb.db, { nowMs: now });
+    const l = after.areas[0].lines[0];
+    expect(l.points[0].limit).toMatchObject({ limitKv: 8, level: "line" });
+    expect(l.points[1].limit).toMatchObject({ limitKv: 25, level: "point" });
+    expect(l.points[2].limit).toMatchObject({ limitKv: 8, level: "line" }); // a disabled point rule is skipped
+    expect(after.areas[0].lines[1].points[0].limit).toMatchObject({ limitKv: 12, level: "plant" });
+    expect(after.areas[1].rhLimit).toMatchObject({ limitPct: 35, level: "area" });
+    expect(after.areas[0].rhLimit).toMatchObject({ limitPct: 30, level: "plant" });
+  });
+
+  it("counts open alerts per line and hall and marks shelved points", async () => {
+    const snap = await getFloorSnapshot(tdb.db, { nowMs: now });
+    const area = snap.areas[0];
+    const line = area.lines[0];
+    const base = { ruleId: 1, ruleVersion: 1, kind: "charge_high" as const, severity: "medium" as const, message: "test", startTs: now - 600_000 };
+    await tdb.db.insert(alerts).values([
+      { ...base, subjectKey: "a", areaId: area.id, lineId: line.id, pointId: line.points[0].id },
+      { ...base, subjectKey: "b", areaId: area.id, lineId: line.id, pointId: line.points[1].id, shelvedUntilTs: now + 3_600_000, shelvedReason: "bar being cleaned" },
+      { ...base, subjectKey: "c", areaId: area.id, lineId: line.id, pointId: line.points[2].id, state: "closed", endTs: now - 60_000, closedTs: now - 30_000 },
+      { ...base, kind: "rh_low", subjectKey: "d", areaId: area.id },
+    ]);
+    const after = await getFloorSnapshot(tdb.db, { nowMs: now });
+    const l = after.areas[0].lines[0];
+    expect(l.openAlerts).toBe(2);
+    expect(after.areas[0].openAlerts).toBe(1);
+    expect(l.points.map((p) => p.shelved)).toEqual([false, true, false, false]);
+    expect(after.areas[0].lines[1].openAlerts).toBe(0);
+
+    const timeline = await listLineAlerts(tdb.db, { lineId: line.id, areaId: area.id, fromTs: now - 3_600_000, toTs: now });
+    expect(timeline.map((a) => a.message)).toHaveLength(4); // the line's three and the hall's humidity alert
+    const otherLine = await listLineAlerts(tdb.db, { lineId: area.lines[1].id, areaId: area.id, fromTs: now - 3_600_000, toTs: now });
+    expect(otherLine).toHaveLength(1);
+    expect(otherLine[0].kind).toBe("rh_low");
+    const before = await listLineAlerts(tdb.db, { lineId: line.id, areaId: area.id, fromTs: now - 7_200_000, toTs: now - 3_600_000 });
+    expect(before).toEqual([]);
+  });
+
+  it("reads the plant settings and falls back to defaults when the row is damaged", async () => {
+    expect((await getPlantSettings(tdb.db)).shifts).toHaveLength(3);
+    await tdb.db.update(settings).set({ value: { name: "Harrow Fen Packaging", timeZone: "America/Chicago", shifts: [{ name: "Days", start: "07:00" }] } }).where(eq(settings.key, "plant"));
+    expect(await getPlantSettings(tdb.db)).toMatchObject({ timeZone: "America/Chicago", shifts: [{ name: "Days", start: "07:00" }], chargeUnit: "kV" });
+    await tdb.db.update(settings).set({ value: { shifts: "three" } }).where(eq(settings.key, "plant"));
+    expect((await getPlantSettings(tdb.db)).timeZone).toBe("Europe/London");
+  });
+});
