@@ -7,14 +7,14 @@
 //   tsx simulators/plant.ts                      backfill the missing part of the last 7 days, then live
 //   tsx simulators/plant.ts --backfill-days 30   a month of history (raw within the retention only)
 //   tsx simulators/plant.ts --no-live            backfill only
-//   tsx simulators/plant.ts --backfill-days 0 --from -4h --speed 600
+//   tsx simulators/plant.ts --backfill-days 0 --from=-4h --speed 600
 //                                                live from 4 h ago at 600× until caught up with now
 // Options (or env): --seed (SIM_SEED, 7), --anchor <epoch ms> (SIM_ANCHOR_MS; default: the
 // anchor stored at first start in DATA_DIR/sim-anchor-<DB_NAME>.json, else now),
 // --backfill-days (SIM_BACKFILL_DAYS, 7), --full-rate-hours (SIM_FULL_RATE_HOURS, 24) and
 // --thin n (SIM_BACKFILL_THIN, 5): history older than the full-rate hours is written at every
 // n-th sample so a week backfills in under a minute (--thin 1 for the full rate), --speed,
-// --from (-4h, -30m or epoch ms), --until (+10m, now, epoch ms: stop when simulated time gets
+// --from (=-4h, =-30m or epoch ms; write negative times as --from=-4h), --until (+10m, now, epoch ms: stop when simulated time gets
 // there), --duration-s (stop after so many wall seconds), --devices code,code,
 // --malformed-every-s (SIM_MALFORMED_EVERY_S, 600; 0 = never): one bad message per interval of
 // simulated time, --log-acked <file>: append "code,channel,ts" for every reading the broker

@@ -9,14 +9,8 @@ import { LiveStore } from "@/components/live/live-store";
 import { useLiveStream, type StreamStatus } from "@/components/live/use-live-stream";
 import type { AlertStateName } from "./labels";
 
-export type AlertFilterState = {
-  area: number | null;
-  line: number | null;
-  /** "open" (not closed), one state, or "all" */
-  state: "open" | "all" | AlertStateName;
-  /** hours back, or null for any time */
-  hours: number | null;
-};
+import type { AlertFilterState } from "./filters";
+export type { AlertFilterState };
 
 export type AlertsResponse = { alerts: AlertListItem[]; counts: Record<AlertStateName, number>; serverTs: number };
 

@@ -5,11 +5,12 @@
 import { and, asc, desc, eq, gte, inArray, lt, sql } from "drizzle-orm";
 import { TZDate } from "@date-fns/tz";
 import type { Db } from "../client";
-import { areas, devices, equipmentEvents, ingestRejections, lines, neutralizers, people, points, rollup1m, settings, uploads } from "../schema";
+import { areas, devices, equipmentEvents, lines, neutralizers, people, points, rollup1m, settings, uploads } from "../schema";
 import { DEVICE_KINDS, NEUTRALIZER_KINDS, NEUTRALIZER_STATES } from "../schema/plant";
 import { EQUIPMENT_EVENT_KINDS } from "../schema/records";
 import { effectFraction } from "../../lib/physics/neutralizer";
 import { DEFAULT_PLANT_SETTINGS, plantSettingsSchema } from "../../lib/plant-settings";
+import { getIngestStatus, listRecentRejections } from "./ingest-diagnostics";
 import { getCheckLimits, lastCheckTimes, listChecks, projectDecay, type CheckRow, type DecayProjection, type KindLimits } from "./checks";
 
 export type NeutralizerState = (typeof NEUTRALIZER_STATES)[number];
@@ -560,6 +561,9 @@ export type DeviceListItem = {
   createdAt: number;
   /** readings per minute over the last 10 minutes, from the 1-minute rollups */
   readingsPerMin: number;
+  /** messages in the last minute as counted by the ingest workers (null when no worker reports) */
+  messagesPerMin: number | null;
+  /** rejected messages in the last 24 h (of the rejections the worker keeps) */
   rejections24h: number;
   lastRejection: { ts: number; reason: string; detail: string | null } | null;
 };
@@ -593,34 +597,40 @@ export async function listDevices(db: Db, nowMs = Date.now(), opts: { ids?: numb
   if (!rows.length) return [];
   const places = await getPlaceOptions(db);
   const rateFrom = Math.floor(nowMs / 60_000) * 60_000 - RATE_WINDOW_MIN * 60_000;
-  const [rates, rejections, lastRejections] = await Promise.all([
+  const [rates, rejections, status] = await Promise.all([
     db
       .select({ deviceId: rollup1m.deviceId, n: sql<number>`sum(${rollup1m.count})` })
       .from(rollup1m)
       .where(and(inArray(rollup1m.deviceId, rows.map((r) => r.id)), gte(rollup1m.bucketTs, rateFrom)))
       .groupBy(rollup1m.deviceId),
-    db
-      .select({ code: ingestRejections.deviceCode, n: sql<number>`count(*)` })
-      .from(ingestRejections)
-      .where(and(inArray(ingestRejections.deviceCode, rows.map((r) => r.code)), gte(ingestRejections.ts, nowMs - DAY_MS)))
-      .groupBy(ingestRejections.deviceCode),
-    db
-      .select({ code: ingestRejections.deviceCode, ts: ingestRejections.ts, reason: ingestRejections.reason, detail: ingestRejections.detail })
-      .from(ingestRejections)
-      .where(inArray(ingestRejections.deviceCode, rows.map((r) => r.code)))
-      .orderBy(desc(ingestRejections.ts))
-      .limit(500),
+    // the worker keeps the newest few hundred rejections (ingest diagnostics)
+    listRecentRejections(db, { limit: 500 }),
+    getIngestStatus(db),
   ]);
   const rate = new Map(rates.map((r) => [r.deviceId, Number(r.n)]));
-  const rej = new Map(rejections.map((r) => [r.code, Number(r.n)]));
+  const rej = new Map<string, number>();
   const lastRej = new Map<string, { ts: number; reason: string; detail: string | null }>();
-  for (const r of lastRejections) if (r.code && !lastRej.has(r.code)) lastRej.set(r.code, { ts: r.ts, reason: r.reason, detail: r.detail });
+  for (const r of rejections) {
+    if (!r.deviceCode) continue;
+    if (r.ts >= nowMs - DAY_MS) rej.set(r.deviceCode, (rej.get(r.deviceCode) ?? 0) + 1);
+    const prev = lastRej.get(r.deviceCode);
+    if (!prev || r.ts > prev.ts) lastRej.set(r.deviceCode, { ts: r.ts, reason: r.reason, detail: r.detail });
+  }
+  // messages in the last minute, summed over the workers that reported within 2 minutes
+  const messages = new Map<string, number>();
+  let workersReporting = 0;
+  for (const w of status) {
+    if (!w.stats || w.stats.kind !== "worker" || nowMs - w.updatedTs > 120_000) continue;
+    workersReporting++;
+    for (const [code, c] of Object.entries(w.stats.devices)) messages.set(code, (messages.get(code) ?? 0) + c.messagesLastMinute);
+  }
   return rows.map((r) => ({
     ...r,
     enabled: Boolean(r.enabled),
     online: Boolean(r.online),
     placeLabel: placeLabel(places, r),
     readingsPerMin: Math.round(((rate.get(r.id) ?? 0) / RATE_WINDOW_MIN) * 10) / 10,
+    messagesPerMin: workersReporting > 0 ? (messages.get(r.code) ?? 0) : null,
     rejections24h: rej.get(r.code) ?? 0,
     lastRejection: lastRej.get(r.code) ?? null,
   }));

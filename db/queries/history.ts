@@ -23,6 +23,8 @@ export const RAW_MAX_SPAN_MS = 6 * 3_600_000;
 export const ROLLUP_1M_MAX_SPAN_MS = 8 * 86_400_000;
 
 export const MAX_HISTORY_POINTS = 5_000;
+/** How far back the right edge of a rollup answer may be filled from raw readings. */
+export const RAW_TAIL_MAX_MS = 2 * 3_600_000;
 
 /** [bucket time (epoch ms), min, mean, max] */
 export type HistoryPoint = [number, number, number, number];
@@ -155,7 +157,8 @@ export async function getHistory(db: Db, req: HistoryRequest): Promise<HistoryRe
     // the right edge: buckets newer than the last rolled-up one, from raw readings
     const lastBucketStart = rows.length ? rows[rows.length - 1].tl : rollupFrom - res;
     const tailFrom = Math.max(lastBucketStart + res, req.fromTs);
-    if (tailFrom <= req.toTs && req.toTs - tailFrom <= 2 * res + 60_000) {
+    // bounded: a few thousand raw rows at most (a worker that fell hours behind shows a gap)
+    if (tailFrom <= req.toTs && req.toTs - tailFrom <= Math.max(3 * res, RAW_TAIL_MAX_MS)) {
       const tail = await rawBuckets(db, req.deviceId, req.channel, t0, req.toTs, tailFrom, bucketMs);
       rows = mergeBuckets(rows, tail);
     }

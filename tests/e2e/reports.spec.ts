@@ -49,8 +49,11 @@ test.describe("shift handover", () => {
     await snapFull(page, "report-handover-full");
 
     // print view: the shell's navigation and the report controls are gone, the codes remain
+    const mainNav = page.getByRole("navigation", { name: "Main" });
+    await expect(mainNav).toBeVisible();
+    await expect(page.getByTestId("handover-controls")).toBeVisible();
     await page.emulateMedia({ media: "print" });
-    await expect(page.getByRole("navigation").first()).toBeHidden();
+    await expect(mainNav).toBeHidden();
     await expect(page.getByRole("link", { name: "Floor" })).toBeHidden();
     await expect(page.getByTestId("signed-in-as")).toBeHidden();
     await expect(page.getByTestId("handover-controls")).toBeHidden();

@@ -78,7 +78,7 @@ describe("database outage", () => {
     const ackedFile = path.join(stack.dataDir, "acked-outage.csv");
     // 20 simulated minutes at 40× (about 700 readings/s), scenario events far away
     const plant = startPlant([
-      "--backfill-days", "0", "--from", "-20m", "--speed", "40", "--duration-s", "24",
+      "--backfill-days", "0", "--from=-20m", "--speed", "40", "--duration-s", "24",
       "--malformed-every-s", "0", "--anchor", String(Date.now() - 30 * DAY), "--log-acked", ackedFile,
     ]);
     await waitFor("readings before the outage", async () => (await stack.workerStats()).committed.readings > 500, 30_000);
@@ -108,7 +108,7 @@ describe("worker crash", () => {
   it("loses no QoS-1 message when the worker is killed and restarted", async () => {
     const ackedFile = path.join(stack.dataDir, "acked-crash.csv");
     const plant = startPlant([
-      "--backfill-days", "0", "--from", "-9m", "--speed", "25", "--duration-s", "18",
+      "--backfill-days", "0", "--from=-9m", "--speed", "25", "--duration-s", "18",
       "--malformed-every-s", "0", "--anchor", String(Date.now() - 30 * DAY), "--log-acked", ackedFile,
     ]);
     const before = (await stack.workerStats()).committed.readings;

@@ -1,0 +1,126 @@
+// The plant simulator's scenario is visible in what is stored (issue 3, "Done when"): a week
+// of backfilled history shows the cold snap drying the Press Hall over hours, the Gravure
+// Press 1 unwind neutralizer fouling, the power-unit fault and the silent sensor; raw rows and
+// rollups agree. Then the live simulator plays through the real broker and worker, and its odd
+// malformed messages are rejected while its readings are stored.
+import path from "node:path";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { createTestDatabase, type TestDatabase } from "../helpers/test-db";
+import { ROOT, spawnTs, startIngestStack, waitFor, type IngestStack } from "./ingest-support/processes";
+
+const H = 3_600_000;
+const DAY = 24 * H;
+let tdb: TestDatabase;
+let stack: IngestStack | null = null;
+const anchor = Math.floor(Date.now() / 1000) * 1000;
+
+beforeAll(async () => {
+  tdb = await createTestDatabase("ingest_sim", { seed: true });
+  // a week at one sample a minute per field meter (--thin 60), with the scenario anchored now
+  const plant = spawnTs(
+    "plant",
+    "simulators/plant.ts",
+    ["--no-live", "--backfill-days", "7", "--thin", "60", "--full-rate-hours", "0", "--anchor", String(anchor)],
+    { ...tdb.env, DATA_DIR: path.join(ROOT, ".data") },
+  );
+  const code = await plant.stop("SIGCONT", 170_000).catch(() => null);
+  await new Promise<void>((r) => (plant.child.exitCode !== null ? r() : plant.child.once("exit", () => r())));
+  if (plant.child.exitCode !== 0) throw new Error(`backfill failed (${code}):\n${plant.output()}`);
+});
+
+afterAll(async () => {
+  await stack?.stop();
+  await tdb?.close();
+});
+
+async function mean(code: string, channel: string, fromH: number, toH: number, fn = "AVG(value)"): Promise<number> {
+  const [rows] = await tdb.pool.query(
+    `SELECT ${fn} AS v FROM readings r JOIN devices d ON d.id = r.device_id WHERE d.code = ? AND r.channel = ? AND r.ts >= ? AND r.ts < ?`,
+    [code, channel, anchor + fromH * H, anchor + toH * H],
+  );
+  return Number((rows as Array<{ v: number | string | null }>)[0].v);
+}
+
+async function count(code: string, fromH: number, toH: number): Promise<number> {
+  const [rows] = await tdb.pool.query(
+    "SELECT COUNT(*) AS n FROM readings r JOIN devices d ON d.id = r.device_id WHERE d.code = ? AND r.ts >= ? AND r.ts < ?",
+    [code, anchor + fromH * H, anchor + toH * H],
+  );
+  return Number((rows as Array<{ n: number }>)[0].n);
+}
+
+describe("backfilled week", () => {
+  it("shows the cold snap drying the Press Hall over a few hours", async () => {
+    const before = await mean("th-press-hall", "rh_pct", -60, -36);
+    const firstHours = await mean("th-press-hall", "rh_pct", -29, -27);
+    const during = await mean("th-press-hall", "rh_pct", -18, -6);
+    expect(before).toBeGreaterThan(38);
+    expect(during).toBeLessThan(26);
+    // not a step: part of the way down a few hours in
+    expect(firstHours).toBeLessThan(before - 1);
+    expect(firstHours).toBeGreaterThan(during + 3);
+    // the same from the hourly rollups the charts read
+    const [rows] = await tdb.pool.query(
+      `SELECT MIN(sum / count) AS lo, MAX(sum / count) AS hi FROM rollup_1h r JOIN devices d ON d.id = r.device_id
+        WHERE d.code = 'th-press-hall' AND r.channel = 'rh_pct' AND r.bucket_ts >= ?`,
+      [anchor - 7 * DAY],
+    );
+    const { lo, hi } = (rows as Array<{ lo: number; hi: number }>)[0];
+    expect(hi - lo).toBeGreaterThan(15);
+  });
+
+  it("shows the Gravure Press 1 unwind neutralizer fouling while the hall's humidity stays the same", async () => {
+    // two stretches before the cold snap, soon after its last cleaning and days later
+    const early = await mean("fm-gravure-1-unwind", "charge_kv", -6.4 * 24, -5.9 * 24, "AVG(ABS(value))");
+    const late = await mean("fm-gravure-1-unwind", "charge_kv", -3 * 24, -2.5 * 24, "AVG(ABS(value))");
+    const rhEarly = await mean("th-press-hall", "rh_pct", -6.4 * 24, -5.9 * 24);
+    const rhLate = await mean("th-press-hall", "rh_pct", -3 * 24, -2.5 * 24);
+    expect(Math.abs(rhEarly - rhLate)).toBeLessThan(4);
+    expect(late / early).toBeGreaterThan(3);
+  });
+
+  it("shows the power-unit fault on Flexo Press 2 and the silent sensor", async () => {
+    const normal = await mean("fm-flexo-2-print-exit", "charge_kv", -9, -7.5, "AVG(ABS(value))");
+    const fault = await mean("fm-flexo-2-print-exit", "charge_kv", -5.9, -4.6, "AVG(ABS(value))");
+    expect(fault / normal).toBeGreaterThan(3);
+    expect(await count("fm-slitter-1-knife-exit", -9.9, -8.1)).toBe(0);
+    expect(await count("fm-slitter-1-knife-exit", -12, -10.1)).toBeGreaterThan(50);
+  });
+
+  it("keeps raw rows and rollups consistent", async () => {
+    const [[raw], [hour], [minute]] = await Promise.all([
+      tdb.pool.query("SELECT COUNT(*) AS n FROM readings"),
+      tdb.pool.query("SELECT SUM(count) AS n FROM rollup_1h"),
+      tdb.pool.query("SELECT SUM(count) AS n FROM rollup_1m"),
+    ]);
+    const n = Number((raw as Array<{ n: number }>)[0].n);
+    expect(n).toBeGreaterThan(150_000);
+    expect(Number((hour as Array<{ n: string }>)[0].n)).toBe(n);
+    expect(Number((minute as Array<{ n: string }>)[0].n)).toBe(n);
+  });
+});
+
+describe("live simulator", () => {
+  it("streams through the broker and worker; its malformed messages are rejected and the rest stored", async () => {
+    stack = await startIngestStack("sim", tdb.env);
+    const before = await count("fm-gravure-1-unwind", -0.25, 1);
+    const plant = spawnTs(
+      "plant",
+      "simulators/plant.ts",
+      ["--backfill-days", "0", "--from=-10m", "--speed", "60", "--until", "now", "--malformed-every-s", "20", "--anchor", String(anchor)],
+      { ...stack.env, DATA_DIR: path.join(ROOT, ".data") },
+    );
+    await new Promise<void>((r) => (plant.child.exitCode !== null ? r() : plant.child.once("exit", () => r())));
+    expect(plant.child.exitCode, plant.output()).toBe(0);
+    const s = await waitFor("the worker to store the stream", async () => {
+      const st = await stack!.workerStats();
+      return st.buffered.readings === 0 && st.accepted.readings > 10_000 ? st : null;
+    }, 60_000);
+    expect(s.rejected.total).toBeGreaterThanOrEqual(20);
+    expect(Object.keys(s.rejected.byReason).length).toBeGreaterThanOrEqual(4);
+    // ten minutes at 1 Hz where the backfill had one sample a minute
+    expect(await count("fm-gravure-1-unwind", -0.25, 1)).toBeGreaterThan(before + 500);
+    // the backfill's samples in that span were sent again and stored once
+    expect(s.committed.duplicates).toBeGreaterThan(0);
+  });
+});
