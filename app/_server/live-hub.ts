@@ -37,7 +37,9 @@ export type HubStats = {
   lastMessageTs: number | null;
 };
 
-class LiveHub {
+export type BrokerAccount = { host: string; port: number; username: string; password: string };
+
+export class LiveHub {
   private client: MqttClient | null = null;
   private readonly listeners = new Set<HubListener>();
   private connected = false;
@@ -45,12 +47,23 @@ class LiveHub {
   private rejected = 0;
   private lastMessageTs: number | null = null;
 
+  /** `account` defaults to the environment's broker and service account (db/env.ts). */
+  constructor(private readonly account?: BrokerAccount) {}
+
   subscribe(listener: HubListener): () => void {
     this.listeners.add(listener);
     this.ensureClient();
     return () => {
       this.listeners.delete(listener);
     };
+  }
+
+  /** Ends the broker connection (tests; the app's hub lives as long as the process). */
+  async close(): Promise<void> {
+    const c = this.client;
+    this.client = null;
+    this.connected = false;
+    if (c) await c.endAsync();
   }
 
   isConnected(): boolean {
@@ -74,13 +87,14 @@ class LiveHub {
 
   private ensureClient() {
     if (this.client) return;
-    const env = getEnv();
+    const env = this.account ? null : getEnv();
+    const account = this.account ?? { host: env!.MQTT_HOST, port: env!.MQTT_PORT, username: env!.MQTT_SERVICE_USER, password: env!.MQTT_SERVICE_PASSWORD };
     const client = mqtt.connect({
-      host: env.MQTT_HOST,
-      port: env.MQTT_PORT,
+      host: account.host,
+      port: account.port,
       protocol: "mqtt",
-      username: env.MQTT_SERVICE_USER,
-      password: env.MQTT_SERVICE_PASSWORD,
+      username: account.username,
+      password: account.password,
       clientId: `stillfield-app-${process.pid}-${Math.random().toString(36).slice(2, 8)}`,
       clean: true,
       reconnectPeriod: 2_000,

@@ -514,7 +514,9 @@ function ChargePanel({
           <span className="num mr-1 text-ink-ghost">{p.position}</span>
           {p.name}
         </h3>
-        <ChargeValue valueKv={view.state === "silent" ? null : view.value} unit={unit} showUnit className="text-base" />
+        <span data-testid="live-value" data-point-id={p.id} data-value={view.value ?? ""} data-ts={view.ts ?? ""}>
+          <ChargeValue valueKv={view.state === "silent" ? null : view.value} unit={unit} showUnit className="text-base" />
+        </span>
         <PointStateMark state={view.state} />
         <span className="text-xs text-ink-faint">
           limit {limit !== null ? formatChargeLimit(limit, unit) : "none set"}

@@ -2,6 +2,8 @@
 // stack's test database (raw readings for the recent past, 1-minute and 1-hour rollups for days
 // before), with the same rollup arithmetic the worker uses (min, max, count, sum, sum of
 // squares), and a small live publisher that signs in to the real broker as demo devices.
+import { spawn } from "node:child_process";
+import path from "node:path";
 import mqtt, { type MqttClient } from "mqtt";
 import mysql from "mysql2/promise";
 
@@ -137,6 +139,7 @@ export async function writeFixtureHistory(pool: mysql.Pool, devices: FixtureDevi
 export class FixturePublisher {
   private clients: Array<{ d: FixtureDevice; c: MqttClient }> = [];
   private timer: ReturnType<typeof setInterval> | null = null;
+  private paused = false;
 
   constructor(
     private readonly devices: FixtureDevice[],
@@ -173,7 +176,13 @@ export class FixturePublisher {
     return ts;
   }
 
+  /** Stops (or resumes) the regular 1 Hz readings, e.g. while probing with publishNow. */
+  pause(paused = true) {
+    this.paused = paused;
+  }
+
   private tick() {
+    if (this.paused) return;
     const ts = Math.floor(Date.now() / 1000) * 1000;
     for (const { d, c } of this.clients) {
       const values: Record<string, number> = {};
@@ -187,4 +196,40 @@ export class FixturePublisher {
     await Promise.all(this.clients.map(({ c }) => c.endAsync().catch(() => undefined)));
     this.clients = [];
   }
+}
+
+/**
+ * Starts the plant simulator (simulators/plant.ts) against the stack's test database and broker:
+ * a quick, thinned week of history first (idempotent: a second start finds it there), then live
+ * readings. `exclude` leaves devices to the test's own publisher. Resolves once it publishes live.
+ */
+export async function startPlantSimulator(opts: { exclude?: string[]; devices: FixtureDevice[] }): Promise<{ stop(): Promise<void>; output(): string }> {
+  const root = path.resolve(import.meta.dirname, "../..");
+  const codes = opts.devices.map((d) => d.code).filter((c) => !(opts.exclude ?? []).includes(c));
+  const args = ["--import", "tsx", "simulators/plant.ts", "--backfill-days", "7", "--full-rate-hours", "1", "--thin", "30", "--malformed-every-s", "0", "--devices", codes.join(",")];
+  const child = spawn(process.execPath, args, { cwd: root, env: process.env, stdio: ["ignore", "pipe", "pipe"] });
+  let out = "";
+  const keep = (b: Buffer) => {
+    out += b.toString("utf8");
+    if (out.length > 100_000) out = out.slice(-50_000);
+  };
+  child.stdout.on("data", keep);
+  child.stderr.on("data", keep);
+  const exited = new Promise<void>((resolve) => child.once("exit", () => resolve()));
+  const deadline = Date.now() + 240_000;
+  while (!/backfill done|no backfill needed/.test(out)) {
+    if (child.exitCode !== null) throw new Error(`the plant simulator stopped:\n${out}`);
+    if (Date.now() > deadline) throw new Error(`the plant simulator did not finish its backfill in time:\n${out}`);
+    await new Promise((r) => setTimeout(r, 250));
+  }
+  return {
+    output: () => out,
+    async stop() {
+      if (child.exitCode !== null) return;
+      child.kill("SIGTERM");
+      const t = setTimeout(() => child.kill("SIGKILL"), 10_000);
+      await exited;
+      clearTimeout(t);
+    },
+  };
 }

@@ -17,6 +17,7 @@ let stack: IngestStack;
 let device: MqttClient;
 let logger: MqttClient;
 let hubModule: typeof import("../../app/_server/live-hub");
+let hub: import("../../app/_server/live-hub").LiveHub;
 const events: HubEvent[] = [];
 const second: HubEvent[] = [];
 let unsubscribe: Array<() => void> = [];
@@ -26,14 +27,9 @@ let th: { id: number; code: string; areaId: number };
 beforeAll(async () => {
   tdb = await createTestDatabase("dashboards_live", { seed: true });
   stack = await startIngestStack("dashboards_live", tdb.env, { env: { INGEST_LIVE_INTERVAL_MS: "1000" } });
-  // the hub reads its broker address and service account from the environment (db/env.ts)
-  Object.assign(process.env, {
-    MQTT_HOST: "127.0.0.1",
-    MQTT_PORT: String(stack.mqttPort),
-    MQTT_SERVICE_USER: stack.env.MQTT_SERVICE_USER,
-    MQTT_SERVICE_PASSWORD: stack.env.MQTT_SERVICE_PASSWORD,
-  });
   hubModule = await import("../../app/_server/live-hub");
+  // the app's hub takes its broker from the environment; this one is pointed at the test broker
+  hub = new hubModule.LiveHub({ host: "127.0.0.1", port: stack.mqttPort, username: stack.env.MQTT_SERVICE_USER, password: stack.env.MQTT_SERVICE_PASSWORD });
   const layout = await getPlantLayout(tdb.db);
   const line = layout[0].lines[0];
   fm = { id: line.points[0].fieldMeter!.id, code: line.points[0].fieldMeter!.code, lineId: line.id };
@@ -41,13 +37,13 @@ beforeAll(async () => {
   const secrets = readDeviceSecrets(tdb.name);
   device = await connectDevice(stack, fm.code, secrets[fm.code]);
   logger = await connectDevice(stack, th.code, secrets[th.code]);
-  const hub = hubModule.getLiveHub();
   unsubscribe = [hub.subscribe((e) => events.push(e)), hub.subscribe((e) => second.push(e))];
   await waitFor("the hub's broker connection", async () => hub.isConnected(), 20_000);
 });
 
 afterAll(async () => {
   for (const u of unsubscribe) u();
+  await hub?.close();
   if (device) await endClient(device);
   if (logger) await endClient(logger);
   await stack?.stop();
@@ -67,9 +63,9 @@ function liveSample(scope: "line" | "area", id: number, deviceId: number, channe
 }
 
 describe("live hub", () => {
-  it("is one shared instance per process", () => {
+  it("the app's hub is one shared instance per process; one connection serves every listener", () => {
     expect(hubModule.getLiveHub()).toBe(hubModule.getLiveHub());
-    expect(hubModule.getLiveHub().stats().listeners).toBe(2);
+    expect(hub.stats()).toMatchObject({ listeners: 2, connected: true });
   });
 
   it("hands a device's committed reading to every listener in its line's snapshot, and a logger's in its hall's", async () => {
@@ -84,12 +80,12 @@ describe("live hub", () => {
 
   it("forwards alert changes and drops what does not parse, counting it", async () => {
     const svc = await connectService(stack, "dashboards-live-test-publisher");
-    const rejectedBefore = hubModule.getLiveHub().stats().rejected;
+    const rejectedBefore = hub.stats().rejected;
     await publishAsync(svc, internalTopics.alerts, JSON.stringify({ alertId: 41, lineId: fm.lineId, areaId: th.areaId, state: "active_unacked", severity: "medium", ts: Date.now() }));
     await publishAsync(svc, internalTopics.liveLine(fm.lineId), "{not json");
     await publishAsync(svc, internalTopics.liveLine(fm.lineId), JSON.stringify({ v: 2, scope: "line", id: fm.lineId, ts: 1, series: [] }));
     await waitFor("the alert event", async () => events.some((e) => e.type === "alert" && e.alert.alertId === 41), 10_000);
-    await waitFor("two rejections", async () => hubModule.getLiveHub().stats().rejected - rejectedBefore >= 2, 10_000);
+    await waitFor("two rejections", async () => hub.stats().rejected - rejectedBefore >= 2, 10_000);
     expect(events.some((e) => e.type === "live" && e.snapshot.ts === 1)).toBe(false);
     await endClient(svc);
   });

@@ -22,7 +22,7 @@ async function sessionOf(role: string): Promise<SessionPerson> {
 }
 
 const fixture = (name: string) => fs.readFileSync(path.resolve(import.meta.dirname, "../fixtures", name));
-const csvFile = (content: string | Uint8Array, name: string) => new File([content], name, { type: "text/csv" });
+const csvFile = (content: string | Uint8Array, name: string) => new File([typeof content === "string" ? content : new Uint8Array(content)], name, { type: "text/csv" });
 
 let engineer: SessionPerson;
 beforeAll(async () => {

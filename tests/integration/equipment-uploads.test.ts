@@ -33,7 +33,7 @@ afterAll(async () => {
   await closeDb();
 });
 
-const file = (bytes: Uint8Array, name: string, type = "") => new File([bytes], name, { type });
+const file = (bytes: Uint8Array, name: string, type = "") => new File([new Uint8Array(bytes)], name, { type });
 
 describe("what may be uploaded", () => {
   it("a JPEG photo is stored outside public/, with a WebP thumbnail at most 480 px, and joins the bar's history", async () => {

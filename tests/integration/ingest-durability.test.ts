@@ -90,7 +90,7 @@ describe("database outage", () => {
     expect(mid.spilled.readings).toBeGreaterThan(0);
     expect(mid.buffered.readings).toBeLessThanOrEqual(1500 + 1000);
     await mdb.start();
-    expect(await plant.stop("SIGTERM", 60_000).then(() => plant.child.exitCode ?? 0)).toBe(0);
+    expect(await plant.exit(60_000), plant.output()).toBe(0);
 
     const acked = readAcked(ackedFile);
     expect(acked.length).toBeGreaterThan(8000);
@@ -116,7 +116,7 @@ describe("worker crash", () => {
     await stack.worker!.stop("SIGKILL");
     await new Promise((r) => setTimeout(r, 5000)); // the simulator keeps publishing meanwhile
     await stack.startWorker();
-    expect(await plant.stop("SIGTERM", 60_000).then(() => plant.child.exitCode ?? 0)).toBe(0);
+    expect(await plant.exit(60_000), plant.output()).toBe(0);
 
     const acked = readAcked(ackedFile);
     expect(acked.length).toBeGreaterThan(3000);

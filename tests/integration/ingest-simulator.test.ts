@@ -23,9 +23,8 @@ beforeAll(async () => {
     ["--no-live", "--backfill-days", "7", "--thin", "60", "--full-rate-hours", "0", "--anchor", String(anchor)],
     { ...tdb.env, DATA_DIR: path.join(ROOT, ".data") },
   );
-  const code = await plant.stop("SIGCONT", 170_000).catch(() => null);
-  await new Promise<void>((r) => (plant.child.exitCode !== null ? r() : plant.child.once("exit", () => r())));
-  if (plant.child.exitCode !== 0) throw new Error(`backfill failed (${code}):\n${plant.output()}`);
+  const code = await plant.exit(170_000);
+  if (code !== 0) throw new Error(`backfill failed (${code}):\n${plant.output()}`);
 });
 
 afterAll(async () => {
@@ -110,8 +109,7 @@ describe("live simulator", () => {
       ["--backfill-days", "0", "--from=-10m", "--speed", "60", "--until", "now", "--malformed-every-s", "20", "--anchor", String(anchor)],
       { ...stack.env, DATA_DIR: path.join(ROOT, ".data") },
     );
-    await new Promise<void>((r) => (plant.child.exitCode !== null ? r() : plant.child.once("exit", () => r())));
-    expect(plant.child.exitCode, plant.output()).toBe(0);
+    expect(await plant.exit(60_000), plant.output()).toBe(0);
     const s = await waitFor("the worker to store the stream", async () => {
       const st = await stack!.workerStats();
       return st.buffered.readings === 0 && st.accepted.readings > 10_000 ? st : null;

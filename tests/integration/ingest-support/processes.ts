@@ -29,6 +29,8 @@ export type Proc = {
   output: () => string;
   /** sends the signal and resolves with the exit code once the process has ended */
   stop(signal?: NodeJS.Signals, timeoutMs?: number): Promise<number | null>;
+  /** waits for the process to end by itself (killed after the timeout); its exit code */
+  exit(timeoutMs: number): Promise<number | null>;
 };
 
 export function spawnTs(name: string, file: string, args: string[], env: Record<string, string>): Proc {
@@ -50,6 +52,13 @@ export function spawnTs(name: string, file: string, args: string[], env: Record<
     name,
     child,
     output: () => out,
+    async exit(timeoutMs) {
+      if (child.exitCode !== null || child.signalCode !== null) return child.exitCode;
+      const t = setTimeout(() => child.kill("SIGKILL"), timeoutMs);
+      const code = await exited;
+      clearTimeout(t);
+      return code;
+    },
     async stop(signal = "SIGTERM", timeoutMs = 15_000) {
       if (child.exitCode !== null || child.signalCode !== null) return child.exitCode;
       child.kill(signal);
