@@ -21,6 +21,7 @@ import { upsertIngestStatus } from "../db/queries/ingest-diagnostics";
 import { DEVICE_CODE_PATTERN, deviceTopics } from "../lib/contract/topics";
 import { verifyDeviceSecret } from "../lib/device-secrets";
 import { mayPublish, maySubscribe, type Principal } from "./broker-acl";
+import { indexOutgoingQueues } from "./broker-outgoing-index";
 import { getIngestConfig } from "./config";
 import { startHealthServer } from "./health-server";
 import { createLogger, describeError } from "./log";
@@ -173,6 +174,8 @@ export async function startBroker() {
       done(null, null);
     },
   });
+
+  indexOutgoingQueues(Reflect.get(broker, "persistence"));
 
   broker.on("clientDisconnect", (client) => {
     const p = principals.get(client);

@@ -125,6 +125,18 @@ function rssMb(pid: number | undefined): number {
   }
 }
 
+/** CPU time (user + system) a process has used so far, ms. */
+function cpuMs(pid: number | undefined): number {
+  if (!pid) return NaN;
+  try {
+    const fields = fs.readFileSync(`/proc/${pid}/stat`, "utf8").split(") ")[1].split(" ");
+    // utime and stime are fields 14 and 15 of /proc/<pid>/stat, in clock ticks (100 per second here)
+    return (Number(fields[11]) + Number(fields[12])) * 10;
+  } catch {
+    return NaN;
+  }
+}
+
 async function waitCommitted(stack: IngestStack, target: number, timeoutMs: number): Promise<number> {
   const s = await waitFor("commits", async () => {
     const st = await stack.workerStats();
@@ -169,25 +181,33 @@ async function main(): Promise<void> {
     const pubA = await connect(devices[0]);
     const t0 = Date.now() - 30 * 60_000;
     const oneReading = (ts: number, v: number) => `{"ts":${ts},"values":{"charge_kv":${v}}}`;
+    const cpuA = cpuMs(stack.broker.child.pid);
     const a = await publishMany(pubA, deviceTopics.readings(devices[0].code), opts.bareMessages, (i) => oneReading(t0 + i, (i % 1000) / 100 - 5), opts.window);
     await sub.exit(120_000);
     const subLine = sub.output().split("\n").find((l) => l.startsWith("{"));
     if (!subLine) throw new Error(`the bench subscriber did not finish:\n${sub.output()}`);
     const subOut = z.object({ first: z.number(), last: z.number(), n: z.number() }).parse(JSON.parse(subLine));
     const bareRate = subOut.n / ((subOut.last - a.startTs) / 1000);
-    log(`(a) bare broker, 1 publisher → 1 subscriber, QoS 1: ${Math.round(bareRate)} msgs/s (${subOut.n} messages)`);
+    log(`(a) bare broker, 1 publisher → 1 subscriber, QoS 1: ${Math.round(bareRate)} msgs/s (${subOut.n} messages; broker CPU ${(((cpuMs(stack.broker.child.pid) - cpuA) * 1000) / subOut.n).toFixed(1)} µs per message)`);
     pubA.end(true);
 
     // (b) end to end, one reading per message
-    const worker = await stack.startWorker();
+    // BENCH_WORKER_NODE_ARGS="--cpu-prof --cpu-prof-dir=.data/prof" profiles the worker
+    const worker = await stack.startWorker({}, process.env.BENCH_WORKER_NODE_ARGS?.split(" ").filter(Boolean) ?? []);
     let base = 0;
     const pubB = await connect(devices[1]);
+    const cpuB = { worker: cpuMs(worker.child.pid), broker: cpuMs(stack.broker.child.pid), db: cpuMs(server.pid()) };
     const tB = Date.now() - 25 * 60_000;
     const b = await publishMany(pubB, deviceTopics.readings(devices[1].code), opts.readings, (i) => oneReading(tB + i, (i % 1000) / 100 - 5), opts.window);
     const bDone = await waitCommitted(stack, base + opts.readings, 600_000);
     const e2eRate = opts.readings / ((bDone - b.startTs) / 1000);
     base += opts.readings;
     log(`(b) end to end, 1 reading/message: ${Math.round(e2eRate)} readings/s (${opts.readings} readings; publisher done in ${((b.endTs - b.startTs) / 1000).toFixed(1)} s, last commit ${((bDone - b.startTs) / 1000).toFixed(1)} s)`);
+    const perReading = (ms: number) => ((ms * 1000) / opts.readings).toFixed(1);
+    log(
+      `    CPU per reading: worker ${perReading(cpuMs(worker.child.pid) - cpuB.worker)} µs, broker ${perReading(cpuMs(stack.broker.child.pid) - cpuB.broker)} µs, ` +
+        `MariaDB ${perReading(cpuMs(server.pid()) - cpuB.db)} µs (machine load ${fs.readFileSync("/proc/loadavg", "utf8").split(" ")[0]})`,
+    );
     pubB.end(true);
 
     // (c) end to end, batches of 10

@@ -208,7 +208,8 @@ function FilterSelect({ label, value, onChange, options }: { label: string; valu
 }
 
 function lineHref(a: AlertListItem): string | null {
-  return a.lineId !== null ? `/lines/${a.lineId}?at=${a.startTs}` : null;
+  const lineId = a.lineId ?? a.linkLineId;
+  return lineId !== null ? `/lines/${lineId}?at=${a.startTs}` : null;
 }
 
 function AlertRow({
@@ -292,7 +293,7 @@ function AlertRow({
           {canRespond && ackable ? (
             <ActionForm action={actions.ack} onSuccess={refresh}>
               <input type="hidden" name="alertId" value={a.id} />
-              <SubmitButton>{a.state === "cleared_unacked" ? "Acknowledge & close" : "Acknowledge"}</SubmitButton>
+              <SubmitButton variant="quiet">{a.state === "cleared_unacked" ? "Acknowledge & close" : "Acknowledge"}</SubmitButton>
             </ActionForm>
           ) : null}
           <button

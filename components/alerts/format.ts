@@ -25,7 +25,7 @@ export function formatAlertValue(kind: RuleKindName, value: number | null): stri
     case "sensor_flat":
       return `range ${Number(value.toFixed(3))}`;
     case "effect_loss":
-      return `reduction ${Math.round(value * 100)} %`;
+      return `reduction ${signed(value * 100, 0)} %`;
   }
 }
 

@@ -78,7 +78,7 @@ export function planHumidity(input: PlannerInput): PlannerResult {
   } else {
     words =
       `${outdoorWords}, heated to ${fmt(indoorTempC)} °C, holds only ${fmt(indoorRhPct)} % RH. ` +
-      `To bring ${Math.round(airflowM3PerH).toLocaleString("en-GB")} m³/h of it to ${fmt(targetRhPct, 0)} % RH, add about ${fmt(waterKgPerH, waterKgPerH < 10 ? 1 : 0)} kg of water per hour (≈ ${fmt(waterKgPerH, waterKgPerH < 10 ? 1 : 0)} L/h, ${fmt(waterKgPerH * 24, 0)} L a day).`;
+      `To bring ${Math.round(airflowM3PerH).toLocaleString("en-GB")} m³/h of it to ${fmt(targetRhPct, 0)} % RH, add about ${fmt(waterKgPerH, waterKgPerH < 10 ? 1 : 0)} kg of water per hour (≈ ${fmt(waterKgPerH, waterKgPerH < 10 ? 1 : 0)} L/h, ${Math.round(waterKgPerH * 24).toLocaleString("en-GB")} L a day).`;
     if (withHumidifier && humidifierKgPerH !== null) {
       words +=
         withHumidifier.shareOfNeed >= 1

@@ -54,14 +54,14 @@ export function HumidityPlanner({ halls }: { halls: HallPreset[] }) {
         <NumberInput id="outdoorRhPct" label="Outdoor relative humidity" unit="%" value={fields.outdoorRhPct} onChange={set("outdoorRhPct")} error={errors.outdoorRhPct} />
         <SelectInput
           id="basis"
-          label="Outdoor RH below 0 °C is taken over"
+          label="Outdoor RH below 0 °C is read"
           value={fields.basis}
           onChange={set("basis")}
           error={errors.basis}
           hint="Weather services and most hygrometers: over water. ASHRAE tables: over ice."
         >
-          <option value="water">Water (weather forecast, most hygrometers)</option>
-          <option value="ice">Ice (ASHRAE tables, psychrolib)</option>
+          <option value="water">Over water (forecasts, hygrometers)</option>
+          <option value="ice">Over ice (ASHRAE tables)</option>
         </SelectInput>
         <NumberInput id="indoorTempC" label="Hall temperature" unit="°C" value={fields.indoorTempC} onChange={set("indoorTempC")} error={errors.indoorTempC} hint={hall ? `${hall} setpoint` : undefined} />
         <NumberInput id="targetRhPct" label="Target RH in the hall" unit="%" value={fields.targetRhPct} onChange={set("targetRhPct")} error={errors.targetRhPct} />

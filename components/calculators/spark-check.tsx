@@ -40,7 +40,7 @@ export function SparkCheck({ lines }: { lines: SolventLinePreset[] }) {
     <CalcCard id="spark" title="Spark-hazard check for a solvent area" purpose="Could a spark from a charged, ungrounded conductor ignite the solvent vapour? A first screen, not a hazard assessment.">
       <Caution title="Screening aid only" testId="spark-caution">
         This check compares stored energy with a tabulated minimum ignition energy. It is not a hazard assessment and Stillfield is a monitoring aid, not a safety system. Hazardous (classified) areas are assessed by a qualified person under{" "}
-        <b>NFPA 77</b>, <b>IEC TS 60079-32-1</b> and local codes. Bond and earth every conductor in a solvent area whatever this says, and isolate power and follow the plant&apos;s lockout procedure before touching neutralizer emitters.
+        <b className="whitespace-nowrap">NFPA 77</b>, <b className="whitespace-nowrap">IEC TS 60079-32-1</b> and local codes. Bond and earth every conductor in a solvent area whatever this says, and isolate power and follow the plant&apos;s lockout procedure before touching neutralizer emitters.
       </Caution>
       <Presets label="Line:" items={linePresets} />
       <Presets label="Conductor:" items={TYPICAL_CAPACITANCES_PF.map((c) => ({ key: c.item, label: `${c.item.replace(/ \(.*\)/, "")} ~${c.maxPf} pF`, onPick: () => set("capacitancePf")(String(c.maxPf)) }))} />

@@ -33,7 +33,7 @@ import {
   tempUnitLabel,
 } from "@/lib/units";
 import { dewPointC } from "@/lib/physics/psychrometrics";
-import { TimeChart, type HLine, type Span, type VMarker } from "./time-chart";
+import { pickTicks, TimeChart, type HLine, type Span, type VMarker } from "./time-chart";
 import { alignMeans, gapThresholdMs, hasSpread, mergeHistoryAndLive, symmetricRange, toColumns, type Bucket } from "./series-data";
 import { anchorStepMs, LIVE_WINDOW_MS, parseRangeParams, RANGE_KINDS, RANGE_LABELS, rangeToQuery, resolveRange, type RangeState } from "./ranges";
 import { eventsKey, useLineEvents, type LineEvents } from "./use-history";
@@ -78,7 +78,7 @@ function LineDashboardInner({ area, line, settings, canAddNote, addNote, serverN
   const [pickedTs, setPickedTs] = useState<number | null>(null);
   const [liveAnchor, setLiveAnchor] = useState(serverNow);
 
-  const store = useMemo(() => new LiveStore(LIVE_WINDOW_MS + 2 * 60_000, 2_400), []);
+  const store = useMemo(() => new LiveStore(LIVE_WINDOW_MS + 2 * 60_000, 2_400, 100), []);
   const refetchEvents = useCallback(() => void queryClient.invalidateQueries({ queryKey: eventsKey(line.id) }), [queryClient, line.id]);
   const stream = useLiveStream({ scope: "line", id: line.id }, store, { onAlert: refetchEvents, onReset: () => setLiveAnchor(Date.now()) }, serverNow);
   const version = useSyncExternalStore(store.subscribe, store.getVersion, store.getVersion);
@@ -128,6 +128,19 @@ function LineDashboardInner({ area, line, settings, canAddNote, addNote, serverN
     return { buckets: mergeHistoryAndLive(hist, live, view[0], view[1]), result };
   };
 
+  // recomputed when history arrives, the window moves, or (live only) the stream brings data;
+  // a static range keeps the same arrays, so its charts are not redrawn every second
+  const dataStamp = histories.map((h) => h.dataUpdatedAt).join(",");
+  const seriesData = useMemo(() => {
+    const out = new Map<string, { buckets: Bucket[]; result: HistoryResult | undefined }>();
+    for (const d of defs) out.set(d.key, bucketsFor(d.key, d.deviceId, d.channel));
+    return out;
+    // bucketsFor reads this render's histories and store; these are what it depends on
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+  }, [defs, dataStamp, view[0], view[1], isLive ? version : -1]);
+  const emptySeries = { buckets: [] as Bucket[], result: undefined };
+  const dataOf = (key: string) => seriesData.get(key) ?? emptySeries;
+
   const noteMarkers: VMarker[] = useMemo(
     () => (events.data?.notes ?? []).map((n, i) => ({ ts: n.ts, label: String(i + 1), color: "brand" as const })),
     [events.data],
@@ -153,7 +166,6 @@ function LineDashboardInner({ area, line, settings, canAddNote, addNote, serverN
   const shift = shiftAt(now, settings);
   const openAlerts = (events.data?.alerts ?? []).filter((a) => a.state !== "closed");
   const syncKey = `line-${line.id}`;
-  void version; // re-render on live data
 
   return (
     <div>
@@ -199,10 +211,10 @@ function LineDashboardInner({ area, line, settings, canAddNote, addNote, serverN
 
       <div className="grid gap-4 xl:grid-cols-[minmax(0,1fr)_19rem]">
         <div className="space-y-2" data-testid="line-charts">
-          {lv.points.map((pv) => {
+          {lv.points.map((pv, i) => {
             const p = pv.point;
             const fm = p.fieldMeter;
-            const { buckets, result } = fm ? bucketsFor(`p${p.id}`, fm.deviceId, "charge_kv") : { buckets: [], result: undefined };
+            const { buckets, result } = fm ? dataOf(`p${p.id}`) : emptySeries;
             return (
               <ChargePanel
                 key={p.id}
@@ -211,6 +223,7 @@ function LineDashboardInner({ area, line, settings, canAddNote, addNote, serverN
                 result={result}
                 xRange={view}
                 isLive={isLive}
+                timeLabels={i === 0 ? "top" : "none"}
                 syncKey={syncKey}
                 timeZone={tz}
                 now={now}
@@ -224,8 +237,8 @@ function LineDashboardInner({ area, line, settings, canAddNote, addNote, serverN
           {area.logger ? (
             <ClimatePanel
               areaName={area.name}
-              rh={bucketsFor("rh", area.logger.deviceId, "rh_pct")}
-              temp={bucketsFor("temp", area.logger.deviceId, "temp_c")}
+              rh={dataOf("rh")}
+              temp={dataOf("temp")}
               hall={hv}
               rhLimitPct={area.rhLimit.limitPct}
               aim={[area.rhMinPct, area.rhMaxPct]}
@@ -237,12 +250,12 @@ function LineDashboardInner({ area, line, settings, canAddNote, addNote, serverN
               spans={alertSpans((a) => a.pointId === null && a.lineId === null)}
               onZoom={(a, b) => setZoom([a, b])}
               onPick={canAddNote ? setPickedTs : undefined}
-              timeLabels={!line.speedGateway}
+              timeLabels={!line.speedGateway ? "bottom" : line.points.length === 0 ? "top" : "none"}
             />
           ) : null}
           {line.speedGateway ? (
             <SpeedPanel
-              data={bucketsFor("speed", line.speedGateway.deviceId, "speed_mpm")}
+              data={dataOf("speed")}
               nominal={line.nominalSpeedMpm}
               xRange={view}
               syncKey={syncKey}
@@ -266,31 +279,41 @@ function LineDashboardInner({ area, line, settings, canAddNote, addNote, serverN
               <p className="text-sm text-ink-faint">No open alerts on this line or its hall.</p>
             ) : (
               <ul className="space-y-2" data-testid="line-open-alerts">
-                {openAlerts.slice(0, 8).map((a) => (
-                  <li key={a.id} className="text-sm">
-                    <div className="flex items-center gap-2">
-                      <StateBadge
-                        state={a.shelvedUntilTs && a.shelvedUntilTs > now ? "shelved" : "over"}
-                        label={a.shelvedUntilTs && a.shelvedUntilTs > now ? "Shelved" : a.state === "active_acked" ? "Acknowledged" : a.state === "cleared_unacked" ? "Cleared" : "Active"}
-                      />
-                      <span className="num text-xs text-ink-faint">since {formatPlantSince(a.startTs, now, tz)}</span>
-                    </div>
-                    <p className="mt-0.5 text-ink-soft">{a.message}</p>
-                  </li>
-                ))}
+                {openAlerts.slice(0, 3).map((a) => {
+                  const shelved = a.shelvedUntilTs !== null && a.shelvedUntilTs > now;
+                  return (
+                    <li key={a.id} className="text-sm">
+                      <div className="flex items-center gap-2">
+                        <StateBadge
+                          state={shelved ? "shelved" : "over"}
+                          label={shelved ? "Shelved" : a.state === "active_acked" ? "Acknowledged" : a.state === "cleared_unacked" ? "Cleared" : "Active"}
+                        />
+                        <span className="num text-xs text-ink-faint">since {formatPlantSince(a.startTs, now, tz)}</span>
+                      </div>
+                      <p className="mt-0.5 leading-snug text-ink-soft">{a.message}</p>
+                    </li>
+                  );
+                })}
                 <li>
                   <Link href="/alerts" className="text-xs text-brand hover:underline">
-                    All alerts
+                    {openAlerts.length > 3 ? `${openAlerts.length - 3} more — all alerts` : "All alerts"}
                   </Link>
                 </li>
               </ul>
+            )}
+          </SidePanel>
+          <SidePanel title="Add a note">
+            {canAddNote && addNote ? (
+              <NoteForm lineId={line.id} points={line.points} pickedTs={pickedTs} nowTs={Math.floor(now / 60_000) * 60_000} timeZone={tz} action={addNote} onAdded={refetchEvents} />
+            ) : (
+              <p className="text-sm text-ink-faint">Shift leads, engineers and admins can add notes; your role can read them.</p>
             )}
           </SidePanel>
           <SidePanel title="Notes in this range">
             {(events.data?.notes ?? []).length === 0 ? (
               <p className="text-sm text-ink-faint">No notes in this range.</p>
             ) : (
-              <ol className="space-y-2" data-testid="line-notes">
+              <ol className="max-h-96 space-y-2 overflow-y-auto" data-testid="line-notes">
                 {(events.data?.notes ?? []).map((n, i) => (
                   <li key={n.id} className="grid grid-cols-[1.5rem_1fr] gap-2 text-sm">
                     <span className="num mt-0.5 inline-flex h-4 min-w-4 items-center justify-center rounded-sm bg-brand px-1 text-[10px] font-semibold text-white">
@@ -308,13 +331,6 @@ function LineDashboardInner({ area, line, settings, canAddNote, addNote, serverN
                   </li>
                 ))}
               </ol>
-            )}
-          </SidePanel>
-          <SidePanel title="Add a note">
-            {canAddNote && addNote ? (
-              <NoteForm lineId={line.id} points={line.points} pickedTs={pickedTs} nowTs={Math.floor(now / 60_000) * 60_000} timeZone={tz} action={addNote} onAdded={refetchEvents} />
-            ) : (
-              <p className="text-sm text-ink-faint">Shift leads, engineers and admins can add notes; your role can read them.</p>
             )}
           </SidePanel>
         </aside>
@@ -480,8 +496,9 @@ function ChargePanel({
   buckets,
   result,
   isLive,
+  timeLabels,
   ...c
-}: PanelCommon & { view: PointView; buckets: Bucket[]; result: HistoryResult | undefined; isLive: boolean }) {
+}: PanelCommon & { view: PointView; buckets: Bucket[]; result: HistoryResult | undefined; isLive: boolean; timeLabels: "top" | "none" }) {
   const { prefs } = useUnits();
   const p: FloorPoint = view.point;
   const limit = p.limit?.limitKv ?? null;
@@ -546,10 +563,10 @@ function ChargePanel({
         y={{
           fmt: (v) => (unit === "V" ? formatCharge(v / 1000, "V") : formatCharge(v, "kV").replace(/\.0$/, "")),
           range: (mn, mx) => symmetricRange(mn, mx, limitInUnit),
-          splits: (mn, mx) => (limitInUnit !== null ? [-limitInUnit, 0, limitInUnit] : [mn, 0, mx]),
+          splits: (mn, mx, h) => pickTicks(limitInUnit !== null ? [0, mn, mx, -limitInUnit, limitInUnit] : [0, mn, mx], mn, mx, h),
           size: unit === "V" ? 62 : 52,
         }}
-        timeLabels={false}
+        timeLabels={timeLabels}
         hLines={hLines}
         markers={c.markers}
         spans={c.spans}
@@ -585,7 +602,7 @@ function ClimatePanel({
   timeLabels,
   ...c
 }: PanelCommon & {
-  timeLabels: boolean;
+  timeLabels: "top" | "bottom" | "none";
   areaName: string;
   rh: { buckets: Bucket[]; result: HistoryResult | undefined };
   temp: { buckets: Bucket[]; result: HistoryResult | undefined };
@@ -715,6 +732,7 @@ function SpeedPanel({ data: d, nominal, ...c }: PanelCommon & { data: { buckets:
         onZoom={c.onZoom}
         onPick={c.onPick}
         readout={(idx, dd) => readoutText(idx, dd, c.timeZone, (v) => formatSpeed(v), false)}
+        timeLabels="bottom"
         testId="line-chart"
         attrs={{ kind: "speed", source: d.result?.source ?? "", points: d.buckets.length, notes: c.markers.length }}
       />

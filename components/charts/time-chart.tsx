@@ -27,8 +27,8 @@ export type Span = { from: number; to: number; color: TokenName; alpha: number }
 export type Axis = {
   fmt: (v: number) => string;
   range?: (min: number, max: number) => [number, number];
-  /** fixed tick values (e.g. −limit, 0, +limit) instead of uPlot's spacing */
-  splits?: (min: number, max: number) => number[];
+  /** fixed tick values (e.g. −limit, 0, +limit) instead of uPlot's spacing; heightPx is the plot's height */
+  splits?: (min: number, max: number, heightPx: number) => number[];
   size?: number;
   label?: string;
 };
@@ -53,8 +53,8 @@ export type TimeChartProps = {
   onPick?: (ts: number) => void;
   /** text for the cursor position (null idx: cursor left the chart) */
   readout?: (idx: number | null, data: uPlot.AlignedData) => string;
-  /** time labels under this chart (only the bottom one of a stack needs them) */
-  timeLabels?: boolean;
+  /** where this chart shows time labels: a stack of charts needs them once at the top and once at the bottom */
+  timeLabels?: "top" | "bottom" | "none";
   className?: string;
   testId?: string;
   attrs?: Record<string, string | number>;
@@ -88,7 +88,7 @@ export function TimeChart(props: TimeChartProps) {
         size: a.size ?? 58,
         grid: side === 3 ? axisBase.grid : { show: false },
         values: (_u, splits) => splits.map((v) => (v == null ? "" : a.fmt(v))),
-        ...(a.splits ? { splits: (u: uPlot) => a.splits!(u.scales[scale].min ?? 0, u.scales[scale].max ?? 1) } : {}),
+        ...(a.splits ? { splits: (u: uPlot) => a.splits!(u.scales[scale].min ?? 0, u.scales[scale].max ?? 1, u.bbox.height / dpr()) } : {}),
         label: a.label,
         labelFont: font,
         labelSize: a.label ? 14 : 0,
@@ -114,10 +114,11 @@ export function TimeChart(props: TimeChartProps) {
         axes: [
           {
             ...axisBase,
+            side: p.timeLabels === "top" ? 0 : 2,
             space: 80,
-            size: p.timeLabels === false ? 6 : 30,
+            size: p.timeLabels === "none" ? 6 : 28,
             values: (_u, splits, _i, _space, incr) =>
-              p.timeLabels === false ? splits.map(() => "") : splits.map((ts) => formatTimeTick(ts, incr, propsRef.current.timeZone)),
+              p.timeLabels === "none" ? splits.map(() => "") : splits.map((ts) => formatTimeTick(ts, incr, propsRef.current.timeZone)),
           },
           yAxis(p.y, "y", 3),
           ...(p.y2 ? [yAxis(p.y2, "y2", 1)] : []),
@@ -191,11 +192,13 @@ export function TimeChart(props: TimeChartProps) {
                 ctx.moveTo(x, top);
                 ctx.lineTo(x, top + height);
                 ctx.stroke();
+                // the flag sits right of its line, or left of it at the right edge
                 const tw = ctx.measureText(m.label).width + 6 * dpr();
+                const fx = x + tw > left + width ? x - tw : x;
                 ctx.fillStyle = c[m.color];
-                ctx.fillRect(x, top, tw, 13 * dpr());
+                ctx.fillRect(fx, top, tw, 13 * dpr());
                 ctx.fillStyle = "white";
-                ctx.fillText(m.label, x + 3 * dpr(), top + 1.5 * dpr());
+                ctx.fillText(m.label, fx + 3 * dpr(), top + 1.5 * dpr());
               }
               ctx.restore();
             },
@@ -282,6 +285,20 @@ function formatTimeTick(ts: number, incrMs: number, timeZone: string): string {
   if (incrMs >= 86_400_000) return formatPlantTime(ts, timeZone, "d MMM");
   if (hm === "00:00") return formatPlantTime(ts, timeZone, "d MMM");
   return incrMs < 60_000 ? formatPlantTime(ts, timeZone, "HH:mm:ss") : hm;
+}
+
+/**
+ * Tick values from candidates in order of importance, skipping any that would sit closer than
+ * `minGapPx` to one already chosen (so "+12", "0" and "−12" never print on top of each other).
+ */
+export function pickTicks(candidates: number[], min: number, max: number, heightPx: number, minGapPx = 16): number[] {
+  const span = max - min || 1;
+  const chosen: number[] = [];
+  for (const v of candidates) {
+    if (!Number.isFinite(v) || v < min - 1e-9 || v > max + 1e-9) continue;
+    if (chosen.every((c) => (Math.abs(c - v) / span) * heightPx >= minGapPx)) chosen.push(v);
+  }
+  return chosen.sort((a, b) => a - b);
 }
 
 function padRange(min: number | null, max: number | null): [number, number] {

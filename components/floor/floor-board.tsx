@@ -103,7 +103,7 @@ function HallColumn({ hall, now, timeZone }: { hall: HallView; now: number; time
                 label={`${a.name} relative humidity, last 15 minutes`}
               />
               <p className="mt-0.5 text-right text-[11px] text-ink-faint">
-                RH, 15 min · limit {a.rhLimit.limitPct} % · aim {a.rhMinPct}–{a.rhMaxPct} %
+                limit {a.rhLimit.limitPct} % · aim {a.rhMinPct}–{a.rhMaxPct} %
               </p>
             </div>
           </div>
@@ -116,10 +116,10 @@ function HallColumn({ hall, now, timeZone }: { hall: HallView; now: number; time
   );
 }
 
-function rhStateLabel(h: HallView): string {
+function rhStateLabel(h: HallView): string | undefined {
   if (h.rhState === "over") return "RH low";
   if (h.rhState === "near") return "RH near limit";
-  return "";
+  return undefined;
 }
 
 function AlertCount({ n }: { n: number }) {

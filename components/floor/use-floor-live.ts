@@ -38,7 +38,7 @@ export function useFloorLive(initial: FloorSnapshot, opts: { areaId?: number; re
   const snapshot = query.data;
 
   // one store per page; nothing to dispose (its only timer fires once and stops)
-  const store = useMemo(() => new LiveStore(initial.trendMs, 2_000), [initial.trendMs]);
+  const store = useMemo(() => new LiveStore(initial.trendMs, 2_000, 150), [initial.trendMs]);
   const seeded = useRef<FloorSnapshot | null>(null);
   const resetNext = useRef(false);
   if (seeded.current !== snapshot) {

@@ -9,13 +9,18 @@ import { LimitBar, Section, StateCell, Table, Td, Th, Tile, Tiles, Tr } from "./
 
 const sig = (v: number, digits = 3) => String(Number(v.toPrecision(digits)));
 
+/** r² below this: the fitted slope explains too little of the variation to be read as an effect. */
+const WEAK_FIT_R2 = 0.2;
+
 function fitWords(fit: LineFit, xUnit: string, per: number): string {
+  const against = xUnit === "% RH" ? "humidity" : "speed";
+  if (fit.rSquared !== null && fit.rSquared < WEAK_FIT_R2) return `${against === "humidity" ? "Humidity" : "Speed"} explains little of the change in charge here; look at the other causes.`;
   const change = fit.slope * per;
-  if (Math.abs(change) < 0.05) return `Charge hardly changes with ${xUnit === "% RH" ? "humidity" : "speed"} here.`;
+  if (Math.abs(change) < 0.05) return `Charge hardly changes with ${against} here.`;
   if (xUnit === "% RH") {
     return change < 0
       ? `Each ${per} % RH less adds about ${sig(-change, 2)} kV here.`
-      : `Charge rises with humidity here (${sig(change, 2)} kV per ${per} % RH) — look for another cause.`;
+      : `Charge rises with humidity here (${sig(change, 2)} kV per ${per} % RH): look for another cause.`;
   }
   return change > 0 ? `Each ${per} m/min faster adds about ${sig(change, 2)} kV here.` : `Charge falls as the line speeds up here (${sig(change, 2)} kV per ${per} m/min).`;
 }
@@ -35,7 +40,7 @@ function FitPanel({ name, data, xLabel, xUnit, per, testId }: { name: string; da
       {data.fit ? (
         <div className="mt-1 text-xs leading-relaxed text-ink-soft">
           <p className="num">
-            |charge| ≈ {sig(data.fit.intercept)} {data.fit.slope < 0 ? "−" : "+"} {sig(Math.abs(data.fit.slope))} × {xUnit === "% RH" ? "RH" : "speed"} kV
+            |charge| ≈ {sig(data.fit.intercept)} {data.fit.slope < 0 ? "−" : "+"} {sig(Math.abs(data.fit.slope))} × {xUnit === "% RH" ? "RH" : "speed"} (kV)
             {data.fit.rSquared !== null ? (
               <>
                 {" "}

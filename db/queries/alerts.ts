@@ -51,6 +51,8 @@ export type AlertListItem = {
   ackedByName: string | null;
   ackedTs: number | null;
   notifiedLevel: number;
+  /** the line page to open: the alert's line, else the first line of its hall */
+  linkLineId: number | null;
 };
 
 const listColumns = {
@@ -83,6 +85,7 @@ const listColumns = {
   ackedByName: people.name,
   ackedTs: alerts.ackedTs,
   notifiedLevel: alerts.notifiedLevel,
+  linkLineId: sql<number | null>`COALESCE(${alerts.lineId}, (SELECT l2.id FROM ${lines} AS l2 WHERE l2.area_id = ${alerts.areaId} ORDER BY l2.display_order, l2.id LIMIT 1))`.mapWith((v: unknown) => (v === null || v === undefined ? null : Number(v))),
 };
 
 export type AlertFilters = {

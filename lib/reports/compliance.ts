@@ -6,7 +6,8 @@
  * "Due" is measured at `asOfTs`: the end of the period, or now when the period has not ended.
  * A neutralizer's next check is due `checkIntervalDays` after its last check (or after its
  * installation when it has never been checked); its next cleaning `cleaningIntervalDays` after
- * the last cleaning.
+ * the last cleaning. "Due soon" looks ahead DUE_SOON_DAYS, but never more than a quarter of the
+ * item's own interval: a bar cleaned weekly is not "due soon" for most of every week.
  */
 import type { DateWindow } from "../report-shifts";
 import { localDateOf } from "../report-shifts";
@@ -87,16 +88,22 @@ export type ComplianceReport = {
 };
 
 const STATUS_CODE: Record<DueStatus, ReportState> = { overdue: "over", due_soon: "near", ok: "normal", unknown: "silent" };
+const URGENCY: Record<DueStatus, number> = { overdue: 0, unknown: 1, due_soon: 2, ok: 3 };
 
-/** Status of a due time at `asOfTs`; `days` is whole days overdue (positive) or left (negative → shown as "in n days"). */
-export function dueStatus(dueTs: number | null, asOfTs: number): Due {
+/** Look-ahead for "due soon" of an item with this interval: DUE_SOON_DAYS, at most a quarter of the interval. */
+export function dueSoonWindowMs(intervalDays: number): number {
+  return Math.min(DUE_SOON_DAYS, intervalDays / 4) * DAY_MS;
+}
+
+/** Status of a due time at `asOfTs`; `days` is whole days overdue, or whole days left. */
+export function dueStatus(dueTs: number | null, asOfTs: number, soonMs: number = DUE_SOON_DAYS * DAY_MS): Due {
   if (dueTs === null) return { dueTs, status: "unknown", days: null, code: STATUS_CODE.unknown };
   if (dueTs <= asOfTs) {
     const days = Math.floor((asOfTs - dueTs) / DAY_MS);
     return { dueTs, status: "overdue", days, code: STATUS_CODE.overdue };
   }
   const days = Math.ceil((dueTs - asOfTs) / DAY_MS);
-  const status: DueStatus = dueTs - asOfTs <= DUE_SOON_DAYS * DAY_MS ? "due_soon" : "ok";
+  const status: DueStatus = dueTs - asOfTs <= soonMs ? "due_soon" : "ok";
   return { dueTs, status, days, code: STATUS_CODE[status] };
 }
 
@@ -137,16 +144,20 @@ export function buildCompliance(input: ComplianceInput): ComplianceReport {
         passedInPeriod: inPeriod.filter((c) => c.passed).length,
         failedInPeriod: inPeriod.filter((c) => !c.passed),
         lastCheck,
-        check: dueStatus(checkFrom === null ? null : checkFrom + n.checkIntervalDays * DAY_MS, asOfTs),
+        check: dueStatus(checkFrom === null ? null : checkFrom + n.checkIntervalDays * DAY_MS, asOfTs, dueSoonWindowMs(n.checkIntervalDays)),
         lastCleanedTs: n.lastCleanedTs,
-        cleaning: dueStatus(n.lastCleanedTs === null ? null : n.lastCleanedTs + n.cleaningIntervalDays * DAY_MS, asOfTs),
+        cleaning: dueStatus(n.lastCleanedTs === null ? null : n.lastCleanedTs + n.cleaningIntervalDays * DAY_MS, asOfTs, dueSoonWindowMs(n.cleaningIntervalDays)),
       };
-    });
+    })
+    // what needs doing first: overdue, no record, due soon, then the rest; by tag within each
+    .sort((a, b) => Math.min(URGENCY[a.check.status], URGENCY[a.cleaning.status]) - Math.min(URGENCY[b.check.status], URGENCY[b.cleaning.status]) || a.tag.localeCompare(b.tag));
 
-  const meters: ComplianceMeterRow[] = input.meters.map((m) => {
-    const s = calibrationStatus(m.calibrationDue, asOfTs, window.timeZone);
-    return { ...m, ...s, code: STATUS_CODE[s.status] };
-  });
+  const meters: ComplianceMeterRow[] = input.meters
+    .map((m) => {
+      const s = calibrationStatus(m.calibrationDue, asOfTs, window.timeZone);
+      return { ...m, ...s, code: STATUS_CODE[s.status] };
+    })
+    .sort((a, b) => URGENCY[a.status] - URGENCY[b.status] || a.deviceCode.localeCompare(b.deviceCode));
 
   const done = neutralizers.reduce((t, n) => t + n.checksInPeriod, 0);
   const passed = neutralizers.reduce((t, n) => t + n.passedInPeriod, 0);

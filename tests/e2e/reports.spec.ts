@@ -76,6 +76,8 @@ test.describe("shift handover", () => {
     await form.getByRole("button", { name: "E-mail the handover" }).click();
     await expect(form.getByTestId("form-ok")).toContainText(`Queued for ${demoPerson("engineer").name}`);
     await snap(page, "report-handover-emailed");
+    // the form clears after sending; sending the same shift to the same person again is refused
+    await form.getByTestId("handover-recipient").selectOption({ label: `${demoPerson("engineer").name} (engineer)` });
     await form.getByRole("button", { name: "E-mail the handover" }).click();
     await expect(form.getByTestId("form-error")).toContainText("already been sent");
   });

@@ -119,7 +119,7 @@ export default async function AlertLoadPage({ searchParams }: { searchParams: Pr
                   <tr key={r.ruleId} className="border-t border-paper-line first:border-0">
                     <td className="py-1.5 pr-2">
                       <div className="font-medium">{r.ruleName ?? `Rule ${r.ruleId}`}</div>
-                      <div className="text-xs text-ink-faint">{RULE_KIND_LABELS[r.kind]}</div>
+                      {r.ruleName && r.ruleName !== RULE_KIND_LABELS[r.kind] ? <div className="text-xs text-ink-faint">{RULE_KIND_LABELS[r.kind]}</div> : null}
                     </td>
                     <td className="w-40 py-1.5 pr-2">
                       <span className="block h-2.5 rounded-sm bg-paper-sunk">

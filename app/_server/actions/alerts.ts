@@ -35,6 +35,13 @@ function publisher(): MqttClient {
   return holder.__stillfieldAlertPublisher;
 }
 
+/** Ends the announcing connection (tests and scripts, so the process can exit). */
+export async function closeAlertPublisher(): Promise<void> {
+  const client = holder.__stillfieldAlertPublisher;
+  holder.__stillfieldAlertPublisher = undefined;
+  if (client) await new Promise<void>((resolve) => client.end(true, {}, () => resolve()));
+}
+
 /** Best effort: the database is the truth; a missed announcement only delays a page's refresh. */
 export function announceAlertChange(change: AlertChange): void {
   try {

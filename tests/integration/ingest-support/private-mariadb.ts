@@ -26,6 +26,8 @@ export type PrivateMariadb = {
   /** DB_* settings for a database on this server (pass a name) */
   env(dbName: string): Record<string, string>;
   running(): boolean;
+  /** process id of the server (undefined while stopped) */
+  pid(): number | undefined;
   /** clean shutdown (SIGTERM), waits until the process is gone */
   stop(): Promise<void>;
   start(): Promise<void>;
@@ -111,6 +113,7 @@ export async function startPrivateMariadb(name: string, opts: { bufferPoolMb?: n
     port,
     env: (dbName) => ({ DB_HOST: "127.0.0.1", DB_PORT: String(port), DB_USER: USER, DB_PASSWORD: PASSWORD, DB_NAME: dbName }),
     running: () => child !== null && child.exitCode === null && child.signalCode === null,
+    pid: () => child?.pid,
     stop,
     start,
     async destroy() {

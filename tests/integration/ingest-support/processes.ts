@@ -33,8 +33,8 @@ export type Proc = {
   exit(timeoutMs: number): Promise<number | null>;
 };
 
-export function spawnTs(name: string, file: string, args: string[], env: Record<string, string>): Proc {
-  const child = spawn(process.execPath, ["--import", "tsx", file, ...args], {
+export function spawnTs(name: string, file: string, args: string[], env: Record<string, string>, nodeArgs: string[] = []): Proc {
+  const child = spawn(process.execPath, [...nodeArgs, "--import", "tsx", file, ...args], {
     cwd: ROOT,
     env: { ...process.env, ...env },
     stdio: ["ignore", "pipe", "pipe"],
@@ -99,7 +99,7 @@ export type IngestStack = {
   dataDir: string;
   broker: Proc;
   worker: Proc | null;
-  startWorker(extraEnv?: Record<string, string>): Promise<Proc>;
+  startWorker(extraEnv?: Record<string, string>, nodeArgs?: string[]): Promise<Proc>;
   workerStats(sinceMs?: number): Promise<WorkerStats>;
   brokerStats(): Promise<{ refused: { auth: number; publish: number; subscribe: number; oversized: number }; kicked: number; messagesIn: number }>;
   stop(): Promise<void>;
@@ -146,8 +146,8 @@ export async function startIngestStack(
     dataDir,
     broker,
     worker: null,
-    async startWorker(extraEnv = {}) {
-      const w = spawnTs("worker", "ingest/worker.ts", [], { ...env, ...extraEnv });
+    async startWorker(extraEnv = {}, nodeArgs = []) {
+      const w = spawnTs("worker", "ingest/worker.ts", [], { ...env, ...extraEnv }, nodeArgs);
       stack.worker = w;
       await waitFor("the worker's health endpoint", () => getJson(`http://127.0.0.1:${workerHealthPort}/health`).then(Boolean), 60_000).catch((err) => {
         throw new Error(`${String(err)}\n--- worker output ---\n${w.output()}`);

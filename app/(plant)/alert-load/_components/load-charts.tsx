@@ -51,13 +51,23 @@ export function Per10MinChart({ load, timeZone }: { load: AlertLoad; timeZone: s
   );
 }
 
+/** Alerts per plant day (the 10-minute buckets summed by the plant-local date they start on). */
 export function PerDayBars({ load, timeZone }: { load: AlertLoad; timeZone: string }) {
-  const max = Math.max(1, ...load.perDay.map((d) => d.count));
+  const days = new Map<string, { label: string; count: number }>();
+  load.per10Min.forEach((count, i) => {
+    const ts = load.fromTs + i * TEN_MIN_MS;
+    const key = formatPlantTime(ts, timeZone, "yyyy-MM-dd");
+    const d = days.get(key) ?? { label: formatPlantTime(ts, timeZone, "EEE d MMM"), count: 0 };
+    d.count += count;
+    days.set(key, d);
+  });
+  const list = [...days.entries()];
+  const max = Math.max(1, ...list.map(([, d]) => d.count));
   return (
     <ol className="space-y-1 text-sm" data-testid="per-day">
-      {load.perDay.map((d) => (
-        <li key={d.dayTs} className="grid grid-cols-[7.5rem_1fr_3rem] items-center gap-2">
-          <span className="text-xs text-ink-soft">{formatPlantTime(d.dayTs, timeZone, "EEE d MMM HH:mm")}</span>
+      {list.map(([key, d]) => (
+        <li key={key} className="grid grid-cols-[6.5rem_1fr_3rem] items-center gap-2">
+          <span className="text-xs text-ink-soft">{d.label}</span>
           <span className="h-3 rounded-sm bg-paper-sunk">
             <span className="block h-3 rounded-sm bg-ink-soft" style={{ width: `${(d.count / max) * 100}%` }} />
           </span>

@@ -10,7 +10,7 @@ import { inputClass } from "@/components/forms/action-form";
 import { SeverityTag } from "@/components/alerts/alert-bits";
 import { RULE_KIND_LABELS, SEVERITY_LABELS, type RuleKindName, type SeverityName } from "@/components/alerts/labels";
 import { EmptyState } from "@/components/ui/page";
-import { formatPlantTime, fromPlantLocalInput, toPlantLocalInput } from "@/lib/shifts";
+import { fromPlantLocalInput, toPlantLocalInput } from "@/lib/shifts";
 import type { ReplayResult } from "@/db/queries/rules";
 import { HALL_KINDS, NOT_LINE_GATED, PARAM_FIELDS, summarizeParams } from "./rule-fields";
 import { ReplayView } from "./replay-view";
@@ -309,16 +309,16 @@ export function LimitsEditor({
                       <td className="px-2 py-2">
                         {r.enabled ? summarizeParams(kind, r.params) : <span>Off here (exempted){" — "}{summarizeParams(kind, r.params)}</span>}
                       </td>
-                      <td className="num px-2 py-2 text-ink-soft">
+                      <td className="num whitespace-nowrap px-2 py-2 text-ink-soft">
                         {r.onDelayS} s / {r.offDelayS} s{r.onlyWhileRunning ? " · while running" : ""}
                       </td>
-                      <td className="px-2 py-2 text-xs">
+                      <td className="whitespace-nowrap px-2 py-2 text-xs">
                         <span className={clsx("rounded px-1.5 py-0.5", own ? "bg-brand-soft text-brand-deep" : "bg-paper-sunk text-ink-soft")}>
                           {own ? "here" : `from ${LEVEL_WORDS[levelOf(r)]}`}
                         </span>
                         <span className="ml-1.5 text-ink-faint">v{r.currentVersion}</span>
                       </td>
-                      <td className="px-4 py-2 text-right">
+                      <td className="whitespace-nowrap px-4 py-2 text-right">
                         {canEdit ? (
                           <button type="button" className={smallButton} onClick={() => edit(r, kind, r.severity)} data-testid="rule-edit">
                             {own ? "Edit" : "Override here"}
@@ -469,8 +469,7 @@ export function LimitsEditor({
         ) : null}
         <p className="text-xs text-ink-faint">
           Limits are plant settings, not published safety limits. In solvent areas, static hazards are assessed by a qualified person under NFPA 77, IEC TS 60079-32-1 and
-          local codes; Stillfield is a monitoring aid, not a safety system. Times are plant time ({timeZone}); rule versions are dated{" "}
-          {formatPlantTime(nowTs, timeZone, "d MMM yyyy")}.
+          local codes; Stillfield is a monitoring aid, not a safety system. Times are plant time ({timeZone}).
         </p>
       </div>
     </div>
@@ -560,20 +559,24 @@ function AddRule({ onAdd, kinds }: { onAdd: (kind: RuleKindName, severity: Sever
   return (
     <div className="flex flex-wrap items-center gap-2 border-t border-paper-line px-4 py-2.5 text-sm">
       <span className="text-xs text-ink-soft">Add a rule here:</span>
-      <select className={`${inputClass} w-56`} value={kind} onChange={(e) => setKind(kindOptions.find((o) => o.value === e.target.value)?.value ?? kind)} aria-label="Kind of rule to add">
-        {kindOptions.map((o) => (
-          <option key={o.value} value={o.value}>
-            {o.label}
-          </option>
-        ))}
-      </select>
-      <select className={`${inputClass} w-32`} value={severity} onChange={(e) => setSeverity(e.target.value === "low" ? "low" : e.target.value === "medium" ? "medium" : "high")} aria-label="Severity of rule to add">
-        {(["low", "medium", "high"] as const).map((s) => (
-          <option key={s} value={s}>
-            {SEVERITY_LABELS[s]}
-          </option>
-        ))}
-      </select>
+      <span className="w-64">
+        <select className={inputClass} value={kind} onChange={(e) => setKind(kindOptions.find((o) => o.value === e.target.value)?.value ?? kind)} aria-label="Kind of rule to add">
+          {kindOptions.map((o) => (
+            <option key={o.value} value={o.value}>
+              {o.label}
+            </option>
+          ))}
+        </select>
+      </span>
+      <span className="w-32">
+        <select className={inputClass} value={severity} onChange={(e) => setSeverity(e.target.value === "low" ? "low" : e.target.value === "medium" ? "medium" : "high")} aria-label="Severity of rule to add">
+          {(["low", "medium", "high"] as const).map((s) => (
+            <option key={s} value={s}>
+              {SEVERITY_LABELS[s]}
+            </option>
+          ))}
+        </select>
+      </span>
       <button type="button" className={smallButton} onClick={() => onAdd(kind, severity)}>
         Start
       </button>
