@@ -43,6 +43,9 @@ export class DeferredAcks {
   }
 
   ack(tokens: ReadonlyArray<AckToken | null>): void {
+    // one socket write for a whole batch of PUBACKs instead of one (or more) per message
+    const stream = tokens.length > 1 && this.client.connected ? this.client.stream : null;
+    if (stream) stream.cork();
     for (const t of tokens) {
       if (!t) continue;
       if (t.epoch !== this.epoch || !this.client.connected) {
@@ -52,5 +55,6 @@ export class DeferredAcks {
       this.send({ cmd: "puback", messageId: t.messageId }, undefined, undefined, true);
       this.sent++;
     }
+    if (stream) process.nextTick(() => stream.uncork());
   }
 }

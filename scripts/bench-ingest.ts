@@ -168,7 +168,7 @@ async function main(): Promise<void> {
         [d.code, `Bench ${d.code}`, hashDeviceSecret(d.secret), Date.now()],
       );
     }
-    stack = await startIngestStack("bench", tdb.env, { startWorker: false });
+    stack = await startIngestStack("bench", tdb.env, { startWorker: false, brokerNodeArgs: process.env.BENCH_BROKER_NODE_ARGS?.split(" ").filter(Boolean) });
     const env = stack.env;
     const connect = (d: (typeof devices)[number]) => connectClient(stack!.mqttPort, { clientId: d.code, username: d.code, password: d.secret, clean: true });
 

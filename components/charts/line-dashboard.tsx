@@ -151,7 +151,7 @@ function LineDashboardInner({ area, line, settings, canAddNote, addNote, serverN
         from: a.startTs,
         to: a.endTs ?? now,
         color: a.shelvedUntilTs && a.shelvedUntilTs > now ? ("shelved" as const) : ("over" as const),
-        alpha: 0.1,
+        alpha: 0.05,
       })),
     [events.data, now],
   );
@@ -550,7 +550,7 @@ function ChargePanel({
       </header>
       <TimeChart
         syncKey={c.syncKey}
-        height={118}
+        height={timeLabels === "top" ? 140 : 118}
         timeZone={c.timeZone}
         xRange={c.xRange}
         data={data}

@@ -152,11 +152,15 @@ export function TimeChart(props: TimeChartProps) {
                 ctx.fillStyle = withAlpha(c[b.color], b.alpha);
                 ctx.fillRect(left, Math.min(y1, y2), width, Math.abs(y2 - y1));
               }
+              // alert spans: a light tint over the time plus a solid bar along the top edge
               for (const s of q.spans ?? []) {
-                const x1 = u.valToPos(s.from, "x", true);
-                const x2 = u.valToPos(s.to, "x", true);
+                const x1 = Math.max(left, u.valToPos(s.from, "x", true));
+                const x2 = Math.min(left + width, u.valToPos(s.to, "x", true));
+                const w = Math.max(dpr(), x2 - x1);
                 ctx.fillStyle = withAlpha(c[s.color], s.alpha);
-                ctx.fillRect(Math.max(left, x1), top, Math.max(dpr(), Math.min(left + width, x2) - Math.max(left, x1)), height);
+                ctx.fillRect(x1, top, w, height);
+                ctx.fillStyle = withAlpha(c[s.color], 0.75);
+                ctx.fillRect(x1, top, w, 4 * dpr());
               }
               ctx.restore();
             },

@@ -28,12 +28,12 @@ export function ComplianceReportView({ report }: { report: Report }) {
           detail={`${s.checksPassed} passed, ${s.checksDone - s.checksPassed} failed`}
           state={s.passRate !== null && s.passRate < 1 ? "near" : "normal"}
         />
-        <Tile label="Checks overdue" value={s.checksOverdue} detail={`${s.checksDueSoon} due within ${DUE_SOON_DAYS} days`} state={s.checksOverdue > 0 ? "over" : s.checksDueSoon > 0 ? "near" : "normal"} />
-        <Tile label="Cleaning overdue" value={s.cleaningOverdue} detail={`${s.cleaningDueSoon} due within ${DUE_SOON_DAYS} days`} state={s.cleaningOverdue > 0 ? "over" : s.cleaningDueSoon > 0 ? "near" : "normal"} />
+        <Tile label="Checks overdue" value={s.checksOverdue} detail={`${s.checksDueSoon} due soon`} state={s.checksOverdue > 0 ? "over" : s.checksDueSoon > 0 ? "near" : "normal"} />
+        <Tile label="Cleaning overdue" value={s.cleaningOverdue} detail={`${s.cleaningDueSoon} due soon`} state={s.cleaningOverdue > 0 ? "over" : s.cleaningDueSoon > 0 ? "near" : "normal"} />
         <Tile
           label="Calibration overdue"
           value={s.metersCalibrationOverdue}
-          detail={`${s.metersCalibrationDueSoon} meters or loggers due within ${DUE_SOON_DAYS} days`}
+          detail={`${s.metersCalibrationDueSoon} due within ${DUE_SOON_DAYS} days (meters and loggers)`}
           state={s.metersCalibrationOverdue > 0 ? "over" : s.metersCalibrationDueSoon > 0 ? "near" : "normal"}
         />
         <Tile label="As of" value={formatDay(report.asOfTs, zone)} detail="due dates are judged on this day" />

@@ -29,7 +29,7 @@ test.describe("checks", () => {
   test("an engineer records a failing and a passing check with photos; pass/fail shows and the due list updates", async ({ page }) => {
     await signIn(page, "engineer");
     await page.goto("/checks");
-    await expect(page.getByRole("heading", { name: "Checks" })).toBeVisible();
+    await expect(page.getByRole("heading", { name: "Checks", exact: true })).toBeVisible();
     await expect(page.getByTestId("hv-caution")).toContainText("Isolate the power unit");
     await expect(page.getByTestId("limit-sources")).toContainText("ANSI/ESD STM3.1");
     await expect(page.getByTestId("limit-sources")).toContainText("±35 V is common in ESD control programs");

@@ -9,7 +9,7 @@ test.describe("devices", () => {
   test("an admin creates a device and sees its secret exactly once", async ({ page, baseURL }) => {
     await signIn(page, "admin");
     await page.goto("/devices");
-    await expect(page.getByRole("heading", { name: "Devices" })).toBeVisible();
+    await expect(page.getByRole("heading", { name: "Devices", exact: true })).toBeVisible();
     await expect(page.getByTestId("device-row").first()).toBeVisible();
     await snap(page, "devices");
 
@@ -80,7 +80,7 @@ test.describe("equipment pages", () => {
   test("Equipment lists every neutralizer by hall; a neutralizer page shows effect, decay trend, history and the caution", async ({ page }) => {
     await signIn(page, "engineer");
     await page.goto("/equipment");
-    await expect(page.getByRole("heading", { name: "Equipment" })).toBeVisible();
+    await expect(page.getByRole("heading", { name: "Equipment", exact: true })).toBeVisible();
     await expect(page.getByTestId("neutralizer-row")).toHaveCount(17);
     await snap(page, "equipment");
     await page.locator('[data-testid="neutralizer-row"][data-tag="N-GRAVURE-1-INFEED"]').getByRole("link", { name: "N-GRAVURE-1-INFEED" }).click();
@@ -90,7 +90,7 @@ test.describe("equipment pages", () => {
     await expect(page.getByTestId("decay-projection")).toBeVisible();
 
     // the 50 mm warning appears as the engineer types
-    await page.getByLabel("Mounting distance to the web, mm").fill("80");
+    await page.getByLabel("Distance to the web, mm").fill("80");
     await expect(page.getByTestId("equipment-warnings").last()).toContainText("about 50 mm (2 in)");
     await snap(page, "neutralizer-edit-warning");
   });
@@ -141,7 +141,7 @@ test.describe("roles through the API", () => {
     const id = (await (await eng.get("/api/equipment")).json()).neutralizers[0].id as number;
     const pdf = Buffer.from("%PDF-1.4\n1 0 obj\n<< /Type /Catalog >>\nendobj\ntrailer\n<< /Root 1 0 R >>\n%%EOF\n");
     const up = await eng.post("/api/uploads", {
-      multipart: { file: { name: "Prüfprotokoll \"decay\" 03.pdf", mimeType: "application/pdf", buffer: pdf }, subjectType: "neutralizer", subjectId: String(id), minRole: "engineer" },
+      multipart: { file: { name: "Prüfprotokoll; decay, 03 (copy).pdf", mimeType: "application/pdf", buffer: pdf }, subjectType: "neutralizer", subjectId: String(id), minRole: "engineer" },
     });
     expect(up.status()).toBe(201);
     const uploadId = (await up.json()).id as number;
@@ -155,7 +155,7 @@ test.describe("roles through the API", () => {
     expect(ok.headers()["content-type"]).toBe("application/pdf");
     expect(ok.headers()["x-content-type-options"]).toBe("nosniff");
     // RFC 6266 / RFC 5987: attachment for PDFs, an ASCII fallback and the exact UTF-8 name
-    expect(ok.headers()["content-disposition"]).toBe(`attachment; filename="Pr_fprotokoll _decay_ 03.pdf"; filename*=UTF-8''Pr%C3%BCfprotokoll%20%22decay%22%2003.pdf`);
+    expect(ok.headers()["content-disposition"]).toBe(`attachment; filename="Pr_fprotokoll_ decay_ 03 (copy).pdf"; filename*=UTF-8''Pr%C3%BCfprotokoll%3B%20decay%2C%2003%20%28copy%29.pdf`);
     expect((await ok.body()).equals(pdf)).toBe(true);
 
     const jpeg = await sharp({ create: { width: 300, height: 200, channels: 3, background: "#556" } }).jpeg().toBuffer();

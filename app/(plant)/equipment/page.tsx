@@ -10,6 +10,7 @@ import { Card, EmptyState, Forbidden, PageHeader } from "@/components/ui/page";
 import { StateBadge } from "@/components/ui/state-badge";
 import { neutralizerWarnings } from "@/lib/equipment-warnings";
 import { can } from "@/lib/permissions";
+import { SILENT_AFTER_MS } from "../devices/_components/device-bits";
 import { CheckResultBadge, DueBadge, EffectValue, NeutralizerStateBadge } from "./_components/badges";
 import { fmtDate, toLocalDateIso } from "./_components/format";
 import { NeutralizerForm } from "./_components/neutralizer-form";
@@ -52,7 +53,7 @@ export default async function EquipmentPage() {
     faulty: ns.filter((n) => n.state === "faulty").length,
     cleaningOverdue: ns.filter((n) => n.state !== "removed" && n.cleaningDueTs !== null && n.cleaningDueTs < nowMs).length,
   };
-  const silent = devs.filter((d) => d.enabled && (d.lastSeenTs === null || nowMs - d.lastSeenTs > 5 * 60_000)).length;
+  const silent = devs.filter((d) => d.enabled && (d.lastSeenTs === null || nowMs - d.lastSeenTs > SILENT_AFTER_MS)).length;
   const calibrationSoon = devs.filter((d) => d.enabled && d.calibrationDue !== null && d.calibrationDue <= toLocalDateIso(nowMs + 14 * 86_400_000, tz)).length;
   const kindCount = (k: string) => devs.filter((d) => d.kind === k).length;
 
@@ -91,8 +92,18 @@ export default async function EquipmentPage() {
           {[...halls.entries()].map(([hall, items]) => (
             <Card key={hall} title={hall} aside={<span className="text-xs text-ink-faint">{items.length} neutralizers</span>}>
               <div className="-mx-4 -my-2 overflow-x-auto">
-                <table className="w-full min-w-[52rem] text-sm" data-testid="neutralizer-table">
-                  <thead className="text-left text-xs text-ink-faint">
+                <table className="w-full min-w-[56rem] table-fixed text-sm" data-testid="neutralizer-table">
+                  <colgroup>
+                    <col className="w-[15rem]" />
+                    <col className="w-[9.5rem]" />
+                    <col className="w-[8.5rem]" />
+                    <col className="w-[4.5rem]" />
+                    <col className="w-[8rem]" />
+                    <col className="w-[8.5rem]" />
+                    <col className="w-[11rem]" />
+                    <col className="w-[6rem]" />
+                  </colgroup>
+                  <thead className="whitespace-nowrap text-left text-xs text-ink-faint">
                     <tr>
                       <th className="px-4 py-2 font-medium">Tag</th>
                       <th className="py-2 pr-3 font-medium">Point</th>
@@ -128,7 +139,7 @@ export default async function EquipmentPage() {
               <dd className="num text-right">{kindCount("speed_gateway")}</dd>
             </dl>
             <div className="mt-3 flex flex-wrap gap-2 border-t border-paper-line pt-3">
-              {silent ? <StateBadge state="silent" label={`${silent} silent for 5 min or more`} /> : <StateBadge state="normal" label="All sensors reporting" />}
+              {silent ? <StateBadge state="silent" label={`${silent} silent (nothing for ${SILENT_AFTER_MS / 60_000} min)`} /> : <StateBadge state="normal" label="All sensors reporting" />}
               {calibrationSoon ? <StateBadge state="near" label={`${calibrationSoon} calibration${calibrationSoon === 1 ? "" : "s"} due within 14 days`} /> : null}
             </div>
           </Card>
@@ -200,8 +211,10 @@ function LineRows({
                 </span>
               ) : null}
             </td>
-            <td className="py-2 pr-3 text-ink-soft">{n.position !== null ? `${n.position}. ${n.pointName}` : "—"}</td>
-            <td className="py-2 pr-3 text-ink-soft">
+            <td className="truncate py-2 pr-3 text-ink-soft" title={n.pointName ?? undefined}>
+              {n.position !== null ? `${n.position}. ${n.pointName}` : "—"}
+            </td>
+            <td className="truncate py-2 pr-3 text-ink-soft">
               {NEUTRALIZER_KIND_LABELS[n.kind]}
               {n.airAssisted && n.kind === "ionizing_bar" ? ", air" : ""}
             </td>

@@ -112,7 +112,7 @@ export type IngestStack = {
 export async function startIngestStack(
   name: string,
   dbEnv: Record<string, string>,
-  opts: { env?: Record<string, string>; startWorker?: boolean } = {},
+  opts: { env?: Record<string, string>; startWorker?: boolean; brokerNodeArgs?: string[] } = {},
 ): Promise<IngestStack> {
   const dataDir = path.join(ROOT, ".data", "test-ingest", name);
   fs.rmSync(dataDir, { recursive: true, force: true });
@@ -133,7 +133,7 @@ export async function startIngestStack(
     DB_POOL_SIZE: "6",
     ...opts.env,
   };
-  const broker = spawnTs("broker", "ingest/broker.ts", [], env);
+  const broker = spawnTs("broker", "ingest/broker.ts", [], env, opts.brokerNodeArgs ?? []);
   await waitFor("the broker's health endpoint", () => getJson(`http://127.0.0.1:${brokerHealthPort}/health`).then(Boolean), 30_000).catch((err) => {
     throw new Error(`${String(err)}\n--- broker output ---\n${broker.output()}`);
   });

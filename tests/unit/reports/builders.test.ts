@@ -3,7 +3,7 @@
 import { describe, expect, it } from "vitest";
 import { chargeLimitAt, rhLowLimitAt, type StoredRule } from "@/lib/reports/limits";
 import { alertCode, DAY_MS, neutralizerAttention, type HandoverNeutralizerInput } from "@/lib/reports/handover";
-import { calibrationStatus, dueStatus } from "@/lib/reports/compliance";
+import { calibrationStatus, dueSoonWindowMs, dueStatus } from "@/lib/reports/compliance";
 import { complianceParamsSchema, handoverParamsSchema, resolveComplianceParams, resolveHandoverParams } from "@/lib/reports/params";
 import { DEFAULT_PLANT_SETTINGS } from "@/lib/plant-settings";
 
@@ -99,6 +99,12 @@ describe("due dates", () => {
     expect(dueStatus(10 * DAY_MS, 0)).toMatchObject({ status: "due_soon", days: 10, code: "near" });
     expect(dueStatus(30 * DAY_MS, 0)).toMatchObject({ status: "ok", days: 30, code: "normal" });
     expect(dueStatus(null, 0)).toMatchObject({ status: "unknown", code: "silent" });
+  });
+  it("looks ahead at most a quarter of the interval: a weekly cleaning is due soon only in its last 1.75 days", () => {
+    expect(dueSoonWindowMs(90)).toBe(14 * DAY_MS);
+    expect(dueSoonWindowMs(7)).toBe(1.75 * DAY_MS);
+    expect(dueStatus(3 * DAY_MS, 0, dueSoonWindowMs(7)).status).toBe("ok");
+    expect(dueStatus(1 * DAY_MS, 0, dueSoonWindowMs(7)).status).toBe("due_soon");
   });
   it("calibration on a calendar date: due on the day, overdue after it", () => {
     const asOf = Date.UTC(2026, 0, 12, 12);

@@ -100,3 +100,18 @@ describe("weeks and date ranges", () => {
     expect(nights.endTs).toBe(Date.UTC(2026, 0, 13, 7));
   });
 });
+
+describe("agrees with the dashboards' shift clock (lib/shifts.ts)", () => {
+  it("the same shift contains every instant, across both daylight-saving changes", async () => {
+    const { shiftAt } = await import("@/lib/shifts");
+    const spec = { timeZone: "Europe/London", shifts: DEFAULT_PLANT_SETTINGS.shifts };
+    const starts = [Date.UTC(2026, 0, 10), Date.UTC(2026, 2, 27), Date.UTC(2026, 9, 23)];
+    for (const from of starts) {
+      for (let ts = from; ts < from + 4 * 86_400_000; ts += 53 * 60_000) {
+        const mine = shiftContaining(ts, settings);
+        const theirs = shiftAt(ts, spec);
+        expect([mine.name, mine.startTs, mine.endTs]).toEqual([theirs.name, theirs.startTs, theirs.endTs]);
+      }
+    }
+  }, 60_000);
+});

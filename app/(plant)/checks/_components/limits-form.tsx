@@ -23,7 +23,7 @@ export function LimitsForm({ rows, canEdit }: { rows: Row[]; canEdit: boolean })
             <td className="py-1.5 pr-2">
               {canEdit ? (
                 <>
-                  <input name={`${r.kind}.maxDecayS`} defaultValue={r.maxDecayS} inputMode="decimal" className={`${inputClass} w-20`} aria-label={`Decay limit for ${r.label}`} />
+                  <input name={`${r.kind}.maxDecayS`} defaultValue={r.maxDecayS} inputMode="decimal" className={`${inputClass} w-20!`} aria-label={`Decay limit for ${r.label}`} />
                   <FieldError name={`${r.kind}.maxDecayS`} />
                 </>
               ) : (
@@ -33,7 +33,7 @@ export function LimitsForm({ rows, canEdit }: { rows: Row[]; canEdit: boolean })
             <td className="py-1.5 pr-2">
               {canEdit ? (
                 <>
-                  <input name={`${r.kind}.maxOffsetAbsV`} defaultValue={r.maxOffsetAbsV} inputMode="decimal" className={`${inputClass} w-20`} aria-label={`Offset limit for ${r.label}`} />
+                  <input name={`${r.kind}.maxOffsetAbsV`} defaultValue={r.maxOffsetAbsV} inputMode="decimal" className={`${inputClass} w-20!`} aria-label={`Offset limit for ${r.label}`} />
                   <FieldError name={`${r.kind}.maxOffsetAbsV`} />
                 </>
               ) : (

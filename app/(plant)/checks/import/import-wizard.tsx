@@ -1,6 +1,6 @@
 "use client";
 // Choose → preview (detected columns, units, first rows) → map → import → result.
-import { useState } from "react";
+import { useEffect, useRef, useState } from "react";
 import { useRouter } from "next/navigation";
 import { inputClass } from "@/components/forms/action-form";
 import { Card } from "@/components/ui/page";
@@ -57,6 +57,10 @@ export function ImportWizard({ halls, rawRetentionDays, timeZone }: { halls: { i
   const [result, setResult] = useState<ImportResult | null>(null);
   const [error, setError] = useState<string | null>(null);
   const [busy, setBusy] = useState(false);
+  const resultRef = useRef<HTMLDivElement>(null);
+  useEffect(() => {
+    if (result) resultRef.current?.scrollIntoView({ block: "start" });
+  }, [result]);
 
   const form = (over: { mapping?: typeof mapping; units?: typeof units; dateOrder?: typeof dateOrder; kind?: ImportKind; file?: File | null } = {}) => {
     const fd = new FormData();
@@ -227,9 +231,9 @@ export function ImportWizard({ halls, rawRetentionDays, timeZone }: { halls: { i
                     </td>
                     <td className="py-1.5">
                       {unitField && a.mapping[f] !== null && a.mapping[f] !== undefined ? (
-                        <span className="flex items-center gap-2">
+                        <span className="flex items-center gap-2 whitespace-nowrap">
                           <select
-                            className={`${inputClass} w-24`}
+                            className={`${inputClass} w-20!`}
                             aria-label={`Unit of ${FIELD_LABELS[f]}`}
                             value={a.units[unitField]}
                             onChange={(e) => {
@@ -331,6 +335,7 @@ export function ImportWizard({ halls, rawRetentionDays, timeZone }: { halls: { i
       ) : null}
 
       {result ? (
+        <div ref={resultRef} className="scroll-mt-20">
         <Card title="3 · Result">
           <div role="status" className="flex flex-wrap gap-2" data-testid="import-result">
             {result.kind === "check_log" ? (
@@ -367,6 +372,7 @@ export function ImportWizard({ halls, rawRetentionDays, timeZone }: { halls: { i
             </table>
           ) : null}
         </Card>
+        </div>
       ) : null}
     </div>
   );

@@ -179,6 +179,32 @@ export default async function NeutralizerPage({ params }: { params: Promise<{ id
             )}
           </Card>
 
+          <Card title="Details">
+            {canEdit ? (
+              <NeutralizerForm action={updateNeutralizer} places={places} submitLabel="Save changes" initial={{ ...n }} wide />
+            ) : (
+              <dl className="grid grid-cols-[auto_1fr] gap-x-4 gap-y-1 text-sm">
+                <dt className="text-ink-soft">Length</dt>
+                <dd>{n.lengthMm !== null ? `${n.lengthMm} mm` : "—"}</dd>
+                <dt className="text-ink-soft">Mounting distance</dt>
+                <dd>{n.mountingDistanceMm !== null ? `${n.mountingDistanceMm} mm to the web` : "—"}</dd>
+                <dt className="text-ink-soft">Power unit</dt>
+                <dd>
+                  {n.powerUnit ?? "—"}
+                  {n.outputKv !== null ? `, ${n.outputKv} kV` : ""}
+                </dd>
+                <dt className="text-ink-soft">Installed on</dt>
+                <dd>{fmtIsoDate(n.installedOn)}</dd>
+                {n.notes ? (
+                  <>
+                    <dt className="text-ink-soft">Notes</dt>
+                    <dd className="whitespace-pre-line">{n.notes}</dd>
+                  </>
+                ) : null}
+              </dl>
+            )}
+          </Card>
+
           <Card title="History">
             <HistoryList events={events} timeZone={tz} />
           </Card>
@@ -230,37 +256,10 @@ export default async function NeutralizerPage({ params }: { params: Promise<{ id
           </Card>
 
           {canEdit ? (
-            <>
-              <Card title="Add a note or report a fault">
-                <NoteForm subjectType="neutralizer" subjectId={n.id} />
-              </Card>
-              <Card title="Details">
-                <NeutralizerForm action={updateNeutralizer} places={places} submitLabel="Save changes" initial={{ ...n }} />
-              </Card>
-            </>
-          ) : (
-            <Card title="Details">
-              <dl className="grid grid-cols-[auto_1fr] gap-x-4 gap-y-1 text-sm">
-                <dt className="text-ink-soft">Length</dt>
-                <dd>{n.lengthMm !== null ? `${n.lengthMm} mm` : "—"}</dd>
-                <dt className="text-ink-soft">Mounting distance</dt>
-                <dd>{n.mountingDistanceMm !== null ? `${n.mountingDistanceMm} mm to the web` : "—"}</dd>
-                <dt className="text-ink-soft">Power unit</dt>
-                <dd>
-                  {n.powerUnit ?? "—"}
-                  {n.outputKv !== null ? `, ${n.outputKv} kV` : ""}
-                </dd>
-                <dt className="text-ink-soft">Installed on</dt>
-                <dd>{fmtIsoDate(n.installedOn)}</dd>
-                {n.notes ? (
-                  <>
-                    <dt className="text-ink-soft">Notes</dt>
-                    <dd className="whitespace-pre-line">{n.notes}</dd>
-                  </>
-                ) : null}
-              </dl>
+            <Card title="Add a note or report a fault">
+              <NoteForm subjectType="neutralizer" subjectId={n.id} />
             </Card>
-          )}
+          ) : null}
         </div>
       </div>
     </div>

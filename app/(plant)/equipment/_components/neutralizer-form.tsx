@@ -68,11 +68,14 @@ export function NeutralizerForm({
   places,
   initial,
   submitLabel,
+  wide = false,
 }: {
   action: (prev: FormResult, fd: FormData) => Promise<FormResult>;
   places: Place;
   initial?: NeutralizerFormValues;
   submitLabel: string;
+  /** lay the fields out in more columns (the wide column of a page) */
+  wide?: boolean;
 }) {
   const v = initial;
   const [warnings, setWarnings] = useState<EquipmentWarning[]>(() =>
@@ -85,10 +88,10 @@ export function NeutralizerForm({
       const form = (e.target as HTMLElement).closest("form");
       if (form) setWarnings(neutralizerWarnings(readSettings(form, places)));
     }}>
-      <ActionForm action={action} className="space-y-3" successMessage={v ? "Saved." : "Added."} resetOnSuccess={!v}>
+      <ActionForm action={action} className={wide ? "grid gap-3 md:grid-cols-2" : "space-y-3"} successMessage={v ? "Saved." : "Added."} resetOnSuccess={!v}>
         {v?.id ? <input type="hidden" name="id" value={v.id} /> : null}
         <div className="grid grid-cols-2 gap-3">
-          <Field label="Tag" name="tag" hint="As written on the bar or power unit">
+          <Field label="Tag" name="tag">
             <input name="tag" className={inputClass} defaultValue={v?.tag ?? ""} required maxLength={60} />
           </Field>
           <Field label="Kind" name="kind">
@@ -112,14 +115,14 @@ export function NeutralizerForm({
           </select>
         </Field>
         <div className="grid grid-cols-2 gap-3">
-          <Field label="Mounting distance to the web, mm" name="mountingDistanceMm">
+          <Field label="Distance to the web, mm" name="mountingDistanceMm">
             <input name="mountingDistanceMm" inputMode="decimal" className={inputClass} defaultValue={v?.mountingDistanceMm ?? ""} />
           </Field>
           <Field label="Length, mm" name="lengthMm">
             <input name="lengthMm" inputMode="decimal" className={inputClass} defaultValue={v?.lengthMm ?? ""} />
           </Field>
         </div>
-        <label className="flex items-center gap-2 text-sm text-ink-soft">
+        <label className="flex items-center gap-2 self-end pb-2 text-sm text-ink-soft">
           <input type="checkbox" name="airAssisted" defaultChecked={v?.airAssisted ?? false} className="h-4 w-4 accent-brand" />
           Air-assisted (compressed air carries the ions)
         </label>
@@ -151,11 +154,11 @@ export function NeutralizerForm({
             ))}
           </select>
         </Field>
-        <Field label="Notes" name="notes">
+        <Field label="Notes" name="notes" className={wide ? "md:col-span-2" : undefined}>
           <textarea name="notes" rows={2} className={inputClass} defaultValue={v?.notes ?? ""} maxLength={2000} />
         </Field>
         {warnings.length > 0 ? (
-          <ul className="space-y-1.5 rounded border border-near/40 bg-near-soft/60 px-3 py-2 text-xs text-ink" data-testid="equipment-warnings">
+          <ul className="space-y-1.5 md:col-span-2 rounded border border-near/40 bg-near-soft/60 px-3 py-2 text-xs text-ink" data-testid="equipment-warnings">
             {warnings.map((w) => (
               <li key={w.code} className="flex gap-1.5">
                 <svg viewBox="0 0 12 12" className="mt-0.5 h-3 w-3 shrink-0 text-near" aria-hidden="true">
@@ -168,7 +171,9 @@ export function NeutralizerForm({
             ))}
           </ul>
         ) : null}
-        <SubmitButton>{submitLabel}</SubmitButton>
+        <div className={wide ? "md:col-span-2" : undefined}>
+          <SubmitButton>{submitLabel}</SubmitButton>
+        </div>
       </ActionForm>
     </div>
   );
