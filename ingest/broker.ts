@@ -74,7 +74,7 @@ export async function startBroker() {
       if (!cred || !cred.enabled || cred.secretHash !== p.secretHash) {
         log.info("closing the connection of a device that may no longer sign in", { code: p.code });
         stats.kicked++;
-        principals.delete(client);
+        // its will (if any) and the offline backstop still go out as it closes
         client.close();
       }
     }

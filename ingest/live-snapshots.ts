@@ -7,7 +7,8 @@ import { internalTopics } from "../lib/contract/topics";
 import { LIVE_MAX_SAMPLES_PER_SERIES, LIVE_SNAPSHOT_VERSION, type LiveSnapshot } from "../lib/live";
 import type { DeviceDirectory } from "./device-directory";
 
-type Scope = { scope: "line" | "area"; id: number; series: Map<string, { deviceId: number; channel: ReadingRow["channel"]; samples: Array<[number, number]> }> };
+type Series = { deviceId: number; channel: ReadingRow["channel"]; samples: Array<[number, number]> };
+type Scope = { scope: "line" | "area"; id: number; series: Map<string, Series> };
 
 export class LiveSnapshots {
   private scopes = new Map<string, Scope>();
@@ -16,18 +17,24 @@ export class LiveSnapshots {
 
   add(rows: readonly ReadingRow[]): void {
     let lastDevice = -1;
+    let lastChannel = "";
     let scope: Scope | null = null;
+    let s: Series | undefined;
     for (const r of rows) {
       if (r.deviceId !== lastDevice) {
         lastDevice = r.deviceId;
+        lastChannel = "";
         scope = this.scopeFor(r.deviceId);
       }
       if (!scope) continue;
-      const key = `${r.deviceId}|${r.channel}`;
-      let s = scope.series.get(key);
-      if (!s) scope.series.set(key, (s = { deviceId: r.deviceId, channel: r.channel, samples: [] }));
-      s.samples.push([r.ts, r.value]);
-      if (s.samples.length > LIVE_MAX_SAMPLES_PER_SERIES * 2) s.samples.splice(0, s.samples.length - LIVE_MAX_SAMPLES_PER_SERIES);
+      if (r.channel !== lastChannel) {
+        lastChannel = r.channel;
+        const key = `${r.deviceId}|${r.channel}`;
+        s = scope.series.get(key);
+        if (!s) scope.series.set(key, (s = { deviceId: r.deviceId, channel: r.channel, samples: [] }));
+      }
+      s!.samples.push([r.ts, r.value]);
+      if (s!.samples.length > LIVE_MAX_SAMPLES_PER_SERIES * 4) s!.samples.splice(0, s!.samples.length - LIVE_MAX_SAMPLES_PER_SERIES);
     }
   }
 

@@ -12,7 +12,7 @@ import mqtt, { type IPublishPacket, type MqttClient } from "mqtt";
 import { closeDb, getDb, getPool } from "../db/client";
 import { getEnv } from "../db/env";
 import { recordDevicesLastSeen, setDeviceOnline, type IngestDevice } from "../db/queries/devices-auth";
-import { insertRejections, upsertIngestStatus, REJECTIONS_KEPT, type NewRejection } from "../db/queries/ingest-diagnostics";
+import { insertRejections, trimRejections, upsertIngestStatus, REJECTIONS_KEPT, type NewRejection } from "../db/queries/ingest-diagnostics";
 import type { ReadingRow } from "../db/queries/readings-write";
 import {
   checkReadingSets,
@@ -99,7 +99,8 @@ export async function startWorker() {
 
   // ---- writer ----
   const live = new LiveSnapshots(directory);
-  const spill = new SpillStore(path.resolve(env.DATA_DIR, "spill", cfg.INGEST_CLIENT_ID));
+  // per database and worker: a demo and a test stack may share the data folder
+  const spill = new SpillStore(path.resolve(env.DATA_DIR, "spill", env.DB_NAME, cfg.INGEST_CLIENT_ID));
   const writer = new ReadingWriter(
     pool,
     spill,
@@ -127,8 +128,12 @@ export async function startWorker() {
       const d = directory.getById(r.deviceId);
       readings.push({ deviceId: r.deviceId, deviceCode: d?.code ?? String(r.deviceId), channel: r.channel, ts: r.ts, value: r.value });
     }
-    // per device in reading-time order
-    readings.sort((a, b) => a.deviceId - b.deviceId || a.ts - b.ts || (a.channel < b.channel ? -1 : a.channel > b.channel ? 1 : 0));
+    // per device in reading-time order (usually already so: skip the sort then)
+    const order = (a: CommittedReading, b: CommittedReading) =>
+      a.deviceId - b.deviceId || a.ts - b.ts || (a.channel < b.channel ? -1 : a.channel > b.channel ? 1 : 0);
+    let sorted = true;
+    for (let i = 1; i < readings.length && sorted; i++) if (order(readings[i - 1], readings[i]) > 0) sorted = false;
+    if (!sorted) readings.sort(order);
     for (const s of sinks) s.pushBatch(readings);
   }
 
@@ -292,6 +297,7 @@ export async function startWorker() {
     counters.snapshot({ bufferedReadings: writer.bufferedReadings, unackedMessages: writer.unackedMessages, lagSinceTs });
 
   let rejectionsBusy = false;
+  let rejectionsSinceTrim = 0;
   async function flushRejections() {
     if (rejectionsBusy || pendingRejections.length === 0) return;
     rejectionsBusy = true;
@@ -299,6 +305,7 @@ export async function startWorker() {
     pendingRejections = [];
     try {
       await insertRejections(db, batch);
+      rejectionsSinceTrim += batch.length;
     } catch (err) {
       pendingRejections = batch.concat(pendingRejections).slice(-REJECTIONS_KEPT);
       log.debug("could not store rejections yet", { error: describeError(err) });
@@ -329,6 +336,10 @@ export async function startWorker() {
       }
       await writeOnline();
       await upsertIngestStatus(db, cfg.INGEST_CLIENT_ID, Date.now(), snapshot());
+      if (rejectionsSinceTrim > 0) {
+        rejectionsSinceTrim = 0;
+        await trimRejections(db);
+      }
     } catch (err) {
       log.debug("could not write status yet", { error: describeError(err) });
     } finally {

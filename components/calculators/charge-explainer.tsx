@@ -81,7 +81,7 @@ export function ChargeExplainer() {
         ]}
       />
       <Caution title="Shocks are a hazard, too">
-        A charged person or conductor near solvent vapour is an ignition source: use the spark-hazard check below, and have solvent areas assessed by a qualified person under NFPA 77, IEC TS 60079-32-1 and local codes. Stillfield is a monitoring aid, not a safety system.
+        A charged person or conductor near solvent vapour is an ignition source: use the spark-hazard check below, and have solvent areas assessed by a qualified person under <span className="whitespace-nowrap">NFPA 77</span>, <span className="whitespace-nowrap">IEC TS 60079-32-1</span> and local codes. Stillfield is a monitoring aid, not a safety system.
       </Caution>
     </CalcCard>
   );

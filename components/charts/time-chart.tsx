@@ -100,7 +100,8 @@ export function TimeChart(props: TimeChartProps) {
         ms: 1,
         tzDate: (ts) => UPlot.tzDate(new Date(ts), propsRef.current.timeZone),
         legend: { show: false },
-        padding: [8, 8, 0, 0],
+        // room for the outermost y labels where no time axis sits below or above
+        padding: [p.timeLabels === "top" ? 0 : 9, 8, p.timeLabels === "bottom" || p.timeLabels === undefined ? 0 : 9, 0],
         cursor: {
           sync: { key: p.syncKey, scales: ["x", null] },
           drag: { x: true, y: false, setScale: false },

@@ -4,7 +4,7 @@
 // the snapshot (debounced); a "reset" from the stream (too long a gap) reseeds the store.
 import { useQuery, useQueryClient } from "@tanstack/react-query";
 import { useCallback, useEffect, useMemo, useRef, useSyncExternalStore } from "react";
-import type { FloorArea, FloorSnapshot } from "@/db/queries/floor";
+import type { FloorSnapshot } from "@/db/queries/floor";
 import { LiveStore } from "@/components/live/live-store";
 import { useLiveStream, type LiveStreamState } from "@/components/live/use-live-stream";
 import { useNow } from "@/components/live/use-now";
@@ -71,8 +71,4 @@ export function useFloorLive(initial: FloorSnapshot, opts: { areaId?: number; re
   const version = useSyncExternalStore(store.subscribe, store.getVersion, store.getVersion);
   const now = useNow(1_000, stream.clockOffsetMs, initial.nowTs);
   return { snapshot, store, stream, now, version };
-}
-
-export function findArea(snapshot: FloorSnapshot, areaId: number): FloorArea | undefined {
-  return snapshot.areas.find((a) => a.id === areaId);
 }

@@ -36,6 +36,8 @@ export type DueItem = {
   /** whole days until due (negative: whole days overdue; 0 with overdue = less than a day late) */
   daysLeft: number;
   reason: string;
+  /** never done since installation (or never recorded): due from the installation date */
+  neverDone: boolean;
   /** decay-time projection: when the trend reaches the limit ("cleaning likely due around …") */
   projectedTs: number | null;
   /** effect over the last 24 h (1 − |after|/|before|), null when unknown */
@@ -61,10 +63,11 @@ export async function getDueList(db: Db, nowMs: number, opts: { horizonDays?: nu
   const plant = await getPlantSettings(db);
   const [ns, devs, limits] = await Promise.all([listNeutralizers(db), listDevices(db, nowMs), getCheckLimits(db)]);
   const items: DueItem[] = [];
-  const push = (i: Omit<DueItem, "key" | "overdue" | "daysLeft" | "projectedTs" | "effectDay">) => {
+  const push = (i: Omit<DueItem, "key" | "overdue" | "daysLeft" | "projectedTs" | "effectDay" | "neverDone"> & { neverDone?: boolean }) => {
     if (i.dueTs > until) return;
     items.push({
       ...i,
+      neverDone: i.neverDone ?? false,
       key: `${i.subjectType}:${i.subjectId}:${i.what}`,
       overdue: i.dueTs < nowMs,
       daysLeft: i.dueTs >= nowMs ? Math.floor((i.dueTs - nowMs) / DAY_MS) : -Math.floor((nowMs - i.dueTs) / DAY_MS),
@@ -83,6 +86,7 @@ export async function getDueList(db: Db, nowMs: number, opts: { horizonDays?: nu
       ...base,
       what: "cleaning",
       dueTs: cleaningDue,
+      neverDone: n.state !== "needs_cleaning" && n.lastCleanedTs === null,
       reason:
         n.state === "needs_cleaning"
           ? "Marked as needing cleaning."
@@ -94,6 +98,7 @@ export async function getDueList(db: Db, nowMs: number, opts: { horizonDays?: nu
       ...base,
       what: "check",
       dueTs: n.checkDueTs ?? nowMs,
+      neverDone: n.lastCheck === null,
       reason: n.lastCheck ? `Every ${n.checkIntervalDays} days; last checked ${fmtDate(n.lastCheck.ts, plant.timeZone)} (${n.lastCheck.passed ? "passed" : "failed"}).` : `Every ${n.checkIntervalDays} days; no check recorded.`,
     });
   }

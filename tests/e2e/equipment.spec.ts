@@ -15,9 +15,9 @@ test.describe("devices", () => {
 
     await page.getByLabel("Device id (code)").fill("fm-e2e-unwind");
     await page.getByLabel("Name").fill("Spare meter at the gravure unwind");
-    await page.getByLabel("Measuring point (field meters)").selectOption({ label: "Gravure Press 1 — 1. Unwind" });
-    await page.getByLabel("Calibrated distance, mm").fill("25");
-    await page.getByLabel("Mounting distance, mm").fill("50");
+    await page.getByLabel("Point (field meter)").selectOption({ label: "Gravure Press 1 — 1. Unwind" });
+    await page.getByLabel("Calibrated for, mm").fill("25");
+    await page.getByLabel("Mounted at, mm").fill("50");
     // the form warns as soon as the distances differ
     await expect(page.getByTestId("equipment-warnings")).toContainText("Calibrated for 25 mm but mounted at 50 mm");
     await page.getByRole("button", { name: "Add device and issue its secret" }).click();

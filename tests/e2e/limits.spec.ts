@@ -53,7 +53,8 @@ test("an engineer overrides a limit at a point, replays it, saves it, edits it a
   await editor.getByLabel("Limit", { exact: true }).fill("9");
   await editor.getByLabel("Clear level", { exact: true }).fill("10");
   await editor.getByTestId("replay-button").click();
-  await expect(editor.getByText("The clear level must be below the limit")).toBeVisible();
+  await expect(editor.getByText("The clear level must be below the limit (on the safe side)", { exact: true })).toBeVisible();
+  await expect(page.getByTestId("limits-message")).toHaveText("Please correct the marked fields.");
 
   await editor.getByLabel("Clear level", { exact: true }).fill("7.5");
   await editor.getByLabel("Why").fill("Unwind film charges more since the new supplier");

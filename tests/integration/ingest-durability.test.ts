@@ -99,7 +99,7 @@ describe("database outage", () => {
     expect(after.dbHealthy).toBe(true);
     expect(after.batch.failures).toBeGreaterThan(0);
     expect(after.spilled.replayedReadings).toBeGreaterThan(0);
-    await waitFor("spill files replayed", async () => fs.readdirSync(path.join(stack.dataDir, "spill", stack.env.INGEST_CLIENT_ID)).length === 0);
+    await waitFor("spill files replayed", async () => fs.readdirSync(path.join(stack.dataDir, "spill", stack.env.DB_NAME, stack.env.INGEST_CLIENT_ID)).length === 0);
     await rollupsMatchRaw(Math.min(...acked.map((a) => a.ts)));
   });
 });

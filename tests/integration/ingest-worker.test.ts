@@ -250,3 +250,17 @@ describe("live data and devices", () => {
     expect(Number((seen as Array<{ t: number }>)[0].t)).toBeGreaterThan(Date.now() - 120_000);
   });
 });
+
+describe("diagnostics", () => {
+  it("keeps only the newest 500 rejections", async () => {
+    const fm = await connectDevice(stack, FM, secrets[FM]);
+    for (let i = 0; i < 700; i++) fm.publish(deviceTopics.readings(FM), `{"broken": ${i}`, { qos: 0 });
+    await publishAsync(fm, deviceTopics.readings(FM), `{"broken": "last"`);
+    await waitFor("the last rejection stored", async () => (await listRecentRejections(tdb.db, { limit: 1 }))[0]?.payload === `{"broken": "last"`, 20_000);
+    await waitFor("the table trimmed", async () => (await countRows("SELECT COUNT(*) n FROM ingest_rejections")) <= 500, 20_000);
+    const newest = await listRecentRejections(tdb.db, { limit: 500 });
+    expect(newest).toHaveLength(500);
+    expect(newest[0].payload).toBe(`{"broken": "last"`);
+    await endClient(fm);
+  });
+});

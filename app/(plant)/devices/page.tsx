@@ -44,48 +44,44 @@ export default async function DevicesPage() {
         / Devices
       </nav>
       <PageHeader title="Devices" subtitle="Sensors that send readings: fixed field meters, temperature/humidity loggers and line-speed gateways." />
-      <div className={isAdmin ? "grid gap-5 xl:grid-cols-[minmax(0,1fr)_26rem]" : ""}>
-        <Card title={`${devs.length} devices`} aside={<span className="text-xs text-ink-faint">silent = nothing for {SILENT_AFTER_MS / 60_000} min</span>}>
-          {devs.length === 0 ? (
-            <EmptyState title="No devices yet">{isAdmin ? "Add the first one with the form." : "An admin adds devices here."}</EmptyState>
-          ) : (
-            <div className="-mx-4 -my-2 overflow-x-auto">
-              <table className="w-full min-w-[58rem] text-sm" data-testid="device-table">
-                <thead className="text-left text-xs text-ink-faint">
-                  <tr>
-                    <th className="px-4 py-2 font-medium">Device</th>
-                    <th className="py-2 pr-3 font-medium">Where</th>
-                    <th className="py-2 pr-3 font-medium">Last seen</th>
-                    <th className="py-2 pr-3 text-right font-medium" title="Messages in the last minute (ingest workers); readings per minute over 10 min">
-                      Msg / min
-                    </th>
-                    <th className="py-2 pr-3 text-right font-medium">Rejected 24 h</th>
-                    <th className="py-2 pr-3 font-medium">Distance cal. / mounted</th>
-                    <th className="py-2 pr-4 font-medium">Calibration due</th>
-                  </tr>
-                </thead>
-                <tbody>
-                  {kinds.map((k) => {
-                    const rows = devs.filter((d) => d.kind === k);
-                    if (!rows.length) return null;
-                    return (
-                      <KindRows key={k} label={DEVICE_KIND_LABELS[k]} rows={rows} nowMs={nowMs} today={today} soon={soon} />
-                    );
-                  })}
-                </tbody>
-              </table>
-            </div>
-          )}
+      {isAdmin ? (
+        <Card title="Add a device" className="mb-5">
+          <AddDeviceForm places={places} today={today} />
+          <p className="mt-3 border-t border-paper-line pt-3 text-xs leading-relaxed text-ink-faint">
+            Each device signs in to the broker with its id and secret and may publish only under its own topic. The secret is shown once, when it is issued; Stillfield stores only a salted hash.
+          </p>
         </Card>
-        {isAdmin ? (
-          <Card title="Add a device">
-            <AddDeviceForm places={places} today={today} />
-            <p className="mt-3 border-t border-paper-line pt-3 text-xs leading-relaxed text-ink-faint">
-              Each device signs in to the broker with its id and secret and may publish only under its own topic. The secret is shown once, when it is issued; Stillfield stores only a salted hash.
-            </p>
-          </Card>
-        ) : null}
-      </div>
+      ) : null}
+      <Card title={`${devs.length} devices`} aside={<span className="text-xs text-ink-faint">silent = nothing received for {SILENT_AFTER_MS / 60_000} min</span>}>
+        {devs.length === 0 ? (
+          <EmptyState title="No devices yet">{isAdmin ? "Add the first one with the form above." : "An admin adds devices here."}</EmptyState>
+        ) : (
+          <div className="-mx-4 -my-2 overflow-x-auto">
+            <table className="w-full min-w-[62rem] text-sm" data-testid="device-table">
+              <thead className="whitespace-nowrap text-left text-xs text-ink-faint">
+                <tr>
+                  <th className="px-4 py-2 font-medium">Device</th>
+                  <th className="py-2 pr-3 font-medium">Where</th>
+                  <th className="py-2 pr-3 font-medium">Last seen</th>
+                  <th className="py-2 pr-3 text-right font-medium" title="Messages in the last minute as counted by the ingest workers; without them, readings per minute over 10 min">
+                    Rate
+                  </th>
+                  <th className="py-2 pr-3 text-right font-medium">Rejected 24 h</th>
+                  <th className="py-2 pr-3 font-medium">Calibrated / mounted</th>
+                  <th className="py-2 pr-4 font-medium">Calibration due</th>
+                </tr>
+              </thead>
+              <tbody>
+                {kinds.map((k) => {
+                  const rows = devs.filter((d) => d.kind === k);
+                  if (!rows.length) return null;
+                  return <KindRows key={k} label={DEVICE_KIND_LABELS[k]} rows={rows} nowMs={nowMs} today={today} soon={soon} />;
+                })}
+              </tbody>
+            </table>
+          </div>
+        )}
+      </Card>
     </div>
   );
 }
@@ -111,18 +107,25 @@ function KindRows({ label, rows, nowMs, today, soon }: { label: string; rows: De
               <span className="block max-w-[18rem] truncate text-xs text-ink-faint">{d.label}</span>
             </td>
             <td className="py-2 pr-3 text-ink-soft">{d.placeLabel}</td>
-            <td className="py-2 pr-3">
+            <td className="whitespace-nowrap py-2 pr-3">
               {silent ? <StateBadge state="silent" label={d.lastSeenTs === null ? "Never seen" : `Silent · ${fmtAgo(d.lastSeenTs, nowMs)}`} /> : <span className="text-ink-soft">{fmtAgo(d.lastSeenTs, nowMs)}</span>}
             </td>
-            <td className="num py-2 pr-3 text-right">
-              {d.messagesPerMin !== null ? d.messagesPerMin : "—"}
-              <span className="block text-xs text-ink-faint">{d.readingsPerMin} readings</span>
+            <td className="num whitespace-nowrap py-2 pr-3 text-right">
+              {d.messagesPerMin !== null ? (
+                <>
+                  {d.messagesPerMin} <span className="text-xs text-ink-faint">msg/min</span>
+                </>
+              ) : (
+                <>
+                  {d.readingsPerMin} <span className="text-xs text-ink-faint">readings/min</span>
+                </>
+              )}
             </td>
             <td className="num py-2 pr-3 text-right" title={d.lastRejection ? `${reasonLabel(d.lastRejection.reason)}: ${d.lastRejection.detail ?? ""}` : undefined}>
               {d.rejections24h ? <span className="font-medium text-near">{d.rejections24h}</span> : <span className="text-ink-faint">0</span>}
               {d.lastRejection && d.rejections24h ? <span className="block max-w-[10rem] truncate text-xs text-ink-faint">{reasonLabel(d.lastRejection.reason)}</span> : null}
             </td>
-            <td className="num py-2 pr-3 text-ink-soft">
+            <td className="num whitespace-nowrap py-2 pr-3 text-ink-soft">
               {d.kind === "field_meter" ? (
                 <span className={warn.length ? "font-medium text-near" : ""} title={warn[0]?.message}>
                   {d.calibratedDistanceMm ?? "—"} / {d.mountingDistanceMm ?? "—"} mm{warn.length ? " ▲" : ""}
@@ -131,7 +134,7 @@ function KindRows({ label, rows, nowMs, today, soon }: { label: string; rows: De
                 <span className="text-ink-faint">—</span>
               )}
             </td>
-            <td className="py-2 pr-4">
+            <td className="whitespace-nowrap py-2 pr-4">
               {d.calibrationDue === null ? (
                 <span className="text-ink-faint">—</span>
               ) : d.calibrationDue < today ? (

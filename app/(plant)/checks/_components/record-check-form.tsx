@@ -109,14 +109,14 @@ export function RecordCheckForm({ options, preselect, nowLocal }: { options: Opt
             <input name="offsetV" inputMode="decimal" className={inputClass} required />
           </Label>
         </div>
-        <div className="grid grid-cols-3 gap-3">
+        <Label text="Instrument" name="instrument" errors={errors}>
+          <input name="instrument" className={inputClass} maxLength={120} placeholder="model and serial number" />
+        </Label>
+        <div className="grid grid-cols-2 gap-3">
           <Label text="Plate distance (mm)" name="plateDistanceMm" errors={errors}>
             <input name="plateDistanceMm" inputMode="decimal" defaultValue="25" className={inputClass} />
           </Label>
-          <Label text="Instrument" name="instrument" errors={errors}>
-            <input name="instrument" className={inputClass} maxLength={120} placeholder="model / serial" />
-          </Label>
-          <Label text="Calibrated on" name="instrumentCalibratedOn" errors={errors}>
+          <Label text="Instrument calibrated on" name="instrumentCalibratedOn" errors={errors}>
             <input name="instrumentCalibratedOn" type="date" className={inputClass} />
           </Label>
         </div>

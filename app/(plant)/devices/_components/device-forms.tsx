@@ -54,7 +54,7 @@ function SecretOnce({ code, secret, onDone }: { code: string; secret: string; on
 function PlacementFields({ places, initial }: { places: Places; initial?: { pointId: number | null; lineId: number | null; areaId: number | null } }) {
   return (
     <div className="grid gap-3 sm:grid-cols-3">
-      <Field label="Measuring point (field meters)" name="pointId">
+      <Field label="Point (field meter)" name="pointId">
         <select name="pointId" className={inputClass} defaultValue={initial?.pointId ?? ""}>
           <option value="">—</option>
           {places.points.map((p) => (
@@ -64,7 +64,7 @@ function PlacementFields({ places, initial }: { places: Places; initial?: { poin
           ))}
         </select>
       </Field>
-      <Field label="Line (speed gateways)" name="lineId">
+      <Field label="Line (gateway)" name="lineId">
         <select name="lineId" className={inputClass} defaultValue={initial?.pointId ? "" : (initial?.lineId ?? "")}>
           <option value="">—</option>
           {places.lines.map((l) => (
@@ -74,7 +74,7 @@ function PlacementFields({ places, initial }: { places: Places; initial?: { poin
           ))}
         </select>
       </Field>
-      <Field label="Hall (loggers)" name="areaId">
+      <Field label="Hall (logger)" name="areaId">
         <select name="areaId" className={inputClass} defaultValue={initial?.pointId || initial?.lineId ? "" : (initial?.areaId ?? "")}>
           <option value="">—</option>
           {places.areas.map((a) => (
@@ -134,7 +134,7 @@ export function AddDeviceForm({ places, today }: { places: Places; today: string
       }}>
         <ActionForm
           action={createDevice}
-          className="space-y-3"
+          className="grid gap-3 lg:grid-cols-2"
           resetOnSuccess
           onSuccess={(r) => {
             if (isSecretResult(r)) setSecret({ code: r.data.code, secret: r.data.secret });
@@ -142,8 +142,8 @@ export function AddDeviceForm({ places, today }: { places: Places; today: string
           }}
         >
           <div className="grid gap-3 sm:grid-cols-2">
-            <Field label="Device id (code)" name="code" hint="What it signs in with, e.g. fm-gravure-1-unwind">
-              <input name="code" className={inputClass} required maxLength={64} autoComplete="off" />
+            <Field label="Device id (code)" name="code">
+              <input name="code" className={inputClass} required maxLength={64} autoComplete="off" placeholder="e.g. fm-gravure-1-unwind" />
             </Field>
             <Field label="Kind" name="kind">
               <select name="kind" className={inputClass} defaultValue="field_meter">
@@ -160,18 +160,20 @@ export function AddDeviceForm({ places, today }: { places: Places; today: string
           </Field>
           <PlacementFields places={places} />
           <div className="grid gap-3 sm:grid-cols-3">
-            <Field label="Calibrated distance, mm" name="calibratedDistanceMm">
+            <Field label="Calibrated for, mm" name="calibratedDistanceMm">
               <input name="calibratedDistanceMm" inputMode="decimal" className={inputClass} />
             </Field>
-            <Field label="Mounting distance, mm" name="mountingDistanceMm">
+            <Field label="Mounted at, mm" name="mountingDistanceMm">
               <input name="mountingDistanceMm" inputMode="decimal" className={inputClass} />
             </Field>
             <Field label="Calibration due" name="calibrationDue">
               <input name="calibrationDue" type="date" className={inputClass} />
             </Field>
           </div>
-          <WarningList warnings={warnings} />
-          <SubmitButton>Add device and issue its secret</SubmitButton>
+          <div className="space-y-3 lg:col-span-2">
+            <WarningList warnings={warnings} />
+            <SubmitButton>Add device and issue its secret</SubmitButton>
+          </div>
         </ActionForm>
       </div>
     </div>
@@ -205,10 +207,10 @@ export function EditDeviceForm({ device, places, today }: { device: EditableDevi
         </Field>
         <PlacementFields places={places} initial={device} />
         <div className="grid gap-3 sm:grid-cols-3">
-          <Field label="Calibrated distance, mm" name="calibratedDistanceMm">
+          <Field label="Calibrated for, mm" name="calibratedDistanceMm">
             <input name="calibratedDistanceMm" inputMode="decimal" className={inputClass} defaultValue={device.calibratedDistanceMm ?? ""} />
           </Field>
-          <Field label="Mounting distance, mm" name="mountingDistanceMm">
+          <Field label="Mounted at, mm" name="mountingDistanceMm">
             <input name="mountingDistanceMm" inputMode="decimal" className={inputClass} defaultValue={device.mountingDistanceMm ?? ""} />
           </Field>
           <Field label="Calibration due" name="calibrationDue">

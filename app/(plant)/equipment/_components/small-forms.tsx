@@ -11,7 +11,9 @@ export function CleanedForm({ id, nowLocal }: { id: number; nowLocal: string }) 
         <Field label="Cleaned at" name="cleanedAt">
           <input type="datetime-local" name="cleanedAt" defaultValue={nowLocal} className={inputClass} />
         </Field>
-        <SubmitButton>Record cleaning</SubmitButton>
+        <span className="whitespace-nowrap">
+          <SubmitButton>Record cleaning</SubmitButton>
+        </span>
       </div>
       <Field label="What was done (optional)" name="note">
         <input name="note" className={inputClass} maxLength={500} placeholder="e.g. wiped emitter pins with isopropanol" />

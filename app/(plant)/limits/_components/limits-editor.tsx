@@ -196,7 +196,7 @@ export function LimitsEditor({
       setReplay({ key, result: r.data });
     } else {
       setFieldErrors(r.error.fieldErrors ?? {});
-      setMessage({ tone: "error", text: r.error.error ?? `The replay failed (HTTP ${r.status}).` });
+      setMessage({ tone: "error", text: r.error.fieldErrors && Object.keys(r.error.fieldErrors).length ? "Please correct the marked fields." : (r.error.error ?? `The replay failed (HTTP ${r.status}).`) });
     }
   }
 
@@ -216,7 +216,7 @@ export function LimitsEditor({
       router.refresh();
     } else {
       setFieldErrors(r.error.fieldErrors ?? {});
-      setMessage({ tone: "error", text: r.error.error ?? `Saving failed (HTTP ${r.status}).` });
+      setMessage({ tone: "error", text: r.error.fieldErrors && Object.keys(r.error.fieldErrors).length ? "Please correct the marked fields." : (r.error.error ?? `Saving failed (HTTP ${r.status}).`) });
     }
   }
 
