@@ -106,7 +106,7 @@ async function notifyOrder(
       ts: nowMs,
       kind: a.notifiedLevel === 0 ? "notified" : "escalated",
       personId: null,
-      comment: (names.length ? `E-mailed on-call order ${order}: ${names.join(", ")}` : `Nobody on call at order ${order}`).slice(0, 2000),
+      comment: (names.length ? `Order ${order}: ${names.join(", ")}` : `Nobody on call at order ${order}`).slice(0, 2000),
       value: String(order),
     });
     return true;

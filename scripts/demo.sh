@@ -47,7 +47,7 @@ fi
 
 ready="$DATA_DIR/run/demo-ready"
 rm -f "$ready"
-STACK_READY_FILE="$ready" npx tsx scripts/run-stack.ts demo &
+STACK_READY_FILE="$ready" node --import tsx scripts/run-stack.ts demo &
 stack_pid=$!
 for _ in $(seq 1 240); do
   [ -f "$ready" ] && break

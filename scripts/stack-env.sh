@@ -17,6 +17,7 @@ if [ "$STACK" = "test" ]; then
   export MQTT_PORT=$((1894 + SLOT))
   export SMTP_PORT=$((2535 + SLOT))
   export WORKER_HEALTH_PORT=$((9474 + SLOT))
+  export BROKER_HEALTH_PORT=$((9484 + SLOT))
   export NEXT_DIST_DIR=".next-test${SLOT}"
 else
   export DB_NAME="${DB_NAME:-stillfield}"
@@ -24,6 +25,7 @@ else
   export MQTT_PORT="${MQTT_PORT:-1884}"
   export SMTP_PORT="${SMTP_PORT:-2525}"
   export WORKER_HEALTH_PORT="${WORKER_HEALTH_PORT:-9464}"
+  export BROKER_HEALTH_PORT="${BROKER_HEALTH_PORT:-9465}"
   export NEXT_DIST_DIR="${NEXT_DIST_DIR:-.next}"
 fi
 export APP_URL="http://127.0.0.1:${APP_PORT}"

@@ -69,7 +69,7 @@ if [ "$PART" = "all" ] || [ "$PART" = "e2e" ]; then
     grep -E "First Load JS|^[├└┌].*kB" "$OUT/next-build.log" | tail -30 || true
   fi
   rm -f "$OUT/stack-ready"
-  STACK_READY_FILE="$OUT/stack-ready" npx tsx scripts/run-stack.ts test >"$OUT/stack.log" 2>&1 &
+  STACK_READY_FILE="$OUT/stack-ready" node --import tsx scripts/run-stack.ts test >"$OUT/stack.log" 2>&1 &
   stack_pid=$!
   for _ in $(seq 1 240); do
     [ -f "$OUT/stack-ready" ] && break

@@ -393,7 +393,7 @@ const EVENT_WORDS: Record<string, string> = {
   unshelved: "Unshelved",
   closed: "Closed",
   notified: "E-mailed on-call",
-  escalated: "Escalated",
+  escalated: "Escalated, e-mailed",
 };
 
 export type { AlertStateName };

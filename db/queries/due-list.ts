@@ -197,7 +197,8 @@ export function formatDueListEmail(list: DueList, timeZone: string, appUrl: stri
       ? "Stillfield due list: nothing due in the next 14 days"
       : `Stillfield due list: ${list.overdueCount} overdue, ${list.dueSoonCount} due within ${list.horizonDays} days`;
   const link = `${appUrl.replace(/\/$/, "")}/checks`;
-  const status = (i: DueItem) => (i.overdue ? (i.daysLeft < 0 ? `◆ OVERDUE ${-i.daysLeft} d` : "◆ OVERDUE") : i.daysLeft === 0 ? "▲ due today" : `▲ due in ${i.daysLeft} d`);
+  const status = (i: DueItem) =>
+    i.overdue ? (i.neverDone ? "◆ NEVER DONE" : i.daysLeft < 0 ? `◆ OVERDUE ${-i.daysLeft} d` : "◆ OVERDUE") : i.daysLeft === 0 ? "▲ due today" : `▲ due in ${i.daysLeft} d`;
   const textLines: string[] = [subject, "", `Generated ${fmtDate(list.generatedTs, timeZone)}. Open the list: ${link}`, ""];
   const htmlParts: string[] = [
     `<p style="font-family:sans-serif">${escapeHtml(subject)}.<br>Generated ${fmtDate(list.generatedTs, timeZone)}. <a href="${escapeHtml(link)}">Open the due list in Stillfield</a>.</p>`,

@@ -6,3 +6,4 @@
 export * from "./psychrometrics";
 export * from "./electrostatics";
 export * from "./neutralizer";
+export * from "./line-hazard";

@@ -84,7 +84,7 @@ export default async function AlertLoadPage({ searchParams }: { searchParams: Pr
       <div className="mb-5 grid gap-3 md:grid-cols-[minmax(0,20rem)_1fr]">
         <div className={clsx("rounded-card border px-4 py-3", verdict.tone)} data-testid="load-verdict" data-verdict={load.verdict}>
           <div className="text-xs font-medium text-ink-soft">Average over the last {SPANS.find((s) => s.days === days)?.label}</div>
-          <div className="num mt-1 text-3xl font-semibold text-ink">{load.averagePer10Min.toFixed(2)}</div>
+          <div className="num mt-1 text-3xl font-semibold text-ink">{load.averagePer10Min === 0 ? "0" : load.averagePer10Min < 0.01 ? "< 0.01" : load.averagePer10Min.toFixed(2)}</div>
           <div className="text-sm text-ink-soft">alerts per 10 minutes</div>
           <div className="mt-2 text-sm font-semibold text-ink">{verdict.word}</div>
           <div className="text-xs text-ink-soft">{verdict.text}</div>

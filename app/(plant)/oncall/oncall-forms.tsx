@@ -42,7 +42,7 @@ export function RemoveShiftButton({ id, label }: { id: number; label: string }) 
   return (
     <ActionForm action={removeShift} className="inline">
       <input type="hidden" name="id" value={id} />
-      <button type="submit" className="text-xs text-over hover:underline" aria-label={`Remove ${label}`}>
+      <button type="submit" className="text-xs text-ink-faint hover:text-over hover:underline" aria-label={`Remove ${label}`}>
         Remove
       </button>
     </ActionForm>
@@ -62,10 +62,10 @@ export function AlertingSettingsForm({ notifyMinSeverity, notifyAfterMin, escala
         </select>
       </Field>
       <div className="grid grid-cols-2 gap-3">
-        <Field label="When unacknowledged for (min)" name="notifyAfterMin">
+        <Field label="Unacknowledged for (min)" name="notifyAfterMin">
           <input name="notifyAfterMin" type="number" min={0} step="any" className={inputClass} defaultValue={notifyAfterMin} />
         </Field>
-        <Field label="Escalate after a further (min)" name="escalateAfterMin">
+        <Field label="Then escalate after (min)" name="escalateAfterMin">
           <input name="escalateAfterMin" type="number" min={1} step="any" className={inputClass} defaultValue={escalateAfterMin} />
         </Field>
       </div>

@@ -25,5 +25,6 @@ export const GET = route("view", async ({ request }) => {
 export const POST = route("note.add", async ({ request, session }) => {
   const result = await addNoteAction.run(session, await readJson(request));
   if (result.ok) return NextResponse.json(result.data, { status: 201 });
-  return NextResponse.json({ error: result.message, fieldErrors: result.fieldErrors }, { status: result.status });
+  const code = { 400: "bad_input", 401: "unauthenticated", 403: "forbidden", 404: "not_found" }[result.status] ?? "internal";
+  return NextResponse.json({ error: result.message, code, fieldErrors: result.fieldErrors }, { status: result.status });
 });

@@ -78,6 +78,20 @@ export default async function DevicePage({ params }: { params: Promise<{ id: str
               <Figure label="Rejected, 24 h" value={String(d.rejections24h)} sub={d.online ? "connected now" : "not connected"} />
             </dl>
           </Card>
+          <Card title="Details">
+            {canEdit ? (
+              <EditDeviceForm device={d} places={places} today={today} />
+            ) : (
+              <dl className="grid grid-cols-[auto_1fr] gap-x-4 gap-y-1 text-sm">
+                <dt className="text-ink-soft">Calibrated distance</dt>
+                <dd>{d.calibratedDistanceMm !== null ? `${d.calibratedDistanceMm} mm` : "—"}</dd>
+                <dt className="text-ink-soft">Mounting distance</dt>
+                <dd>{d.mountingDistanceMm !== null ? `${d.mountingDistanceMm} mm` : "—"}</dd>
+                <dt className="text-ink-soft">Calibration due</dt>
+                <dd>{fmtIsoDate(d.calibrationDue)}</dd>
+              </dl>
+            )}
+          </Card>
           <Card title="Recent rejected messages">
             {rejections.length === 0 ? (
               <p className="text-sm text-ink-faint">None kept for this device.</p>
@@ -102,20 +116,6 @@ export default async function DevicePage({ params }: { params: Promise<{ id: str
           </Card>
         </div>
         <div className="space-y-5">
-          <Card title="Details">
-            {canEdit ? (
-              <EditDeviceForm device={d} places={places} today={today} />
-            ) : (
-              <dl className="grid grid-cols-[auto_1fr] gap-x-4 gap-y-1 text-sm">
-                <dt className="text-ink-soft">Calibrated distance</dt>
-                <dd>{d.calibratedDistanceMm !== null ? `${d.calibratedDistanceMm} mm` : "—"}</dd>
-                <dt className="text-ink-soft">Mounting distance</dt>
-                <dd>{d.mountingDistanceMm !== null ? `${d.mountingDistanceMm} mm` : "—"}</dd>
-                <dt className="text-ink-soft">Calibration due</dt>
-                <dd>{fmtIsoDate(d.calibrationDue)}</dd>
-              </dl>
-            )}
-          </Card>
           {isAdmin ? (
             <Card title="Secret and access">
               <p className="mb-3 text-sm text-ink-soft">
