@@ -1,10 +1,27 @@
 // Fast-forward history for the demo: plays the plant model over a past span and writes the
 // readings straight to MariaDB in large batches through the same idempotent writer as the
 // ingest worker (db/queries/readings-write.ts), so raw rows and rollups stay consistent and a
-// second run over the same span changes nothing.
-// Raw rows are kept only within the raw retention; older history goes to the rollups only, as
-// whole hours written with INSERT IGNORE (a bucket is either complete or absent).
+// second run over the same span changes nothing. It resumes where the stored history ends.
+// Raw rows are kept only within the raw retention (RAW_RETENTION_DAYS); older history goes to
+// the rollups only, as whole hours written with INSERT IGNORE (a bucket is complete or absent).
+//
+//   tsx simulators/backfill.ts --days 30     (npm run demo does this on its first run)
+// Options (or env): --days (SIM_BACKFILL_DAYS, 7); --full-rate-hours (SIM_FULL_RATE_HOURS, 24):
+// the most recent hours at the live rate (field meters 1 Hz, loggers every 10 s, gateways every
+// 5 s); --thin (SIM_BACKFILL_THIN, 10): older raw history at every n-th sample, so a week is
+// written in about a minute (--thin 1 for the full rate); --rollup-thin (30): history older
+// than the retention, which only feeds the rollups; --seed (SIM_SEED, 7); --anchor <epoch ms>
+// (SIM_ANCHOR_MS): the scenario anchor, by default the one stored at the first run in
+// DATA_DIR/sim-anchor-<DB_NAME>.json (else now), shared with simulators/plant.ts.
+import fs from "node:fs";
+import path from "node:path";
+import { parseArgs } from "node:util";
 import type mysql from "mysql2/promise";
+import { inArray, max } from "drizzle-orm";
+import { z } from "zod";
+import { closeDb, getDb, getPool } from "../db/client";
+import { getEnv } from "../db/env";
+import { devices as devicesTable, rollup1m } from "../db/schema";
 import {
   aggregateRollups,
   HOUR_MS,
@@ -14,7 +31,7 @@ import {
   type ReadingRow,
 } from "../db/queries/readings-write";
 import type { Channel } from "../lib/contract/readings-payload";
-import { SAMPLE_PERIOD_MS, type PlantModel, type SimDevice } from "./plant-model";
+import { PlantModel, SAMPLE_PERIOD_MS, type SimDevice } from "./plant-model";
 
 const RAW_CHUNK_MS = 10 * MINUTE_MS;
 
@@ -31,6 +48,8 @@ export type BackfillOptions = {
   thin?: number;
   /** from here on every sample is written (default: fromMs, i.e. all at the thinned rate) */
   fullRateFromMs?: number;
+  /** every n-th sample for the history that only feeds the rollups (default: thin) */
+  rollupOnlyThin?: number;
   onProgress?: (doneMs: number, rows: number) => void;
 };
 
@@ -67,7 +86,7 @@ export async function backfill(opts: BackfillOptions): Promise<BackfillReport> {
     const end = Math.min(h + HOUR_MS, rawFrom);
     await Promise.all(
       groups.map(async (g) => {
-        const rows = generateRows(model, g, deviceIds, Math.max(h, opts.fromMs), end, thin);
+        const rows = generateRows(model, g, deviceIds, Math.max(h, opts.fromMs), end, Math.max(1, Math.floor(opts.rollupOnlyThin ?? thin)));
         await writeRollups(opts.pool, "rollup_1m", aggregateRollups(rows, MINUTE_MS), "complete");
         await writeRollups(opts.pool, "rollup_1h", aggregateRollups(rows, HOUR_MS), "complete");
         report.rollupOnlyRows += rows.length;
@@ -95,4 +114,126 @@ export async function backfill(opts: BackfillOptions): Promise<BackfillReport> {
   await pending;
   report.ms = Math.round(performance.now() - started);
   return report;
+}
+
+// ---- history for a database: anchor, resume point, run ----
+
+const DAY = 86_400_000;
+
+/** The scenario anchor: given, or stored at the first run so restarts replay the same story. */
+export function resolveAnchor(given: number | undefined, dataDir: string, dbName: string): number {
+  if (given) return given;
+  const file = path.resolve(dataDir, `sim-anchor-${dbName}.json`);
+  try {
+    const parsed = z.object({ anchorMs: z.number().int() }).safeParse(JSON.parse(fs.readFileSync(file, "utf8")));
+    if (parsed.success) return parsed.data.anchorMs;
+  } catch {
+    // first run: no anchor stored yet
+  }
+  const anchorMs = Math.floor(Date.now() / 1000) * 1000;
+  fs.mkdirSync(path.dirname(file), { recursive: true });
+  fs.writeFileSync(file, JSON.stringify({ anchorMs }));
+  return anchorMs;
+}
+
+export type HistoryOptions = { days: number; thin: number; fullRateHours: number; rollupThin: number; codes?: string[] };
+
+/**
+ * Writes the missing part of the last `days` days of history for the demo devices: from where
+ * the stored history ends (the last minute is rewritten; writes are idempotent) up to now.
+ * Returns the end of the history written (where live play should continue).
+ */
+export async function writeHistory(model: PlantModel, opts: HistoryOptions, log: (msg: string) => void): Promise<number> {
+  const env = getEnv();
+  const db = getDb();
+  const codes = opts.codes ?? model.devices.map((d) => d.code);
+  const rows = await db.select({ id: devicesTable.id, code: devicesTable.code }).from(devicesTable).where(inArray(devicesTable.code, codes));
+  const ids = new Map(rows.map((r) => [r.code, r.id]));
+  const toMs = Math.floor(Date.now() / 1000) * 1000;
+  if (ids.size === 0) {
+    log("no demo devices in the database (run the seed first); no history written");
+    return toMs;
+  }
+  const [last] = await db.select({ ts: max(rollup1m.bucketTs) }).from(rollup1m).where(inArray(rollup1m.deviceId, [...ids.values()]));
+  const fromMs = Math.max(toMs - opts.days * DAY, last?.ts ?? 0);
+  if (fromMs >= toMs - 1000) {
+    log("history is up to date; nothing to write");
+    return toMs;
+  }
+  log(`writing ${((toMs - fromMs) / 3_600_000).toFixed(1)} h of history (${new Date(fromMs).toISOString()} → now)`);
+  let lastReport = Date.now();
+  const report = await backfill({
+    pool: getPool(),
+    model,
+    deviceIds: ids,
+    fromMs,
+    toMs,
+    // a minute inside the retention, so the worker's retention job never drops what was written
+    rawFromMs: toMs - env.RAW_RETENTION_DAYS * DAY + 60_000,
+    thin: opts.thin,
+    fullRateFromMs: toMs - opts.fullRateHours * 3_600_000,
+    rollupOnlyThin: opts.rollupThin,
+    onProgress: (doneMs, n) => {
+      if (Date.now() - lastReport > 10_000) {
+        lastReport = Date.now();
+        log(`… ${new Date(doneMs).toISOString()} (${n} readings)`);
+      }
+    },
+  });
+  log(
+    `history written: ${report.rawRows} raw readings, ${report.rollupOnlyRows} older ones into the rollups only, ` +
+      `${report.duplicates} already there, ${(report.ms / 1000).toFixed(1)} s`,
+  );
+  return toMs;
+}
+
+export const historyOptionsSchema = z.object({
+  days: z.coerce.number().min(0).max(400).default(7),
+  thin: z.coerce.number().int().min(1).max(3600).default(10),
+  fullRateHours: z.coerce.number().min(0).default(24),
+  rollupThin: z.coerce.number().int().min(1).max(3600).default(30),
+  seed: z.coerce.number().int().default(7),
+  anchor: z.coerce.number().int().positive().optional(),
+});
+
+async function main(): Promise<void> {
+  const { values } = parseArgs({
+    options: {
+      days: { type: "string" },
+      thin: { type: "string" },
+      "full-rate-hours": { type: "string" },
+      "rollup-thin": { type: "string" },
+      seed: { type: "string" },
+      anchor: { type: "string" },
+    },
+    strict: true,
+  });
+  const e = process.env;
+  const parsed = historyOptionsSchema.safeParse({
+    days: values.days ?? e.SIM_BACKFILL_DAYS,
+    thin: values.thin ?? e.SIM_BACKFILL_THIN,
+    fullRateHours: values["full-rate-hours"] ?? e.SIM_FULL_RATE_HOURS,
+    rollupThin: values["rollup-thin"],
+    seed: values.seed ?? e.SIM_SEED,
+    anchor: values.anchor ?? e.SIM_ANCHOR_MS,
+  });
+  if (!parsed.success) throw new Error(`Bad options:\n${parsed.error.issues.map((i) => `  ${i.path.join(".")}: ${i.message}`).join("\n")}`);
+  const o = parsed.data;
+  const env = getEnv();
+  const log = (msg: string) => process.stdout.write(`${new Date().toISOString()} backfill: ${msg}\n`);
+  const anchorMs = resolveAnchor(o.anchor, env.DATA_DIR, env.DB_NAME);
+  log(`scenario anchor ${new Date(anchorMs).toISOString()}, seed ${o.seed}`);
+  await writeHistory(new PlantModel({ anchorMs, seed: o.seed }), o, log);
+}
+
+const isMain = process.argv[1] && path.resolve(process.argv[1]) === path.resolve(import.meta.filename);
+if (isMain) {
+  main()
+    .then(() => closeDb())
+    .then(() => process.exit(0))
+    .catch((err: unknown) => {
+      process.stderr.write(`backfill: ${err instanceof Error ? err.stack ?? err.message : String(err)}\n`);
+      void closeDb().catch(() => undefined);
+      process.exit(1);
+    });
 }

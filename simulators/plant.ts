@@ -12,7 +12,7 @@
 // Options (or env): --seed (SIM_SEED, 7), --anchor <epoch ms> (SIM_ANCHOR_MS; default: the
 // anchor stored at first start in DATA_DIR/sim-anchor-<DB_NAME>.json, else now),
 // --backfill-days (SIM_BACKFILL_DAYS, 7), --full-rate-hours (SIM_FULL_RATE_HOURS, 24) and
-// --thin n (SIM_BACKFILL_THIN, 5): history older than the full-rate hours is written at every
+// --thin n (SIM_BACKFILL_THIN, 10): history older than the full-rate hours is written at every
 // n-th sample so a week backfills in under a minute (--thin 1 for the full rate), --speed,
 // --from (=-4h, =-30m or epoch ms; write negative times as --from=-4h), --until (+10m, now, epoch ms: stop when simulated time gets
 // there), --duration-s (stop after so many wall seconds), --devices code,code,
@@ -23,16 +23,14 @@ import fs from "node:fs";
 import path from "node:path";
 import { parseArgs } from "node:util";
 import mqtt, { type MqttClient } from "mqtt";
-import { inArray, max } from "drizzle-orm";
 import { z } from "zod";
-import { closeDb, getDb, getPool } from "../db/client";
+import { closeDb } from "../db/client";
 import { getEnv } from "../db/env";
-import { devices as devicesTable, rollup1m } from "../db/schema";
 import { readDeviceSecrets } from "../db/seed";
 import type { ReadingSetInput } from "../lib/contract/readings-payload";
 import { MAX_BATCH_LENGTH } from "../lib/contract/readings-payload";
 import { deviceTopics } from "../lib/contract/topics";
-import { backfill } from "./backfill";
+import { resolveAnchor, writeHistory } from "./backfill";
 import { PlantModel, SAMPLE_PERIOD_MS, type SimDevice } from "./plant-model";
 
 const DAY = 86_400_000;
@@ -51,7 +49,7 @@ const optionsSchema = z.object({
   seed: z.coerce.number().int().default(7),
   anchor: z.coerce.number().int().positive().optional(),
   backfillDays: z.coerce.number().min(0).max(400).default(7),
-  thin: z.coerce.number().int().min(1).max(3600).default(5),
+  thin: z.coerce.number().int().min(1).max(3600).default(10),
   fullRateHours: z.coerce.number().min(0).default(24),
   live: z.boolean().default(true),
   speed: z.coerce.number().min(0.01).max(100_000).optional(),
@@ -106,25 +104,6 @@ function readOptions(): PlantOptions {
 }
 
 const log = (msg: string) => process.stdout.write(`${new Date().toISOString()} plant: ${msg}\n`);
-
-/** The scenario anchor: given, or stored at first start so restarts replay the same story. */
-function resolveAnchor(opts: PlantOptions, dataDir: string, dbName: string): number {
-  if (opts.anchor) return opts.anchor;
-  const file = path.resolve(dataDir, `sim-anchor-${dbName}.json`);
-  const stored = (() => {
-    try {
-      const parsed = z.object({ anchorMs: z.number().int() }).safeParse(JSON.parse(fs.readFileSync(file, "utf8")));
-      return parsed.success ? parsed.data.anchorMs : null;
-    } catch {
-      return null;
-    }
-  })();
-  if (stored) return stored;
-  const anchorMs = Math.floor(Date.now() / 1000) * 1000;
-  fs.mkdirSync(path.dirname(file), { recursive: true });
-  fs.writeFileSync(file, JSON.stringify({ anchorMs }));
-  return anchorMs;
-}
 
 // ---- malformed messages: one kind after another ----
 function malformedPayload(n: number, device: SimDevice, ts: number): string {
@@ -276,7 +255,7 @@ async function runLive(opts: PlantOptions, model: PlantModel, simDevices: SimDev
 async function main() {
   const opts = readOptions();
   const env = getEnv();
-  const anchorMs = resolveAnchor(opts, env.DATA_DIR, env.DB_NAME);
+  const anchorMs = resolveAnchor(opts.anchor, env.DATA_DIR, env.DB_NAME);
   const model = new PlantModel({ anchorMs, seed: opts.seed });
   const wanted = opts.devices ? new Set(opts.devices.split(",").map((s) => s.trim())) : null;
   const simDevices = model.devices.filter((d) => !wanted || wanted.has(d.code));
@@ -284,38 +263,12 @@ async function main() {
 
   let liveFrom = opts.from ?? Math.floor(Date.now() / 1000) * 1000;
   if (opts.backfillDays > 0) {
-    const db = getDb();
-    const codes = simDevices.map((d) => d.code);
-    const rows = await db.select({ id: devicesTable.id, code: devicesTable.code }).from(devicesTable).where(inArray(devicesTable.code, codes));
-    const ids = new Map(rows.map((r) => [r.code, r.id]));
-    const toMs = Math.floor(Date.now() / 1000) * 1000;
-    // resume where the stored history ends (the last minute is rewritten; writes are idempotent)
-    const [last] = await db.select({ ts: max(rollup1m.bucketTs) }).from(rollup1m).where(inArray(rollup1m.deviceId, [...ids.values()]));
-    const fromMs = Math.max(toMs - opts.backfillDays * DAY, last?.ts ?? 0);
-    if (fromMs < toMs - 1000) {
-      log(`backfilling ${((toMs - fromMs) / 3_600_000).toFixed(1)} h of history (${new Date(fromMs).toISOString()} → now)`);
-      let lastReport = 0;
-      const report = await backfill({
-        pool: getPool(),
-        model,
-        deviceIds: ids,
-        fromMs,
-        toMs,
-        rawFromMs: toMs - env.RAW_RETENTION_DAYS * DAY + 60_000,
-        thin: opts.thin,
-        fullRateFromMs: toMs - opts.fullRateHours * 3_600_000,
-        onProgress: (doneMs, n) => {
-          if (Date.now() - lastReport > 10_000) {
-            lastReport = Date.now();
-            log(`… ${new Date(doneMs).toISOString()} (${n} readings)`);
-          }
-        },
-      });
-      log(`backfill done: ${report.rawRows} raw readings, ${report.rollupOnlyRows} into rollups only, ${report.duplicates} already there, ${(report.ms / 1000).toFixed(1)} s`);
-    } else {
-      log("history is up to date; no backfill needed");
-    }
-    liveFrom = opts.from ?? toMs;
+    const end = await writeHistory(
+      model,
+      { days: opts.backfillDays, thin: opts.thin, fullRateHours: opts.fullRateHours, rollupThin: 30, codes: simDevices.map((d) => d.code) },
+      log,
+    );
+    liveFrom = opts.from ?? end;
   }
   await closeDb();
   if (opts.live) await runLive(opts, model, simDevices, liveFrom);

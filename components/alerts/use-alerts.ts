@@ -2,7 +2,7 @@
 // The alerts list's data: /api/alerts through react-query, refetched when the live stream
 // (/api/live, the same SSE path as the charts) says an alert changed. While the stream is down
 // the list polls every 5 s instead; while it is up, every 60 s as a safety net.
-import { useQuery, useQueryClient } from "@tanstack/react-query";
+import { keepPreviousData, useQuery, useQueryClient } from "@tanstack/react-query";
 import { useMemo, useRef } from "react";
 import type { AlertDetail, AlertListItem } from "@/db/queries/alerts";
 import { LiveStore } from "@/components/live/live-store";
@@ -47,6 +47,8 @@ export function useAlerts(filters: AlertFilterState, initial: AlertsResponse | u
     queryKey: ["alerts", "list", qs],
     queryFn: () => fetchJson<AlertsResponse>(`/api/alerts?${qs}`),
     initialData: qs === firstKey.current ? initial : undefined,
+    // a new filter (or the minute rolling over) keeps the old rows on screen until the new ones arrive
+    placeholderData: keepPreviousData,
     refetchInterval: live ? 60_000 : 5_000,
     staleTime: 2_000,
   });

@@ -20,7 +20,7 @@ async function recordCheck(page: Page, tag: string, values: { pos: string; neg: 
   await form.getByLabel("Decay + (s)").fill(values.pos);
   await form.getByLabel("Decay − (s)").fill(values.neg);
   await form.getByLabel("Offset (V)").fill(values.offset);
-  await form.getByLabel("Instrument").fill("Plate monitor PM-7 #0412");
+  await form.getByLabel("Instrument", { exact: true }).fill("Plate monitor PM-7 #0412");
   if (file) await form.getByLabel("Photos or printout of the check").setInputFiles({ name: file.name, mimeType: "image/jpeg", buffer: file.buffer });
   await form.getByRole("button", { name: "Record check" }).click();
 }

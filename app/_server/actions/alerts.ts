@@ -29,7 +29,13 @@ function publisher(): MqttClient {
       reconnectPeriod: 5_000,
       connectTimeout: 5_000,
     });
-    client.on("error", (err) => console.error("alert publisher: broker error:", err.message));
+    let lastLog = 0;
+    client.on("error", (err) => {
+      // mqtt.js retries on its own; say so once a minute, not on every attempt
+      if (Date.now() - lastLog < 60_000) return;
+      lastLog = Date.now();
+      console.error("alert publisher: broker error (retrying):", err.message);
+    });
     holder.__stillfieldAlertPublisher = client;
   }
   return holder.__stillfieldAlertPublisher;
