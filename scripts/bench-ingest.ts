@@ -196,7 +196,7 @@ async function main(): Promise<void> {
     const worker = await stack.startWorker({}, process.env.BENCH_WORKER_NODE_ARGS?.split(" ").filter(Boolean) ?? []);
     let base = 0;
     const pubB = await connect(devices[1]);
-    const cpuB = { worker: cpuMs(worker.child.pid), broker: cpuMs(stack.broker.child.pid), db: cpuMs(server.pid()) };
+    const cpuB = { worker: cpuMs(worker.child.pid), broker: cpuMs(stack.broker.child.pid), db: cpuMs(server.pid()), bench: process.cpuUsage() };
     const tB = Date.now() - 25 * 60_000;
     const b = await publishMany(pubB, deviceTopics.readings(devices[1].code), opts.readings, (i) => oneReading(tB + i, (i % 1000) / 100 - 5), opts.window);
     const bDone = await waitCommitted(stack, base + opts.readings, 600_000);
@@ -204,9 +204,10 @@ async function main(): Promise<void> {
     base += opts.readings;
     log(`(b) end to end, 1 reading/message: ${Math.round(e2eRate)} readings/s (${opts.readings} readings; publisher done in ${((b.endTs - b.startTs) / 1000).toFixed(1)} s, last commit ${((bDone - b.startTs) / 1000).toFixed(1)} s)`);
     const perReading = (ms: number) => ((ms * 1000) / opts.readings).toFixed(1);
+    const benchB = process.cpuUsage(cpuB.bench);
     log(
       `    CPU per reading: worker ${perReading(cpuMs(worker.child.pid) - cpuB.worker)} µs, broker ${perReading(cpuMs(stack.broker.child.pid) - cpuB.broker)} µs, ` +
-        `MariaDB ${perReading(cpuMs(server.pid()) - cpuB.db)} µs (machine load ${fs.readFileSync("/proc/loadavg", "utf8").split(" ")[0]})`,
+        `MariaDB ${perReading(cpuMs(server.pid()) - cpuB.db)} µs, publisher ${perReading((benchB.user + benchB.system) / 1000)} µs (machine load ${fs.readFileSync("/proc/loadavg", "utf8").split(" ")[0]})`,
     );
     pubB.end(true);
 
@@ -219,11 +220,18 @@ async function main(): Promise<void> {
       for (let k = 0; k < 10; k++) sets.push(oneReading(tC + i * 10 + k, ((i + k) % 1000) / 100 - 5));
       return `{"batch":[${sets.join(",")}]}`;
     };
+    const cpuC = { worker: cpuMs(worker.child.pid), broker: cpuMs(stack.broker.child.pid), db: cpuMs(server.pid()), bench: process.cpuUsage() };
     const c = await publishMany(pubC, deviceTopics.readings(devices[2].code), messages, batchBody, Math.max(50, Math.round(opts.window / 5)));
     const cDone = await waitCommitted(stack, base + messages * 10, 600_000);
     const batchedRate = (messages * 10) / ((cDone - c.startTs) / 1000);
     base += messages * 10;
     log(`(c) end to end, batches of 10: ${Math.round(batchedRate)} readings/s (${messages * 10} readings)`);
+    const perBatched = (ms: number) => ((ms * 1000) / (messages * 10)).toFixed(1);
+    const benchC = process.cpuUsage(cpuC.bench);
+    log(
+      `    CPU per reading: worker ${perBatched(cpuMs(worker.child.pid) - cpuC.worker)} µs, broker ${perBatched(cpuMs(stack.broker.child.pid) - cpuC.broker)} µs, ` +
+        `MariaDB ${perBatched(cpuMs(server.pid()) - cpuC.db)} µs, publisher ${perBatched((benchC.user + benchC.system) / 1000)} µs (machine load ${fs.readFileSync("/proc/loadavg", "utf8").split(" ")[0]})`,
+    );
     pubC.end(true);
 
     // (d) latency at a steady 2,000 readings/s (4 devices × 500/s, stamped at publish time)
@@ -258,6 +266,7 @@ async function main(): Promise<void> {
         peakBroker = Math.max(peakBroker, rssMb(stack!.broker.child.pid));
         stack!.workerStats().then((s) => (peakBuffered = Math.max(peakBuffered, s.buffered.readings)), () => undefined);
       }, 1000);
+      const spilledBefore = (await stack.workerStats()).spilled.readings;
       const total = Math.round(2000 * (opts.outageS + 10));
       const perDev = Math.round(total / 4);
       const sending = Promise.all(steady.map((cl, k) => publishMany(cl, deviceTopics.readings(devices[3 + k].code), perDev, () => oneReading(stamp(k), 2.5), 200, 500)));
@@ -280,7 +289,7 @@ async function main(): Promise<void> {
       log(
         `(e) outage ${opts.outageS} s at 2,000 readings/s: worker RSS ${rssBefore} MB before, peak ${peakWorker} MB; broker peak ${peakBroker} MB; ` +
           `peak held in memory ${peakBuffered} readings (memory bound ${memoryBound}), ${during.buffered.readings} at the end of the outage; ` +
-          `spilled ${after.spilled.readings} readings to files; caught up ${((Date.now() - backTs) / 1000).toFixed(1)} s after restart; ` +
+          `spilled ${after.spilled.readings - spilledBefore} readings to files; caught up ${((Date.now() - backTs) / 1000).toFixed(1)} s after restart; ` +
           `stored ${stored} of ${expected} readings${stored === expected ? " (none lost)" : " (MISSING SOME)"}`,
       );
     }

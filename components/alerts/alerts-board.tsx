@@ -235,7 +235,7 @@ function AlertRow({
   const closed = a.state === "closed";
   const endTs = a.endTs ?? (closed ? a.closedTs : null);
   const href = lineHref(a);
-  const where = [a.lineName, a.pointName].filter(Boolean).join(" › ") || a.areaName || a.subjectKey;
+  const where = [a.lineName, a.pointName].filter(Boolean).join(" › ") || a.areaName || a.subjectKey.replace(/^(\w+):/, "$1 ");
   const ackable = a.state === "active_unacked" || a.state === "cleared_unacked";
   return (
     <tr
