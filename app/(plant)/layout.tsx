@@ -18,10 +18,13 @@ export default async function PlantLayout({ children }: { children: React.ReactN
     { href: "/floor", label: "Floor" },
     { href: "/alerts", label: "Alerts" },
     { href: "/limits", label: "Limits" },
+    { href: "/alert-load", label: "Alert load" },
     { href: "/equipment", label: "Equipment" },
     { href: "/checks", label: "Checks" },
+    { href: "/devices", label: "Devices" },
     { href: "/reports", label: "Reports" },
     { href: "/calculators", label: "Calculators" },
+    { href: "/oncall", label: "On-call" },
   ];
   if (can(session.role, "people.manage")) items.push({ href: "/people", label: "People" });
   return (
