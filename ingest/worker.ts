@@ -269,7 +269,10 @@ export async function startWorker() {
       // never stop on one message; it stays unacknowledged and comes back on the next session
       log.error("unexpected error handling a message", { topic: packet.topic, error: describeError(err) });
     }
-    callback();
+    // back-pressure: while the database is slower than the broker, take the next message only
+    // when the writer has room (TCP flow control holds the rest at the broker)
+    if (writer.overBound(1)) writer.waitForRoom(5000).then(() => callback());
+    else callback();
   };
 
   let subscribed: () => void = () => undefined;

@@ -6,7 +6,7 @@
 // Readings are split over a few lanes by device id; each lane commits one batch at a time, so
 // a device's batches commit in arrival order and two lanes never touch the same rollup rows.
 import type mysql from "mysql2/promise";
-import { writeReadings, type ReadingRow } from "../db/queries/readings-write";
+import { writeReadings, type ReadingRow, type WriteResult } from "../db/queries/readings-write";
 import type { AckToken } from "./deferred-acks";
 import type { Logger } from "./log";
 import { describeError } from "./log";
@@ -33,6 +33,8 @@ type Lane = {
   index: number;
   rows: ReadingRow[];
   acks: Array<AckToken | null>;
+  /** rows of each buffered message, parallel to acks (a message is committed whole) */
+  msgRows: number[];
   firstRowTs: number | null;
   timer: NodeJS.Timeout | null;
   running: boolean;
@@ -44,6 +46,8 @@ type Lane = {
 };
 
 const REPLAY_CHUNK = 10_000;
+/** transactions a lane may have in flight at once */
+const LANE_PIPELINE = 2;
 
 export class ReadingWriter {
   private readonly lanes: Lane[];
@@ -63,6 +67,7 @@ export class ReadingWriter {
       index,
       rows: [],
       acks: [],
+      msgRows: [],
       firstRowTs: null,
       timer: null,
       running: false,
@@ -92,10 +97,46 @@ export class ReadingWriter {
     const lane = this.lanes[deviceId % this.lanes.length];
     for (const r of rows) lane.rows.push(r);
     lane.acks.push(ack);
+    lane.msgRows.push(rows.length);
     if (lane.firstRowTs === null) lane.firstRowTs = Date.now();
     if (lane.rows.length >= this.opts.flushRows) this.kick(lane);
     else if (!lane.running && !lane.timer) lane.timer = setTimeout(() => this.onTimer(lane), this.opts.flushMs);
-    if (this.bufferedReadings >= this.opts.memoryMaxReadings || this.unackedMessages >= this.opts.maxUnacked) void this.spillBuffers();
+    // past the memory bound: spill when the database is away (or the backlog is twice the
+    // bound); while it is merely slow the worker pauses reading instead (see waitForRoom)
+    if (this.overBound(1) && (!this.hooks.counters.dbHealthy || this.overBound(2))) void this.spillBuffers();
+  }
+
+  /** Whether more than `factor` times the memory bound is held unacknowledged. */
+  overBound(factor = 1): boolean {
+    return this.bufferedReadings >= this.opts.memoryMaxReadings * factor || this.unackedMessages >= this.opts.maxUnacked * factor;
+  }
+
+  /**
+   * Resolves when there is room below the memory bound again, when the database turns out to be
+   * away (then spilling takes over), or after `maxWaitMs` (the broker drops a client that stops
+   * reading for a minute). The worker waits on this before taking the next message.
+   */
+  waitForRoom(maxWaitMs: number): Promise<void> {
+    if (!this.overBound(1) || !this.hooks.counters.dbHealthy) return Promise.resolve();
+    return new Promise((resolve) => {
+      const waiter = () => {
+        clearTimeout(timer);
+        resolve();
+      };
+      const timer = setTimeout(() => {
+        this.roomWaiters = this.roomWaiters.filter((w) => w !== waiter);
+        resolve();
+      }, maxWaitMs);
+      this.roomWaiters.push(waiter);
+    });
+  }
+
+  private roomWaiters: Array<() => void> = [];
+
+  private releaseWaiters(): void {
+    if (this.roomWaiters.length === 0) return;
+    if (this.overBound(0.5) && this.hooks.counters.dbHealthy && !this.closing) return;
+    for (const w of this.roomWaiters.splice(0)) w();
   }
 
   private onTimer(lane: Lane) {
@@ -132,36 +173,55 @@ export class ReadingWriter {
 
   private async runLane(lane: Lane): Promise<void> {
     lane.running = true;
+    type Job = { rows: ReadingRow[]; acks: Array<AckToken | null>; msgRows: number[]; firstRowTs: number | null; result: Promise<WriteResult | null> };
+    const pending: Job[] = [];
+    const start = () => {
+      // at most about two batches per transaction: a backlog is written in steady steps
+      const chunk = this.takeChunk(lane, this.opts.flushRows * 2);
+      const firstRowTs = lane.firstRowTs;
+      lane.firstRowTs = lane.rows.length > 0 ? Date.now() : null;
+      lane.inFlightRows += chunk.rows.length;
+      lane.inFlightAcks += chunk.acks.length;
+      pending.push({ ...chunk, firstRowTs, result: this.write(chunk.rows, "live") });
+    };
     try {
-      while (lane.rows.length > 0 && !this.closing) {
-        const rows = lane.rows;
-        const acks = lane.acks;
-        const firstRowTs = lane.firstRowTs;
-        lane.rows = [];
-        lane.acks = [];
-        lane.firstRowTs = null;
-        lane.inFlightRows = rows.length;
-        lane.inFlightAcks = acks.length;
+      for (;;) {
+        // the first write as soon as rows wait; a second one alongside only for a full batch, so
+        // building the next statement overlaps the database's work on the previous one
         lane.again = false;
-        const ok = await this.commit(rows, acks, "live");
-        lane.inFlightRows = 0;
-        lane.inFlightAcks = 0;
-        if (!ok) {
-          // back in front of anything that arrived meanwhile, then wait and try again
-          lane.rows = rows.concat(lane.rows);
-          lane.acks = acks.concat(lane.acks);
-          lane.firstRowTs = firstRowTs ?? lane.firstRowTs;
-          if (this.bufferedReadings >= this.opts.memoryMaxReadings || this.unackedMessages >= this.opts.maxUnacked) {
-            await this.spillBuffers();
-          }
-          if (this.closing) break;
-          lane.backoffMs = Math.min(this.opts.retryMaxMs, Math.max(100, lane.backoffMs * 2));
-          await this.sleep(lane, lane.backoffMs);
+        while (!this.closing && pending.length < LANE_PIPELINE && lane.rows.length > 0 && (pending.length === 0 || lane.rows.length >= this.opts.flushRows)) {
+          start();
+        }
+        if (pending.length === 0) break;
+        // results are taken in the order the writes started: acknowledgements and sinks see a
+        // device's readings in order
+        const job = pending.shift()!;
+        const res = await job.result;
+        lane.inFlightRows -= job.rows.length;
+        lane.inFlightAcks -= job.acks.length;
+        if (res) {
+          this.deliver(res, job.acks, "live");
+          lane.backoffMs = 0;
+          if (pending.length === 0 && lane.rows.length < this.opts.flushRows && !lane.again) break;
           continue;
         }
-        lane.backoffMs = 0;
-        // keep going at once only when a full batch is waiting (or the timer fired meanwhile)
-        if (lane.rows.length < this.opts.flushRows && !lane.again) break;
+        // failed: settle the others, keep what committed, put the rest back in front in order
+        const failed = [job];
+        for (const other of pending.splice(0)) {
+          const r = await other.result;
+          lane.inFlightRows -= other.rows.length;
+          lane.inFlightAcks -= other.acks.length;
+          if (r) this.deliver(r, other.acks, "live");
+          else failed.push(other);
+        }
+        lane.rows = failed.flatMap((f) => f.rows).concat(lane.rows);
+        lane.acks = failed.flatMap((f) => f.acks).concat(lane.acks);
+        lane.msgRows = failed.flatMap((f) => f.msgRows).concat(lane.msgRows);
+        lane.firstRowTs = failed[0].firstRowTs ?? lane.firstRowTs;
+        if (this.overBound(1)) await this.spillBuffers();
+        if (this.closing) break;
+        lane.backoffMs = Math.min(this.opts.retryMaxMs, Math.max(100, lane.backoffMs * 2));
+        await this.sleep(lane, lane.backoffMs);
       }
     } finally {
       lane.running = false;
@@ -172,8 +232,34 @@ export class ReadingWriter {
     }
   }
 
+  /** Takes whole messages from the front of the lane until about `maxRows` rows. */
+  private takeChunk(lane: Lane, maxRows: number): { rows: ReadingRow[]; acks: Array<AckToken | null>; msgRows: number[] } {
+    if (lane.rows.length <= maxRows) {
+      const taken = { rows: lane.rows, acks: lane.acks, msgRows: lane.msgRows };
+      lane.rows = [];
+      lane.acks = [];
+      lane.msgRows = [];
+      return taken;
+    }
+    let n = 0;
+    let m = 0;
+    while (m < lane.msgRows.length && n < maxRows) n += lane.msgRows[m++];
+    const taken = { rows: lane.rows.slice(0, n), acks: lane.acks.slice(0, m), msgRows: lane.msgRows.slice(0, m) };
+    lane.rows = lane.rows.slice(n);
+    lane.acks = lane.acks.slice(m);
+    lane.msgRows = lane.msgRows.slice(m);
+    return taken;
+  }
+
   /** One transaction; true when committed (and acknowledged). */
   private async commit(rows: ReadingRow[], acks: ReadonlyArray<AckToken | null>, source: "live" | "replay"): Promise<boolean> {
+    const res = await this.write(rows, source);
+    if (res) this.deliver(res, acks, source);
+    return res !== null;
+  }
+
+  /** Writes rows in one transaction; the result, or null when the database failed. */
+  private async write(rows: ReadingRow[], source: "live" | "replay"): Promise<WriteResult | null> {
     const c = this.hooks.counters;
     const t0 = performance.now();
     try {
@@ -187,13 +273,11 @@ export class ReadingWriter {
       }
       if (!c.dbHealthy) this.hooks.log.info("database is back; writing again");
       c.dbHealthy = true;
-      this.hooks.ack(acks);
-      if (res.inserted.length > 0) this.hooks.committed(res.inserted, source);
-      if (source === "live" && !this.replaying && c.spillPendingReadings > 0) void this.replay();
-      return true;
+      return res;
     } catch (err) {
       c.flushFailures++;
       c.dbHealthy = false;
+      this.releaseWaiters();
       const now = Date.now();
       if (now - this.lastFailureLog > 5000) {
         this.lastFailureLog = now;
@@ -203,8 +287,16 @@ export class ReadingWriter {
           spilled: c.spilledReadings,
         });
       }
-      return false;
+      return null;
     }
+  }
+
+  /** After a commit: acknowledge its messages, then hand the new rows on. */
+  private deliver(res: WriteResult, acks: ReadonlyArray<AckToken | null>, source: "live" | "replay"): void {
+    this.hooks.ack(acks);
+    this.releaseWaiters();
+    if (res.inserted.length > 0) this.hooks.committed(res.inserted, source);
+    if (source === "live" && !this.replaying && this.hooks.counters.spillPendingReadings > 0) void this.replay();
   }
 
   /** Moves every buffered (not in-flight) reading to a spill file, then acknowledges them. */
@@ -212,14 +304,15 @@ export class ReadingWriter {
     if (this.spilling) return;
     const rows: ReadingRow[] = [];
     const acks: Array<AckToken | null> = [];
-    const taken: Array<{ lane: Lane; rows: ReadingRow[]; acks: Array<AckToken | null>; firstRowTs: number | null }> = [];
+    const taken: Array<{ lane: Lane; rows: ReadingRow[]; acks: Array<AckToken | null>; msgRows: number[]; firstRowTs: number | null }> = [];
     for (const lane of this.lanes) {
       if (lane.rows.length === 0) continue;
-      taken.push({ lane, rows: lane.rows, acks: lane.acks, firstRowTs: lane.firstRowTs });
+      taken.push({ lane, rows: lane.rows, acks: lane.acks, msgRows: lane.msgRows, firstRowTs: lane.firstRowTs });
       for (const r of lane.rows) rows.push(r);
       for (const a of lane.acks) acks.push(a);
       lane.rows = [];
       lane.acks = [];
+      lane.msgRows = [];
       lane.firstRowTs = null;
     }
     if (rows.length === 0) return;
@@ -231,12 +324,14 @@ export class ReadingWriter {
       c.spillFiles++;
       c.spillPendingReadings += rows.length;
       this.hooks.ack(acks);
+      this.releaseWaiters();
       this.hooks.log.info("spilled readings to a file", { readings: rows.length, file });
     } catch (err) {
       this.hooks.log.error("could not spill readings to a file; keeping them in memory", { error: describeError(err) });
       for (const t of taken) {
         t.lane.rows = t.rows.concat(t.lane.rows);
         t.lane.acks = t.acks.concat(t.lane.acks);
+        t.lane.msgRows = t.msgRows.concat(t.lane.msgRows);
         t.lane.firstRowTs = t.firstRowTs ?? t.lane.firstRowTs;
       }
     } finally {
@@ -288,6 +383,7 @@ export class ReadingWriter {
    */
   async drain(timeoutMs: number): Promise<void> {
     this.closing = true;
+    for (const w of this.roomWaiters.splice(0)) w();
     const deadline = Date.now() + timeoutMs;
     if (this.replayTimer) clearTimeout(this.replayTimer);
     for (const lane of this.lanes) {
@@ -305,6 +401,7 @@ export class ReadingWriter {
       for (const a of lane.acks) acks.push(a);
       lane.rows = [];
       lane.acks = [];
+      lane.msgRows = [];
     }
     if (rows.length === 0) return;
     const remaining = Math.max(500, deadline - Date.now());

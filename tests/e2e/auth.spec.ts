@@ -65,7 +65,7 @@ test.describe("roles through the API", () => {
   test("an admin adds a person who can then sign in", async ({ page, browser }) => {
     await signIn(page, "admin");
     await page.getByRole("link", { name: "People" }).click();
-    await expect(page.getByRole("heading", { name: "People" })).toBeVisible();
+    await expect(page.getByRole("heading", { name: "People", exact: true })).toBeVisible();
     await snap(page, "people");
     const email = `new.${Date.now()}@harrowfen.example`;
     const form = page.locator("form", { has: page.getByRole("button", { name: "Add person" }) });

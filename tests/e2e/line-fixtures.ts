@@ -201,7 +201,8 @@ export class FixturePublisher {
 /**
  * Starts the plant simulator (simulators/plant.ts) against the stack's test database and broker:
  * a quick, thinned week of history first (idempotent: a second start finds it there), then live
- * readings. `exclude` leaves devices to the test's own publisher. Resolves once it publishes live.
+ * readings. `exclude` leaves devices to the test's own publisher. Resolves once live readings from
+ * at least ten devices are in the readings table.
  */
 export async function startPlantSimulator(opts: { exclude?: string[]; devices: FixtureDevice[] }): Promise<{ stop(): Promise<void>; output(): string }> {
   const root = path.resolve(import.meta.dirname, "../..");
@@ -216,11 +217,23 @@ export async function startPlantSimulator(opts: { exclude?: string[]; devices: F
   child.stdout.on("data", keep);
   child.stderr.on("data", keep);
   const exited = new Promise<void>((resolve) => child.once("exit", () => resolve()));
-  const deadline = Date.now() + 240_000;
-  while (!/backfill done|no backfill needed/.test(out)) {
-    if (child.exitCode !== null) throw new Error(`the plant simulator stopped:\n${out}`);
-    if (Date.now() > deadline) throw new Error(`the plant simulator did not finish its backfill in time:\n${out}`);
-    await new Promise((r) => setTimeout(r, 250));
+  // ready once live readings (stamped after the start, so not history) are in the table
+  const startedAt = Date.now();
+  const deadline = startedAt + 240_000;
+  const pool = testPool();
+  try {
+    for (;;) {
+      if (child.exitCode !== null) throw new Error(`the plant simulator stopped:\n${out}`);
+      if (Date.now() > deadline) throw new Error(`the plant simulator published nothing live in time:\n${out}`);
+      const [rows] = await pool.query("SELECT COUNT(DISTINCT device_id) AS n FROM readings WHERE ts > ?", [startedAt + 1000]);
+      if (Number((rows as Array<{ n: number }>)[0]?.n ?? 0) >= Math.min(10, codes.length)) break;
+      await new Promise((r) => setTimeout(r, 500));
+    }
+  } catch (err) {
+    child.kill("SIGKILL");
+    throw err;
+  } finally {
+    await pool.end();
   }
   return {
     output: () => out,

@@ -58,7 +58,7 @@ export async function startPrivateMariadb(name: string, opts: { bufferPoolMb?: n
       "character-set-server=utf8mb4",
       "collation-server=utf8mb4_unicode_ci",
       `innodb_buffer_pool_size=${opts.bufferPoolMb ?? 128}M`,
-      "innodb_log_file_size=128M",
+      "innodb_log_file_size=256M",
       "innodb_flush_log_at_trx_commit=2",
       "max_connections=200",
       `log-error=${path.join(runDir, "mariadb.log")}`,
