@@ -181,14 +181,23 @@ async function main(): Promise<void> {
     const pubA = await connect(devices[0]);
     const t0 = Date.now() - 30 * 60_000;
     const oneReading = (ts: number, v: number) => `{"ts":${ts},"values":{"charge_kv":${v}}}`;
-    const cpuA = cpuMs(stack.broker.child.pid);
+    const cpuA = { broker: cpuMs(stack.broker.child.pid), sub: cpuMs(sub.child.pid), bench: process.cpuUsage() };
     const a = await publishMany(pubA, deviceTopics.readings(devices[0].code), opts.bareMessages, (i) => oneReading(t0 + i, (i % 1000) / 100 - 5), opts.window);
+    // the subscriber's CPU is read just before it exits (it prints its result first)
+    await waitFor("the bench subscriber's result", async () => sub.output().includes('{"first"'), 300_000, 20);
+    const subCpuMs = cpuMs(sub.child.pid) - cpuA.sub;
+    const brokerCpuA = cpuMs(stack.broker.child.pid) - cpuA.broker;
+    const benchA = process.cpuUsage(cpuA.bench);
     await sub.exit(120_000);
     const subLine = sub.output().split("\n").find((l) => l.startsWith("{"));
     if (!subLine) throw new Error(`the bench subscriber did not finish:\n${sub.output()}`);
     const subOut = z.object({ first: z.number(), last: z.number(), n: z.number() }).parse(JSON.parse(subLine));
     const bareRate = subOut.n / ((subOut.last - a.startTs) / 1000);
-    log(`(a) bare broker, 1 publisher → 1 subscriber, QoS 1: ${Math.round(bareRate)} msgs/s (${subOut.n} messages; broker CPU ${(((cpuMs(stack.broker.child.pid) - cpuA) * 1000) / subOut.n).toFixed(1)} µs per message)`);
+    const perMsg = (ms: number) => ((ms * 1000) / subOut.n).toFixed(1);
+    log(
+      `(a) bare broker, 1 publisher → 1 subscriber, QoS 1: ${Math.round(bareRate)} msgs/s (${subOut.n} messages)\n` +
+        `    CPU per message: broker ${perMsg(brokerCpuA)} µs, subscriber ${perMsg(subCpuMs)} µs, publisher ${perMsg((benchA.user + benchA.system) / 1000)} µs (machine load ${fs.readFileSync("/proc/loadavg", "utf8").split(" ")[0]})`,
+    );
     pubA.end(true);
 
     // (b) end to end, one reading per message

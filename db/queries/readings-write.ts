@@ -3,11 +3,12 @@
 //
 // How duplicates are kept out of the rollups (a re-sent message, a redelivery after a worker
 // crash, a backfill run twice):
-//   1. Duplicates inside the batch are dropped first (the first value wins, as in the table).
-//   2. Fast path, one transaction: INSERT IGNORE the batch into `readings`. If the number of
-//      affected rows equals the batch size, every row was new: add the batch's aggregates to
-//      the rollups (INSERT … ON DUPLICATE KEY UPDATE count = count + …) and commit.
-//   3. Otherwise some rows already existed. Roll back, look up which keys exist (primary-key
+//   1. Fast path, one transaction: INSERT IGNORE the batch into `readings`. If the number of
+//      affected rows equals the batch size, every row was new (and none repeated within the
+//      batch): add the batch's aggregates to the rollups (INSERT … ON DUPLICATE KEY UPDATE
+//      count = count + …) and commit.
+//   2. Otherwise some rows already existed or came twice. Roll back, drop repeats within the
+//      batch (the first value wins, as in the table), look up which keys exist (primary-key
 //      lookups of exactly the batch's keys, never a range scan), and insert only the missing
 //      rows with a plain INSERT plus their aggregates. If another writer inserted one of them in
 //      the meantime the INSERT fails on the duplicate key, the transaction rolls back and the
@@ -210,23 +211,23 @@ function errno(err: unknown): number | undefined {
  */
 export async function writeReadings(pool: mysql.Pool, input: readonly ReadingRow[]): Promise<WriteResult> {
   for (const r of input) assertSafeRow(r);
-  const rows = dedupeRows(input);
-  const inBatchDuplicates = input.length - rows.length;
-  if (rows.length === 0) return { inserted: [], duplicates: inBatchDuplicates, attempts: 0 };
+  if (input.length === 0) return { inserted: [], duplicates: 0, attempts: 0 };
   const conn = await pool.getConnection();
   try {
     for (let attempt = 1; ; attempt++) {
       try {
         // fast path: everything new
         await conn.beginTransaction();
-        const affected = await insertRaw(conn, rows, true);
-        if (affected === rows.length) {
-          await addRollups(conn, rows);
+        const affected = await insertRaw(conn, input, true);
+        if (affected === input.length) {
+          await addRollups(conn, input);
           await conn.commit();
-          return { inserted: rows, duplicates: inBatchDuplicates, attempts: attempt };
+          return { inserted: input.slice(), duplicates: 0, attempts: attempt };
         }
         await conn.rollback();
         // slow path: insert only what is missing, counted by the transaction that inserts it
+        const rows = dedupeRows(input);
+        const inBatchDuplicates = input.length - rows.length;
         const existing = await findExistingKeys(conn, rows);
         const fresh = rows.filter((r) => !existing.has(rowKey(r)));
         if (fresh.length > 0) {

@@ -4,7 +4,7 @@
 // report), and a week of 1-minute and 1-hour rollups of Gravure Press 1 (the weekly review).
 // The generators are plain functions of time so the tests can recompute every expected figure
 // on their own. Relative imports: the browser tests (Playwright) load this file too.
-import { eq } from "drizzle-orm";
+import { and, eq, gte, lt } from "drizzle-orm";
 import type { Db } from "../../db/client";
 import * as s from "../../db/schema";
 import { DEMO_PEOPLE } from "../../lib/demo-plant";
@@ -129,6 +129,17 @@ export async function seedReportFixture(db: Db, nowTs: number) {
   const S = shift.startTs;
   const E = shift.endTs;
   const week = weekWindow(day, FIXTURE_TZ);
+
+  // The fixture owns its time span: anything already recorded there (for example a simulator's
+  // backfilled history in the shared browser-test database) is cleared first, so the report
+  // figures are exactly those computed from the fixture.
+  {
+    const spanFrom = Math.min(S - 5 * MIN, week.startTs, localTimeToTs(day, 0, FIXTURE_TZ)) - HOUR;
+    const spanTo = Math.max(E + 5 * MIN, week.endTs, localTimeToTs(day, 0, FIXTURE_TZ) + DAY) + HOUR;
+    await db.delete(s.readings).where(and(gte(s.readings.ts, spanFrom), lt(s.readings.ts, spanTo)));
+    await db.delete(s.rollup1m).where(and(gte(s.rollup1m.bucketTs, spanFrom), lt(s.rollup1m.bucketTs, spanTo)));
+    await db.delete(s.rollup1h).where(and(gte(s.rollup1h.bucketTs, spanFrom), lt(s.rollup1h.bucketTs, spanTo)));
+  }
 
   // --- limits: a point rule (Gravure rewind 8 kV) and a line rule (Flexo 15 kV) ------------------
   const addRule = async (name: string, scope: { pointId?: number; lineId?: number }, limitKv: number, clearKv: number) => {
