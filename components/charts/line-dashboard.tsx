@@ -11,6 +11,13 @@ import { useQueries, useQueryClient, keepPreviousData } from "@tanstack/react-qu
 import { useCallback, useMemo, useState, useSyncExternalStore } from "react";
 import clsx from "clsx";
 import type { FloorArea, FloorLine, FloorPoint } from "@/db/queries/floor";
+import { SparkMargin } from "@/components/floor/spark-margin";
+
+function worstAbsKv(values: Array<number | null>): number | null {
+  let worst: number | null = null;
+  for (const v of values) if (v !== null && (worst === null || Math.abs(v) > Math.abs(worst))) worst = v;
+  return worst;
+}
 import type { HistoryResult } from "@/db/queries/history";
 import type { PlantSettings } from "@/lib/plant-settings";
 import { LiveStore } from "@/components/live/live-store";
@@ -185,6 +192,12 @@ function LineDashboardInner({ area, line, settings, canAddNote, addNote, serverN
           <p className="mt-0.5 text-xs text-ink-faint">
             {[line.material, line.solventName ? `solvent: ${line.solventName}` : null, `nominal ${formatSpeed(line.nominalSpeedMpm)}`].filter(Boolean).join(" · ")}
           </p>
+          <SparkMargin
+            solventName={line.solventName}
+            solventMieMj={line.solventMieMj}
+            conductorCapacitancePf={line.conductorCapacitancePf}
+            worstChargeKv={worstAbsKv(lv.points.map((p) => p.value))}
+          />
         </div>
         <div className="flex flex-wrap items-center gap-3">
           <StreamIndicator status={stream.status} brokerConnected={stream.brokerConnected} />

@@ -2,6 +2,7 @@
 // The Floor: every hall and line on one screen, hall → line → point reading left to right in
 // web-path order. Normal is grey; only points near or over their limit, silent sensors and
 // shelved alerts get colour, always with their shape and word (StateBadge).
+import { SparkMargin } from "./spark-margin";
 import Link from "next/link";
 import clsx from "clsx";
 import type { FloorSnapshot } from "@/db/queries/floor";
@@ -159,6 +160,15 @@ function LineCard({ line, now, timeZone }: { line: LineView; now: number; timeZo
           ))}
         </ol>
       )}
+      {l.solventName ? (
+        <SparkMargin
+          className="border-t border-paper-line px-4 py-1.5"
+          solventName={l.solventName}
+          solventMieMj={l.solventMieMj}
+          conductorCapacitancePf={l.conductorCapacitancePf}
+          worstChargeKv={line.points.reduce<number | null>((w, p) => (p.value !== null && (w === null || Math.abs(p.value) > Math.abs(w)) ? p.value : w), null)}
+        />
+      ) : null}
     </article>
   );
 }

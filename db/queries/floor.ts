@@ -36,6 +36,8 @@ export type FloorLine = {
   nominalSpeedMpm: number;
   material: string | null;
   solventName: string | null;
+  solventMieMj: number | null;
+  conductorCapacitancePf: number | null;
   speedGateway: { deviceId: number; lastSeenTs: number | null } | null;
   openAlerts: number;
   points: FloorPoint[];
@@ -106,6 +108,8 @@ export async function getFloorStructure(db: Db, opts: { nowMs?: number; areaId?:
       nominalSpeedMpm: l.nominalSpeedMpm,
       material: l.material,
       solventName: l.solventName,
+      solventMieMj: l.solventMieMj,
+      conductorCapacitancePf: l.conductorCapacitancePf,
       speedGateway: l.speedGateway ? { deviceId: l.speedGateway.id, lastSeenTs: seen.get(l.speedGateway.id) ?? null } : null,
       openAlerts: open.filter((x) => x.lineId === l.id).length,
       points: l.points.map((p) => ({

@@ -38,6 +38,9 @@ test("a viewer sees every demo line with values that change while the simulator 
     await expect(card).toBeVisible();
     await expect(card.getByTestId("floor-point")).toHaveCount(l.points.length);
     await expect(card.getByTestId("floor-point").first()).toContainText(l.points[0].name);
+    // solvent lines show the spark-energy margin at their worst charge; the others do not
+    if (l.solventName) await expect(card.getByTestId("spark-margin")).toContainText(`${l.solventName} MIE ${l.solventMieMj} mJ`);
+    else await expect(card.getByTestId("spark-margin")).toHaveCount(0);
   }
   await expect(page.getByTestId("stream-status")).toHaveAttribute("data-status", "live", { timeout: 20_000 });
 
