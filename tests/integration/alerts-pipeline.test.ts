@@ -163,7 +163,9 @@ describe("live alerts from the simulator and the devices", () => {
         { ...stack.env, DATA_DIR: path.join(ROOT, ".data") },
       );
       procs.push(sim);
-      expect(await sim.exit(120_000)).toBe(0);
+      // the hall climate model is integrated step by step, so on a busy 2-core machine the 4.5 h
+      // played at 3000× can take a few minutes of CPU; allow for it
+      expect(await sim.exit(300_000)).toBe(0);
       const area = (await deviceRow(PRESS_LOGGER)).areaId!;
       const [forecast, low] = await waitFor(
         "the humidity alerts",
@@ -185,7 +187,7 @@ describe("live alerts from the simulator and the devices", () => {
       expect(low.severity).toBe("medium");
       expect(low.peakValue!).toBeLessThan(30);
     },
-    200_000,
+    420_000,
   );
 
   it(
