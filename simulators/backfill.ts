@@ -30,7 +30,7 @@ import {
   writeRollups,
   type ReadingRow,
 } from "../db/queries/readings-write";
-import type { Channel } from "../lib/contract/readings-payload";
+import { CHANNELS } from "../lib/contract/readings-payload";
 import { PlantModel, SAMPLE_PERIOD_MS, type SimDevice } from "./plant-model";
 
 const RAW_CHUNK_MS = 10 * MINUTE_MS;
@@ -65,7 +65,10 @@ export function generateRows(model: PlantModel, devices: readonly SimDevice[], i
     for (let t = Math.ceil(fromMs / period) * period; t < toMs; t += period) {
       const values = model.valuesAt(d, t);
       if (!values) continue;
-      for (const [channel, value] of Object.entries(values) as Array<[Channel, number]>) rows.push({ deviceId: id, channel, ts: t, value });
+      for (const channel of CHANNELS) {
+        const value = values[channel];
+        if (value !== undefined) rows.push({ deviceId: id, channel, ts: t, value });
+      }
     }
   }
   return rows;

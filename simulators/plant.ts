@@ -151,11 +151,20 @@ async function runLive(opts: PlantOptions, model: PlantModel, simDevices: SimDev
             will: { topic: deviceTopics.status(device.code), payload: Buffer.from('{"online":false}'), qos: 1, retain: false },
           });
           const link: Link = { device, client, nextTs: startMs, inFlight: 0 };
+          let lastError = "";
           client.on("connect", () => {
+            lastError = "";
+            client.options.reconnectPeriod = 2000;
             client.publish(deviceTopics.status(device.code), '{"online":true}', { qos: 1 });
             resolve();
           });
-          client.on("error", (err) => log(`${device.code}: ${err.message}`));
+          client.on("error", (err) => {
+            // a device disabled by an admin is refused until enabled again: say so once, retry slowly
+            if (err.message !== lastError) log(`${device.code}: ${err.message}`);
+            lastError = err.message;
+            if (/not authorized|bad user/i.test(err.message)) client.options.reconnectPeriod = 30_000;
+            resolve();
+          });
           links.push(link);
         }),
     ),

@@ -37,6 +37,7 @@ export const HOUR_MS = 3_600_000;
 const STATEMENT_ROWS = 5000;
 const CHANNEL_SET = new Set<string>(CHANNELS);
 const RETRYABLE = new Set([1213 /* deadlock */, 1205 /* lock wait timeout */]);
+const MAX_ATTEMPTS = 16;
 
 function assertSafeRow(r: ReadingRow): void {
   if (
@@ -216,15 +217,18 @@ export async function writeReadings(pool: mysql.Pool, input: readonly ReadingRow
   try {
     for (let attempt = 1; ; attempt++) {
       try {
-        // fast path: everything new
-        await conn.beginTransaction();
-        const affected = await insertRaw(conn, input, true);
-        if (affected === input.length) {
-          await addRollups(conn, input);
-          await conn.commit();
-          return { inserted: input.slice(), duplicates: 0, attempts: attempt };
+        // fast path: everything new (first attempt only; after a collision with another
+        // writer, go straight to the look-up so the batches stop overlapping)
+        if (attempt === 1) {
+          await conn.beginTransaction();
+          const affected = await insertRaw(conn, input, true);
+          if (affected === input.length) {
+            await addRollups(conn, input);
+            await conn.commit();
+            return { inserted: input.slice(), duplicates: 0, attempts: attempt };
+          }
+          await conn.rollback();
         }
-        await conn.rollback();
         // slow path: insert only what is missing, counted by the transaction that inserts it
         const rows = dedupeRows(input);
         const inBatchDuplicates = input.length - rows.length;
@@ -241,7 +245,9 @@ export async function writeReadings(pool: mysql.Pool, input: readonly ReadingRow
         await conn.rollback().catch(() => undefined);
         const code = errno(err);
         const retry = code === 1062 /* duplicate key: a concurrent writer got there first */ || (code !== undefined && RETRYABLE.has(code));
-        if (!retry || attempt >= 8) throw err;
+        if (!retry || attempt >= MAX_ATTEMPTS) throw err;
+        // writers racing over the same keys: step back a growing random moment
+        await new Promise((r) => setTimeout(r, 5 + Math.random() * 10 * 2 ** Math.min(attempt, 6)));
       }
     }
   } finally {

@@ -115,7 +115,7 @@ function valueAt(root: unknown, path: readonly PropertyKey[]): unknown {
   let cur: unknown = root;
   for (const key of path) {
     if (cur === null || typeof cur !== "object") return undefined;
-    cur = (cur as Record<PropertyKey, unknown>)[key];
+    cur = Reflect.get(cur, key);
   }
   return cur;
 }
