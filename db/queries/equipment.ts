@@ -5,11 +5,10 @@
 import { and, asc, desc, eq, gte, inArray, lt, sql } from "drizzle-orm";
 import { TZDate } from "@date-fns/tz";
 import type { Db } from "../client";
-import { areas, devices, equipmentEvents, lines, neutralizers, people, points, rollup1m, settings, uploads } from "../schema";
+import { areas, devices, equipmentEvents, lines, neutralizers, people, points, rollup1m, uploads } from "../schema";
 import { DEVICE_KINDS, NEUTRALIZER_KINDS, NEUTRALIZER_STATES } from "../schema/plant";
 import { EQUIPMENT_EVENT_KINDS } from "../schema/records";
 import { effectFraction } from "../../lib/physics/neutralizer";
-import { DEFAULT_PLANT_SETTINGS, plantSettingsSchema } from "../../lib/plant-settings";
 import { getIngestStatus, listRecentRejections } from "./ingest-diagnostics";
 import { getCheckLimits, lastCheckTimes, listChecks, projectDecay, type CheckRow, type DecayProjection, type KindLimits } from "./checks";
 
@@ -500,13 +499,8 @@ export async function computeNeutralizerEffects(db: Db, neutralizerIds: number[]
   return out;
 }
 
-/** Plant settings (time zone, shifts) with defaults. */
-export async function getPlantSettings(db: Db): Promise<{ timeZone: string; shifts: { name: string; start: string }[] }> {
-  const rows = await db.select({ value: settings.value }).from(settings).where(eq(settings.key, "plant")).limit(1);
-  const parsed = rows[0] ? plantSettingsSchema.safeParse(rows[0].value) : null;
-  if (parsed?.success) return { timeZone: parsed.data.timeZone, shifts: parsed.data.shifts };
-  return { timeZone: DEFAULT_PLANT_SETTINGS.timeZone, shifts: DEFAULT_PLANT_SETTINGS.shifts };
-}
+import { getPlantSettings } from "./plant-settings";
+export { getPlantSettings };
 
 /**
  * The last complete shift before `nowMs`: shift starts are local plant times ("06:00"); a shift

@@ -3,19 +3,14 @@
 // and the alerts drawn on a line's time axis.
 import { and, desc, eq, gte, isNull, lte, ne, or } from "drizzle-orm";
 import type { Db } from "../client";
-import { alerts, devices, settings } from "../schema";
-import { DEFAULT_PLANT_SETTINGS, plantSettingsSchema, type PlantSettings } from "../../lib/plant-settings";
+import { alerts, devices } from "../schema";
+import type { PlantSettings } from "../../lib/plant-settings";
 import { getPlantLayout, type PlantArea } from "./plant";
 import { getRecentTrends, type RecentSeries } from "./history";
 import { listLimitRules, resolveChargeLimit, resolveRhLimit, type ChargeLimit, type RhLimit } from "./limits";
 
-/** The "plant" settings row, with defaults for anything missing or unreadable. */
-export async function getPlantSettings(db: Db): Promise<PlantSettings> {
-  const rows = await db.select({ value: settings.value }).from(settings).where(eq(settings.key, "plant")).limit(1);
-  const parsed = plantSettingsSchema.safeParse(rows[0]?.value ?? {});
-  if (parsed.success) return parsed.data;
-  return { name: "Plant", ...DEFAULT_PLANT_SETTINGS };
-}
+import { getPlantSettings } from "./plant-settings";
+export { getPlantSettings };
 
 export type FloorPoint = {
   id: number;

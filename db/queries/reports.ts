@@ -17,11 +17,9 @@ import {
   rollup1m,
   ruleVersions,
   rules,
-  settings,
   readings,
 } from "../schema";
 import { getPlantLayout, type PlantArea } from "./plant";
-import { DEFAULT_PLANT_SETTINGS, plantSettingsSchema, type PlantSettings } from "../../lib/plant-settings";
 import { dateRangeWindow, localTimeToTs, shiftWindowFor, weekWindow, type ShiftWindow } from "../../lib/report-shifts";
 import { buildCompliance, type ComplianceCheckInput, type ComplianceReport } from "../../lib/reports/compliance";
 import { buildHandover, RAW_HOLD_MS, type HandoverAlertInput, type HandoverReport } from "../../lib/reports/handover";
@@ -30,13 +28,8 @@ import { bucketExtreme, type Sample } from "../../lib/reports/series";
 import { buildPlaceIndex } from "../../lib/reports/types";
 import { buildWeekly, MINUTE_HOLD_MS, type HourlyMean, type WeeklyReport } from "../../lib/reports/weekly";
 
-/** The plant settings (settings key "plant"), with defaults for anything missing or invalid. */
-export async function getPlantSettings(db: Db): Promise<PlantSettings> {
-  const rows = await db.select({ value: settings.value }).from(settings).where(eq(settings.key, "plant")).limit(1);
-  const parsed = plantSettingsSchema.safeParse(rows[0]?.value ?? {});
-  if (parsed.success) return parsed.data;
-  return { name: "Plant", ...DEFAULT_PLANT_SETTINGS };
-}
+import { getPlantSettings } from "./plant-settings";
+export { getPlantSettings };
 
 /** Each hall's outdoor-air flow and humidifier capacity (for the humidity planner's presets). */
 export async function listHallAirSupply(db: Db): Promise<{ id: number; airflowM3PerH: number; humidifierKgPerH: number }[]> {

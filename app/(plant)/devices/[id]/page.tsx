@@ -1,5 +1,6 @@
 // One device: where it is, whether it reports, what was rejected, its calibration; engineers
 // edit its placement and distances, admins issue a new secret or disable it.
+import { SettingsWarnings } from "@/components/equipment/settings-warnings";
 import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
@@ -56,18 +57,7 @@ export default async function DevicePage({ params }: { params: Promise<{ id: str
         subtitle={`${DEVICE_KIND_LABELS[d.kind]} · ${d.label} · ${d.placeLabel}`}
         actions={!d.enabled ? <StateBadge state="shelved" label="Disabled" /> : silent ? <StateBadge state="silent" label="Silent" /> : <StateBadge state="normal" label="Reporting" />}
       />
-      {warnings.length ? (
-        <div className="mb-5 rounded-card border border-near/40 bg-near-soft/60 px-4 py-2.5 text-sm" data-testid="equipment-warnings">
-          <p className="font-semibold text-near">Settings to look at</p>
-          <ul className="mt-1 list-disc pl-5">
-            {warnings.map((w) => (
-              <li key={w.code}>
-                {w.message} <span className="text-ink-faint">({w.source})</span>
-              </li>
-            ))}
-          </ul>
-        </div>
-      ) : null}
+      <SettingsWarnings warnings={warnings} />
       <div className="grid gap-5 xl:grid-cols-[minmax(0,1fr)_25rem]">
         <div className="space-y-5">
           <Card title="Reporting">

@@ -1,6 +1,7 @@
 // One neutralizer: its record, effect (charge before vs after it), decay-time trend across checks
 // with the projected cleaning date, checks with their attachments, history, uploads; engineers
 // record a cleaning, edit it, add notes and files here.
+import { SettingsWarnings } from "@/components/equipment/settings-warnings";
 import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
@@ -74,18 +75,7 @@ export default async function NeutralizerPage({ params }: { params: Promise<{ id
         <HighVoltageCaution />
       </div>
 
-      {warnings.length ? (
-        <div className="mb-5 rounded-card border border-near/40 bg-near-soft/60 px-4 py-2.5 text-sm" data-testid="equipment-warnings">
-          <p className="font-semibold text-near">Settings to look at</p>
-          <ul className="mt-1 list-disc pl-5 text-ink">
-            {warnings.map((w) => (
-              <li key={w.code}>
-                {w.message} <span className="text-ink-faint">({w.source})</span>
-              </li>
-            ))}
-          </ul>
-        </div>
-      ) : null}
+      <SettingsWarnings warnings={warnings} />
 
       <div className="grid gap-5 xl:grid-cols-[minmax(0,1fr)_25rem]">
         <div className="space-y-5">
