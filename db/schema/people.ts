@@ -15,13 +15,18 @@ export const people = mysqlTable(
     // people who asked for the daily alert digest / the weekly due list
     wantsDailyDigest: boolean("wants_daily_digest").notNull().default(false),
     onMaintenanceList: boolean("on_maintenance_list").notNull().default(false),
+    // bumped on password reset, role change and deactivation: sessions signed with an older
+    // version are refused (app/_server/auth.ts), so those changes end every open session
+    sessionVersion: int("session_version").notNull().default(0),
     createdAt: bigint("created_at", { mode: "number" }).notNull(),
     updatedAt: bigint("updated_at", { mode: "number" }).notNull(),
   },
 );
 
-// Failed sign-ins counted per key ("account:<email>" or "address:<ip>") in a sliding window,
-// kept in the database so several app instances share the count.
+// Failed sign-ins counted per key ("account:<email>", "pair:<email>|<ip>" or "address:<ip>") in a
+// window, kept in the database so several app instances share the count. `blocked_until` is the
+// earliest time the key may try again (a delay that grows with the failures, db/queries/sign-in-throttle.ts);
+// rows whose window and delay have passed are pruned.
 export const signInFailures = mysqlTable(
   "sign_in_failures",
   {
