@@ -3,3 +3,4 @@ export * from "./plant";
 export * from "./readings";
 export * from "./alerts";
 export * from "./records";
+export * from "./surveys";
