@@ -3,14 +3,14 @@
 // where, since when, the peak, and links to the line page at the alert's time; the state code is
 // the same shape-and-word set the screens use (STATE_SYMBOLS / STATE_WORDS).
 import { formatPlantTime } from "../lib/shifts";
-import { ALERT_STATE_LABELS, RULE_KIND_LABELS, SEVERITY_LABELS, alertStateCode, stateCodeText, type AlertStateName, type RuleKindName, type SeverityName } from "../components/alerts/labels";
-import { formatAlertValue, formatDurationMs } from "../components/alerts/format";
+import { ALERT_STATE_WORDS, RULE_KIND_WORDS, SEVERITY_WORDS, alertStateCode, stateCodeText, type AlertState, type RuleKind, type Severity } from "../lib/vocabulary";
+import { formatAlertValue, formatDuration } from "../lib/vocabulary";
 
 export type AlertMailInput = {
   alertId: number;
-  kind: RuleKindName;
-  severity: SeverityName;
-  state: AlertStateName;
+  kind: RuleKind;
+  severity: Severity;
+  state: AlertState;
   message: string;
   startTs: number;
   peakValue: number | null;
@@ -52,14 +52,14 @@ export function composeAlertEmail(
   const code = alertStateCode({ kind: a.kind, state: a.state, shelved: false });
   const codeText = stateCodeText(code);
   const where = whereText(a);
-  const what = RULE_KIND_LABELS[a.kind];
+  const what = RULE_KIND_WORDS[a.kind];
   const since = formatPlantTime(a.startTs, opts.timeZone, "EEE d MMM yyyy, HH:mm");
   const peak = formatAlertValue(a.kind, a.peakValue);
   const link = a.linkLineId !== null ? lineLinkAt(opts.appUrl, a.linkLineId, a.startTs) : `${opts.appUrl.replace(/\/$/, "")}/alerts`;
   const alertsLink = `${opts.appUrl.replace(/\/$/, "")}/alerts`;
   const escalation = opts.level > 1;
-  const subject = `${escalation ? "[Escalated] " : ""}${codeText}: ${what} — ${where} (${SEVERITY_LABELS[a.severity].toLowerCase()})`;
-  const waited = formatDurationMs(opts.unackedForMs);
+  const subject = `${escalation ? "[Escalated] " : ""}${codeText}: ${what} — ${where} (${SEVERITY_WORDS[a.severity].toLowerCase()})`;
+  const waited = formatDuration(opts.unackedForMs);
   const lines = [
     `Hello ${opts.recipientName},`,
     "",
@@ -67,13 +67,13 @@ export function composeAlertEmail(
       ? `This alert has not been acknowledged for ${waited}; you are next on the on-call list (order ${opts.level}).`
       : `This alert has not been acknowledged for ${waited} and you are on call.`,
     "",
-    `State:   ${codeText} — ${ALERT_STATE_LABELS[a.state]}`,
+    `State:   ${codeText} — ${ALERT_STATE_WORDS[a.state]}`,
     `What:    ${what}: ${a.message}`,
     `Where:   ${where}`,
     `Since:   ${since} (plant time)`,
     `Peak:    ${peak}`,
     ...(a.kind === "rh_forecast" && a.expectedCrossingTs !== null ? [`Expected to cross the limit at: ${formatPlantTime(a.expectedCrossingTs, opts.timeZone, "HH:mm")}`] : []),
-    `Severity: ${SEVERITY_LABELS[a.severity]}`,
+    `Severity: ${SEVERITY_WORDS[a.severity]}`,
     "",
     `Open the chart at that time: ${link}`,
     `Acknowledge it in Stillfield: ${alertsLink}`,
@@ -88,13 +88,13 @@ export function composeAlertEmail(
     `<p>Hello ${escapeHtml(opts.recipientName)},</p>`,
     `<p>${escapeHtml(lines[2])}</p>`,
     `<table style="border-collapse:collapse;font-size:14px">`,
-    row("State", `<b>${escapeHtml(codeText)}</b> — ${escapeHtml(ALERT_STATE_LABELS[a.state])}`),
+    row("State", `<b>${escapeHtml(codeText)}</b> — ${escapeHtml(ALERT_STATE_WORDS[a.state])}`),
     row("What", `<b>${escapeHtml(what)}</b>: ${escapeHtml(a.message)}`),
     row("Where", escapeHtml(where)),
     row("Since", `${escapeHtml(since)} (plant time)`),
     row("Peak", escapeHtml(peak)),
     ...(a.kind === "rh_forecast" && a.expectedCrossingTs !== null ? [row("Expected to cross", escapeHtml(formatPlantTime(a.expectedCrossingTs, opts.timeZone, "HH:mm")))] : []),
-    row("Severity", escapeHtml(SEVERITY_LABELS[a.severity])),
+    row("Severity", escapeHtml(SEVERITY_WORDS[a.severity])),
     `</table>`,
     `<p><a href="${escapeHtml(link)}">Open the chart at that time</a> · <a href="${escapeHtml(alertsLink)}">Acknowledge in Stillfield</a></p>`,
     `<p style="font-size:12px;color:#555">${escapeHtml(SAFETY)}</p>`,
@@ -113,9 +113,9 @@ export function composeDigestEmail(
 ): MailText {
   const n = alerts.length;
   const subject = n === 0 ? `Stillfield daily digest, ${opts.dayLabel}: no alerts` : `Stillfield daily digest, ${opts.dayLabel}: ${n} alert${n === 1 ? "" : "s"}`;
-  const byKind = new Map<RuleKindName, number>();
+  const byKind = new Map<RuleKind, number>();
   for (const a of alerts) byKind.set(a.kind, (byKind.get(a.kind) ?? 0) + 1);
-  const summary = [...byKind.entries()].sort((x, y) => y[1] - x[1]).map(([k, c]) => `${RULE_KIND_LABELS[k]}: ${c}`);
+  const summary = [...byKind.entries()].sort((x, y) => y[1] - x[1]).map(([k, c]) => `${RULE_KIND_WORDS[k]}: ${c}`);
   const base = opts.appUrl.replace(/\/$/, "");
   const text: string[] = [`Hello ${opts.recipientName},`, "", n === 0 ? `No alerts were raised on ${opts.dayLabel}.` : `${n} alert${n === 1 ? " was" : "s were"} raised on ${opts.dayLabel} (plant time).`, ""];
   if (summary.length) text.push(...summary, "");
@@ -123,11 +123,11 @@ export function composeDigestEmail(
   for (const a of alerts) {
     const code = stateCodeText(alertStateCode({ kind: a.kind, state: a.state, shelved: a.shelved }));
     const t = formatPlantTime(a.startTs, opts.timeZone, "HH:mm");
-    const dur = a.endTs !== null ? formatDurationMs(a.endTs - a.startTs) : "still active";
+    const dur = a.endTs !== null ? formatDuration(a.endTs - a.startTs) : "still active";
     const link = a.linkLineId !== null ? lineLinkAt(base, a.linkLineId, a.startTs) : `${base}/alerts`;
-    text.push(`${t}  ${code}  ${SEVERITY_LABELS[a.severity]}  ${RULE_KIND_LABELS[a.kind]} — ${whereText(a)}; peak ${formatAlertValue(a.kind, a.peakValue)}; ${dur}${a.chattering ? "; chattering" : ""}`, `      ${link}`);
+    text.push(`${t}  ${code}  ${SEVERITY_WORDS[a.severity]}  ${RULE_KIND_WORDS[a.kind]} — ${whereText(a)}; peak ${formatAlertValue(a.kind, a.peakValue)}; ${dur}${a.chattering ? "; chattering" : ""}`, `      ${link}`);
     rows.push(
-      `<tr><td style="padding:2px 8px 2px 0">${t}</td><td style="padding:2px 8px">${escapeHtml(code)}</td><td style="padding:2px 8px">${escapeHtml(SEVERITY_LABELS[a.severity])}</td><td style="padding:2px 8px"><a href="${escapeHtml(link)}">${escapeHtml(RULE_KIND_LABELS[a.kind])}</a><br><span style="color:#666">${escapeHtml(whereText(a))}</span></td><td style="padding:2px 8px">${escapeHtml(formatAlertValue(a.kind, a.peakValue))}</td><td style="padding:2px 8px">${escapeHtml(dur)}${a.chattering ? " · chattering" : ""}</td></tr>`,
+      `<tr><td style="padding:2px 8px 2px 0">${t}</td><td style="padding:2px 8px">${escapeHtml(code)}</td><td style="padding:2px 8px">${escapeHtml(SEVERITY_WORDS[a.severity])}</td><td style="padding:2px 8px"><a href="${escapeHtml(link)}">${escapeHtml(RULE_KIND_WORDS[a.kind])}</a><br><span style="color:#666">${escapeHtml(whereText(a))}</span></td><td style="padding:2px 8px">${escapeHtml(formatAlertValue(a.kind, a.peakValue))}</td><td style="padding:2px 8px">${escapeHtml(dur)}${a.chattering ? " · chattering" : ""}</td></tr>`,
     );
   }
   text.push("", `All alerts: ${base}/alerts · Alert load: ${base}/alert-load`, "", "You get this digest because you asked for it in Stillfield.");

@@ -12,10 +12,10 @@ import { listNotifyCandidates, type NotifyCandidate } from "../db/queries/alerts
 import { getAlertingSettings, listOnCallAt, type AlertingSettings, type RosterShift } from "../db/queries/oncall";
 import { enqueueMail } from "../db/queries/outbox";
 import type { AlertSubject } from "../db/queries/topology";
-import { SEVERITY_RANK, type SeverityName } from "../components/alerts/labels";
+import { SEVERITY_RANK, type Severity } from "../lib/vocabulary";
 import { composeAlertEmail } from "./alerts-email";
 
-export function severitiesAtOrAbove(min: SeverityName): SeverityName[] {
+export function severitiesAtOrAbove(min: Severity): Severity[] {
   return (["low", "medium", "high"] as const).filter((s) => SEVERITY_RANK[s] >= SEVERITY_RANK[min]);
 }
 

@@ -24,24 +24,20 @@ import { loadPlantTopology, readTopologySignature, type PlantTopology } from "..
 import { getPlantSettings } from "../db/queries/equipment";
 import { internalTopics } from "../lib/contract/topics";
 import { CHANNELS, createRuleEngine, RuleEngineStateError, type AlertTransition, type Channel, type RuleDefinition, type RuleEngine } from "../lib/rules";
-import type { AlertStateName, SeverityName } from "../components/alerts/labels";
+import type { AlertState, Severity } from "../lib/vocabulary";
 import { runEscalation } from "./alerts-escalation";
+import { getSettings } from "../lib/settings";
 import { describeError } from "./log";
 import type { CommittedReading, ReadingSink, SinkContext } from "./sinks";
 
 export const ENGINE_STATE_KEY = "alerts.engine_state";
-
-const num = (v: string | undefined, d: number) => {
-  const n = Number(v);
-  return v !== undefined && v !== "" && Number.isFinite(n) && n >= 0 ? n : d;
-};
 
 const CHANNEL_SET: ReadonlySet<string> = new Set(CHANNELS);
 function isChannel(c: string): c is Channel {
   return CHANNEL_SET.has(c);
 }
 
-type Published = { alertId: number; lineId: number | null; areaId: number | null; state: AlertStateName; severity: SeverityName; ts: number };
+type Published = { alertId: number; lineId: number | null; areaId: number | null; state: AlertState; severity: Severity; ts: number };
 
 function alertKey(ruleId: number, subjectKey: string, raisedTs: number): string {
   return `${ruleId}|${subjectKey}|${raisedTs}`;
@@ -55,7 +51,7 @@ type Core = Required<Pick<ReadingSink, "onCommitted" | "onTick" | "close">>;
  */
 export async function createAlertsRunner(ctx: SinkContext): Promise<ReadingSink> {
   const { log } = ctx;
-  if (process.env.ALERTS_RUNNER === "off") {
+  if (getSettings().ALERTS_RUNNER === "off") {
     log.info("alerts runner switched off (ALERTS_RUNNER=off)");
     return { name: "alerts", onCommitted: async () => undefined };
   }
@@ -84,9 +80,7 @@ export async function createAlertsRunner(ctx: SinkContext): Promise<ReadingSink>
 
 async function startCore(ctx: SinkContext): Promise<Core> {
   const { db, log, env } = ctx;
-  const RULES_POLL_MS = num(process.env.ALERTS_RULES_POLL_MS, 3000);
-  const ESCALATE_EVERY_MS = num(process.env.ALERTS_ESCALATE_EVERY_MS, 5000);
-  const SNAPSHOT_EVERY_MS = num(process.env.ALERTS_SNAPSHOT_EVERY_MS, 30_000);
+  const { ALERTS_RULES_POLL_MS: RULES_POLL_MS, ALERTS_ESCALATE_EVERY_MS: ESCALATE_EVERY_MS, ALERTS_SNAPSHOT_EVERY_MS: SNAPSHOT_EVERY_MS } = getSettings();
   const MAX_PENDING_TRANSITIONS = 20_000;
 
   let topo: PlantTopology = await loadPlantTopology(db);

@@ -8,12 +8,10 @@
 //   high limit L (charge magnitude): |v| ≥ 0.8·L            (12 kV limit → near from 9.6 kV)
 //   low limit L (relative humidity):  L / v ≥ 0.8, i.e. v ≤ L / 0.8   (30 % limit → near below 37.5 %)
 // and over when it passes the limit itself (|v| > L, v < L). This is a display state only; the
-// alerts (with on-delays and deadbands, lib/rules) decide what is raised.
+// alerts (with on-delays and deadbands, lib/rules) decide what is raised. The state codes
+// themselves (words, symbols, rank, worstState) are in lib/vocabulary/point-states.ts.
 
-export type PointState = "normal" | "near" | "over" | "silent" | "shelved";
-
-/** Worst first: what a summary of several points shows. */
-export const STATE_RANK: Record<PointState, number> = { over: 4, near: 3, silent: 2, shelved: 1, normal: 0 };
+import type { PointState } from "./vocabulary";
 
 export const NEAR_FRACTION = 0.8;
 
@@ -54,11 +52,4 @@ export function pointState(input: PointStateInput): PointState {
   const silentAfter = input.silentAfterMs ?? DEFAULT_SILENT_AFTER_MS;
   if (input.value === null || input.lastTs === null || input.nowMs - input.lastTs > silentAfter) return "silent";
   return valueState(input.value, input.limit, input.nearFraction);
-}
-
-/** The worst of several states (normal for none). */
-export function worstState(states: readonly PointState[]): PointState {
-  let worst: PointState = "normal";
-  for (const s of states) if (STATE_RANK[s] > STATE_RANK[worst]) worst = s;
-  return worst;
 }

@@ -2,9 +2,9 @@
 // alert's state code (the one shape-and-word set from components/ui/state-badge).
 import clsx from "clsx";
 import { StateBadge } from "@/components/ui/state-badge";
-import { SEVERITY_LABELS, SEVERITY_RANK, alertStateCode, type AlertStateName, type RuleKindName, type SeverityName } from "./labels";
+import { SEVERITY_WORDS, SEVERITY_RANK, alertStateCode, type AlertState, type RuleKind, type Severity } from "@/lib/vocabulary";
 
-export function SeverityTag({ severity, className }: { severity: SeverityName; className?: string }) {
+export function SeverityTag({ severity, className }: { severity: Severity; className?: string }) {
   const rank = SEVERITY_RANK[severity];
   return (
     <span
@@ -20,11 +20,11 @@ export function SeverityTag({ severity, className }: { severity: SeverityName; c
           <span key={i} className={clsx("w-[3px] rounded-[1px]", i <= rank ? "bg-current" : "bg-paper-line")} style={{ height: `${4 + i * 3}px` }} />
         ))}
       </span>
-      {SEVERITY_LABELS[severity]}
+      {SEVERITY_WORDS[severity]}
     </span>
   );
 }
 
-export function AlertCode({ kind, state, shelved }: { kind: RuleKindName; state: AlertStateName; shelved: boolean }) {
+export function AlertCode({ kind, state, shelved }: { kind: RuleKind; state: AlertState; shelved: boolean }) {
   return <StateBadge state={alertStateCode({ kind, state, shelved })} />;
 }

@@ -13,8 +13,8 @@ import { EmptyState } from "@/components/ui/page";
 import { formatPlantTime } from "@/lib/shifts";
 import type { AlertListItem } from "@/db/queries/alerts";
 import { AlertCode, SeverityTag } from "./alert-bits";
-import { formatAlertValue, formatDurationMs } from "./format";
-import { ALERT_STATE_LABELS, ALERT_STATE_SHORT, RULE_KIND_LABELS, type AlertStateName } from "./labels";
+import { formatAlertValue, formatDuration } from "@/lib/vocabulary";
+import { ALERT_STATE_WORDS, ALERT_STATE_SHORT, RULE_KIND_WORDS, type AlertState } from "@/lib/vocabulary";
 import { isStateChoice, type AlertFilterState } from "./filters";
 import { useAlertDetail, useAlerts, type AlertsResponse } from "./use-alerts";
 
@@ -24,10 +24,10 @@ export type FilterArea = { id: number; name: string; lines: Array<{ id: number; 
 
 const STATE_CHOICES: Array<{ value: AlertFilterState["state"]; label: string }> = [
   { value: "open", label: "Open (not closed)" },
-  { value: "active_unacked", label: ALERT_STATE_LABELS.active_unacked },
-  { value: "active_acked", label: ALERT_STATE_LABELS.active_acked },
-  { value: "cleared_unacked", label: ALERT_STATE_LABELS.cleared_unacked },
-  { value: "closed", label: ALERT_STATE_LABELS.closed },
+  { value: "active_unacked", label: ALERT_STATE_WORDS.active_unacked },
+  { value: "active_acked", label: ALERT_STATE_WORDS.active_acked },
+  { value: "cleared_unacked", label: ALERT_STATE_WORDS.cleared_unacked },
+  { value: "closed", label: ALERT_STATE_WORDS.closed },
   { value: "all", label: "All states" },
 ];
 
@@ -253,7 +253,7 @@ function AlertRow({
       </td>
       <td className="max-w-[26rem] px-2 py-2">
         <div className={clsx("font-medium", closed ? "text-ink-soft" : "text-ink")}>
-          {RULE_KIND_LABELS[a.kind]}
+          {RULE_KIND_WORDS[a.kind]}
           {a.chattering ? <span className="ml-1.5 rounded bg-paper-sunk px-1 py-0.5 text-[11px] font-normal text-ink-soft">chattering</span> : null}
         </div>
         <div className="text-xs text-ink-soft">{a.message}</div>
@@ -270,7 +270,7 @@ function AlertRow({
       </td>
       <td className="num whitespace-nowrap px-2 py-2">
         <div>{formatPlantTime(a.startTs, timeZone, "d MMM HH:mm")}</div>
-        <div className="text-xs text-ink-faint">{endTs !== null ? `lasted ${formatDurationMs(endTs - a.startTs)}` : `for ${formatDurationMs(now - a.startTs)}`}</div>
+        <div className="text-xs text-ink-faint">{endTs !== null ? `lasted ${formatDuration(endTs - a.startTs)}` : `for ${formatDuration(now - a.startTs)}`}</div>
       </td>
       <td className="num whitespace-nowrap px-2 py-2">{formatAlertValue(a.kind, a.peakValue)}</td>
       <td className="px-2 py-2 text-xs">
@@ -322,7 +322,7 @@ function AlertDetailPanel({ id, a, timeZone, canRespond, actions }: { id: number
       <div>
         <h3 className="mb-1.5 text-xs font-semibold uppercase tracking-wide text-ink-faint">History</h3>
         <p className="mb-2 text-xs text-ink-soft">
-          Rule {a.ruleName ? `“${a.ruleName}”` : a.ruleId}, version {a.ruleVersion} · {ALERT_STATE_LABELS[a.state]}
+          Rule {a.ruleName ? `“${a.ruleName}”` : a.ruleId}, version {a.ruleVersion} · {ALERT_STATE_WORDS[a.state]}
           {a.expectedCrossingTs !== null && a.kind === "rh_forecast" ? ` · expected to cross the limit at ${formatPlantTime(a.expectedCrossingTs, timeZone, "d MMM HH:mm")}` : ""}
         </p>
         {detail.isLoading ? <p className="text-sm text-ink-faint">Loading the history…</p> : null}
@@ -396,4 +396,4 @@ const EVENT_WORDS: Record<string, string> = {
   escalated: "Escalated, e-mailed",
 };
 
-export type { AlertStateName };
+export type { AlertState };

@@ -1,11 +1,11 @@
 // The alerts list's filters and how they read from the page's URL (server and client alike).
-import type { AlertStateName } from "./labels";
+import type { AlertState } from "@/lib/vocabulary";
 
 export type AlertFilterState = {
   area: number | null;
   line: number | null;
   /** "open" (not closed), one state, or "all" */
-  state: "open" | "all" | AlertStateName;
+  state: "open" | "all" | AlertState;
   /** hours back, or null for any time */
   hours: number | null;
 };

@@ -7,12 +7,12 @@ import { useMemo, useRef } from "react";
 import type { AlertDetail, AlertListItem } from "@/db/queries/alerts";
 import { LiveStore } from "@/components/live/live-store";
 import { useLiveStream, type StreamStatus } from "@/components/live/use-live-stream";
-import type { AlertStateName } from "./labels";
+import type { AlertState } from "@/lib/vocabulary";
 
 import type { AlertFilterState } from "./filters";
 export type { AlertFilterState };
 
-export type AlertsResponse = { alerts: AlertListItem[]; counts: Record<AlertStateName, number>; serverTs: number };
+export type AlertsResponse = { alerts: AlertListItem[]; counts: Record<AlertState, number>; serverTs: number };
 
 export function alertsQueryString(f: AlertFilterState, nowMs: number): string {
   const p = new URLSearchParams();

@@ -3,7 +3,8 @@
 // the solvent's minimum ignition energy. A screening aid that defers to the standards.
 import { useMemo, useState } from "react";
 import { COMMON_SOLVENTS, SPARK_MARGIN_FACTOR, TYPICAL_CAPACITANCES_PF, BRUSH_DISCHARGE_EQUIVALENT_ENERGY_MJ } from "@/lib/physics";
-import { StateBadge, type PointState } from "@/components/ui/state-badge";
+import { StateBadge } from "@/components/ui/state-badge";
+import type { PointState } from "@/lib/vocabulary";
 import { fieldMessages } from "./number-input";
 import { checkSpark, CUSTOM_SOLVENT, sparkSchema, VERDICT_WORDS, type SparkFields } from "./spark-check-model";
 import { Answer, CalcCard, Caution, FieldGrid, Method, NumberInput, Presets, Results, SelectInput } from "./calc-ui";

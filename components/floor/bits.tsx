@@ -4,8 +4,9 @@ import clsx from "clsx";
 import { chargePolarity, formatCharge, type ChargeUnit } from "@/lib/units";
 import type { RunState } from "./view-model";
 import type { StreamStatus } from "@/components/live/use-live-stream";
-import { StateBadge, StateShape, STATE_WORDS } from "@/components/ui/state-badge";
-import type { PointState } from "@/lib/point-state";
+import { StateBadge, StateShape } from "@/components/ui/state-badge";
+import { STATE_WORDS } from "@/lib/vocabulary";
+import type { PointState } from "@/lib/vocabulary";
 
 const polarityTone = { pos: "text-pos", neg: "text-neg", zero: "text-ink-soft" } as const;
 const polarityToneDark = { pos: "text-pos-soft", neg: "text-neg-soft", zero: "text-night-ink" } as const;

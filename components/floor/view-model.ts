@@ -3,7 +3,8 @@
 import type { FloorArea, FloorLine, FloorPoint } from "@/db/queries/floor";
 import type { LiveStore, Sample } from "@/components/live/live-store";
 import { absoluteHumidityGPerM3, dewPointC } from "@/lib/physics/psychrometrics";
-import { pointState, worstState, type PointState } from "@/lib/point-state";
+import { pointState } from "@/lib/point-state";
+import { worstState, type PointState } from "@/lib/vocabulary";
 
 export const TREND_MS = 15 * 60_000;
 

@@ -9,13 +9,15 @@ import clsx from "clsx";
 import type { FloorSnapshot } from "@/db/queries/floor";
 import { Sparkline } from "@/components/charts/sparkline";
 import { lighten, tokenColors } from "@/components/charts/token-colors";
-import { StateShape, STATE_WORDS } from "@/components/ui/state-badge";
+import { StateShape } from "@/components/ui/state-badge";
+import { STATE_WORDS } from "@/lib/vocabulary";
 import { LogoMark } from "@/components/ui/logo";
 import { chargePolarity, formatAbsoluteHumidity, formatCharge, formatChargeLimit, formatRh, formatSpeed, formatTemp } from "@/lib/units";
 import { formatPlantSince, formatPlantTime, shiftAt } from "@/lib/shifts";
-import type { PointState } from "@/lib/point-state";
+import type { PointState } from "@/lib/vocabulary";
 import { RunIndicator, StreamIndicator } from "./bits";
 import { useFloorLive } from "./use-floor-live";
+import { SparkMargin } from "./spark-margin";
 import { hallView, TREND_MS, type LineView, type PointView } from "./view-model";
 
 const KEEPALIVE_MS = 20 * 60_000;
@@ -50,6 +52,7 @@ function usePolarityColors(): { pos: string; neg: string } | null {
   const [c, setC] = useState<{ pos: string; neg: string } | null>(null);
   useEffect(() => {
     const t = tokenColors();
+    // eslint-disable-next-line react-hooks/set-state-in-effect -- CSS tokens exist only in the browser; reading them after mount keeps the first render equal to the server HTML
     setC({ pos: lighten(t.pos, 0.45), neg: lighten(t.neg, 0.45) });
   }, []);
   return c;
@@ -178,6 +181,16 @@ function WallLine({
           <WallPoint key={p.point.id} view={p} now={now} timeZone={timeZone} unit={unit} polarity={polarity} />
         ))}
       </div>
+      {l.solventName ? (
+        <SparkMargin
+          variant="wall"
+          className="mt-[0.6vh]"
+          solventName={l.solventName}
+          solventMieMj={l.solventMieMj}
+          conductorCapacitancePf={l.conductorCapacitancePf}
+          worstChargeKv={line.points.reduce<number | null>((w, p) => (p.value !== null && (w === null || Math.abs(p.value) > Math.abs(w)) ? p.value : w), null)}
+        />
+      ) : null}
     </section>
   );
 }

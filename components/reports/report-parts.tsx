@@ -3,7 +3,8 @@
 // Server components; print-friendly (controls carry print:hidden, rows avoid page breaks).
 import Link from "next/link";
 import clsx from "clsx";
-import { StateShape, STATE_WORDS, type PointState } from "@/components/ui/state-badge";
+import { StateShape } from "@/components/ui/state-badge";
+import { STATE_WORDS, type PointState } from "@/lib/vocabulary";
 
 export type ReportTab = "handover" | "weekly" | "equipment";
 

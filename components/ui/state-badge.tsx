@@ -1,5 +1,5 @@
-// One shape and one word for each state, used everywhere (Floor, line page, alerts, e-mails,
-// reports, wallboard). Colour is never the only code: the shape and the word carry it in
+// One shape for each state code, used everywhere (Floor, line page, alerts, e-mails, reports,
+// wallboard); the words and symbols are in lib/vocabulary/point-states.ts. Colour is never the only code: the shape and the word carry it in
 // greyscale and for colour-blind readers.
 //   normal  — small hollow ring, "OK", no colour
 //   near    — upward triangle, "Near", amber
@@ -7,25 +7,7 @@
 //   silent  — dashed circle, "Silent", grey
 //   shelved — pause bars, "Shelved", violet
 import clsx from "clsx";
-
-export type PointState = "normal" | "near" | "over" | "silent" | "shelved";
-
-export const STATE_WORDS: Record<PointState, string> = {
-  normal: "OK",
-  near: "Near",
-  over: "Over",
-  silent: "Silent",
-  shelved: "Shelved",
-};
-
-/** Plain-text symbols for e-mails, CSV and print where SVG is not available. */
-export const STATE_SYMBOLS: Record<PointState, string> = {
-  normal: "○",
-  near: "▲",
-  over: "◆",
-  silent: "◌",
-  shelved: "‖",
-};
+import { STATE_WORDS, type PointState } from "@/lib/vocabulary";
 
 const tone: Record<PointState, string> = {
   normal: "text-ink-soft",

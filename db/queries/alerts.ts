@@ -12,22 +12,22 @@ import {
   type AlertTransition,
 } from "../../lib/rules";
 import { AppError, notFound } from "../../lib/errors";
-import type { AlertStateName, RuleKindName, SeverityName } from "../../components/alerts/labels";
+import type { AlertState, RuleKind, Severity } from "../../lib/vocabulary";
 import type { AlertSubject } from "./topology";
 
 /** What the runner and the app's actions write with (a Db or a transaction). */
 export type DbWriter = Pick<Db, "select" | "insert" | "update">;
 
 export const ALERT_STATE_NAMES = ["active_unacked", "active_acked", "cleared_unacked", "closed"] as const;
-export const OPEN_STATES: AlertStateName[] = ["active_unacked", "active_acked", "cleared_unacked"];
+export const OPEN_STATES: AlertState[] = ["active_unacked", "active_acked", "cleared_unacked"];
 
 export type AlertListItem = {
   id: number;
   ruleId: number;
   ruleVersion: number;
   ruleName: string | null;
-  kind: RuleKindName;
-  severity: SeverityName;
+  kind: RuleKind;
+  severity: Severity;
   subjectKey: string;
   areaId: number | null;
   lineId: number | null;
@@ -37,7 +37,7 @@ export type AlertListItem = {
   areaName: string | null;
   lineName: string | null;
   pointName: string | null;
-  state: AlertStateName;
+  state: AlertState;
   message: string;
   startTs: number;
   endTs: number | null;
@@ -91,10 +91,10 @@ const listColumns = {
 export type AlertFilters = {
   areaId?: number;
   lineId?: number;
-  states?: AlertStateName[];
+  states?: AlertState[];
   /** only alerts not closed */
   openOnly?: boolean;
-  severities?: SeverityName[];
+  severities?: Severity[];
   /** alerts overlapping [fromTs, toTs): started before toTs and not ended before fromTs */
   fromTs?: number;
   toTs?: number;
@@ -155,9 +155,9 @@ export async function getAlertDetail(db: Db, id: number): Promise<AlertDetail | 
 }
 
 /** Counts for the page header: open alerts by state. */
-export async function countOpenAlerts(db: Db): Promise<Record<AlertStateName, number>> {
+export async function countOpenAlerts(db: Db): Promise<Record<AlertState, number>> {
   const rows = await db.select({ state: alerts.state, n: sql<number>`COUNT(*)` }).from(alerts).where(ne(alerts.state, "closed")).groupBy(alerts.state);
-  const out: Record<AlertStateName, number> = { active_unacked: 0, active_acked: 0, cleared_unacked: 0, closed: 0 };
+  const out: Record<AlertState, number> = { active_unacked: 0, active_acked: 0, cleared_unacked: 0, closed: 0 };
   for (const r of rows) out[r.state] = Number(r.n);
   return out;
 }
@@ -166,7 +166,7 @@ export async function countOpenAlerts(db: Db): Promise<Record<AlertStateName, nu
 // Lifecycle <-> row
 
 type LifecycleRow = {
-  state: AlertStateName;
+  state: AlertState;
   startTs: number;
   endTs: number | null;
   closedTs: number | null;
@@ -220,7 +220,7 @@ const lifecycleColumns = {
 };
 
 /** The change to announce on `stillfield/internal/alerts` after the transaction commits. */
-export type AlertChange = { alertId: number; lineId: number | null; areaId: number | null; state: AlertStateName; severity: SeverityName; ts: number; shelved: boolean };
+export type AlertChange = { alertId: number; lineId: number | null; areaId: number | null; state: AlertState; severity: Severity; ts: number; shelved: boolean };
 
 // ---------------------------------------------------------------------------------------------
 // People's actions
@@ -240,7 +240,7 @@ export async function respondToAlert(db: Db, input: RespondInput, personId: numb
   return db.transaction(async (tx) => {
     const [row] = await tx.select(lifecycleColumns).from(alerts).where(eq(alerts.id, input.alertId)).for("update");
     if (!row) throw notFound("No such alert.");
-    const change = (state: AlertStateName, shelved: boolean): AlertChange => ({
+    const change = (state: AlertState, shelved: boolean): AlertChange => ({
       alertId: row.id,
       lineId: row.lineId,
       areaId: row.areaId,
@@ -362,7 +362,7 @@ export async function applyClearTransition(
   tx: DbWriter,
   alertId: number,
   clear: { ts: number; peakValue?: number; message?: string; reason?: string },
-): Promise<{ state: AlertStateName; severity: SeverityName; lineId: number | null; areaId: number | null; shelved: boolean } | null> {
+): Promise<{ state: AlertState; severity: Severity; lineId: number | null; areaId: number | null; shelved: boolean } | null> {
   const [row] = await tx.select(lifecycleColumns).from(alerts).where(eq(alerts.id, alertId)).for("update");
   if (!row) return null;
   const ts = Math.max(clear.ts, row.startTs);
@@ -412,8 +412,8 @@ export async function expireShelving(db: Db, nowMs: number): Promise<AlertChange
 export type NotifyCandidate = {
   id: number;
   ruleId: number;
-  kind: RuleKindName;
-  severity: SeverityName;
+  kind: RuleKind;
+  severity: Severity;
   subjectKey: string;
   areaId: number | null;
   lineId: number | null;
@@ -429,7 +429,7 @@ export type NotifyCandidate = {
 };
 
 /** Active, unacknowledged, unshelved alerts at or above a severity, raised at or before `startedBy`. */
-export async function listNotifyCandidates(db: Db, severities: SeverityName[], startedBy: number, nowMs: number): Promise<NotifyCandidate[]> {
+export async function listNotifyCandidates(db: Db, severities: Severity[], startedBy: number, nowMs: number): Promise<NotifyCandidate[]> {
   return db
     .select({
       id: alerts.id,
@@ -468,7 +468,7 @@ export async function listNotifyCandidates(db: Db, severities: SeverityName[], s
 // ---------------------------------------------------------------------------------------------
 // Alert load (EEMUA 191 / ISA-18.2 benchmarks)
 
-export type LoadAlert = { id: number; ruleId: number; ruleName: string | null; kind: RuleKindName; severity: SeverityName; subjectKey: string; startTs: number; endTs: number | null; closedTs: number | null; chattering: boolean; state: AlertStateName };
+export type LoadAlert = { id: number; ruleId: number; ruleName: string | null; kind: RuleKind; severity: Severity; subjectKey: string; startTs: number; endTs: number | null; closedTs: number | null; chattering: boolean; state: AlertState };
 
 export async function listAlertsStartedBetween(db: Db, fromTs: number, toTs: number, limit = 200_000): Promise<LoadAlert[]> {
   return db
@@ -541,8 +541,8 @@ export type AlertLoad = {
   floods: Array<{ startTs: number; endTs: number; count: number }>;
   chatteringCount: number;
   chatteringRules: Array<{ ruleId: number; ruleName: string | null; subjectKey: string; count: number }>;
-  standing: Array<{ id: number; ruleName: string | null; kind: RuleKindName; subjectKey: string; startTs: number; hours: number }>;
-  noisiest: Array<{ ruleId: number; ruleName: string | null; kind: RuleKindName; count: number; share: number }>;
+  standing: Array<{ id: number; ruleName: string | null; kind: RuleKind; subjectKey: string; startTs: number; hours: number }>;
+  noisiest: Array<{ ruleId: number; ruleName: string | null; kind: RuleKind; count: number; share: number }>;
   verdict: "acceptable" | "manageable" | "demanding" | "overloaded";
 };
 
@@ -556,7 +556,7 @@ export function computeAlertLoad(raised: readonly LoadAlert[], standingNow: read
   const per10Min = new Array<number>(nBuckets).fill(0);
   const nDays = Math.ceil(spanMs / DAY_MS);
   const perDayCounts = new Array<number>(nDays).fill(0);
-  const byRule = new Map<number, { ruleId: number; ruleName: string | null; kind: RuleKindName; count: number }>();
+  const byRule = new Map<number, { ruleId: number; ruleName: string | null; kind: RuleKind; count: number }>();
   const chatter = new Map<string, { ruleId: number; ruleName: string | null; subjectKey: string; count: number }>();
   let total = 0;
   let chatteringCount = 0;

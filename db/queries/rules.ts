@@ -23,7 +23,7 @@ import {
   type Topology,
 } from "../../lib/rules";
 import { AppError, badInput, fieldErrorsFromIssues, notFound } from "../../lib/errors";
-import { RULE_KIND_LABELS } from "../../components/alerts/labels";
+import { RULE_KIND_WORDS } from "../../lib/vocabulary";
 
 export type RuleRow = {
   id: number;
@@ -197,7 +197,7 @@ export function checkProposedRule(input: z.output<typeof saveRuleInputSchema>, i
 }
 
 export function defaultRuleName(kind: RuleKind, where: string | null): string {
-  const base = RULE_KIND_LABELS[kind];
+  const base = RULE_KIND_WORDS[kind];
   return (where ? `${base} — ${where}` : base).slice(0, 160);
 }
 

@@ -1,16 +1,9 @@
 // Limits (rules and their versions), alerts and their history, the mail outbox and the on-call roster.
 import { bigint, boolean, double, index, int, json, mysqlEnum, mysqlTable, text, uniqueIndex, varchar } from "drizzle-orm/mysql-core";
+import { ALERT_STATES, RULE_KINDS, SEVERITIES } from "../../lib/vocabulary";
 
-export const RULE_KINDS = [
-  "charge_high",
-  "charge_rate",
-  "rh_low",
-  "rh_forecast",
-  "sensor_silent",
-  "sensor_flat",
-  "effect_loss",
-] as const;
-export const SEVERITIES = ["low", "medium", "high"] as const;
+// The enums' value lists come from the one vocabulary (lib/vocabulary).
+export { ALERT_STATES, RULE_KINDS, SEVERITIES };
 
 export const rules = mysqlTable(
   "rules",
@@ -49,8 +42,6 @@ export const ruleVersions = mysqlTable(
   },
   (t) => [uniqueIndex("rule_versions_uq").on(t.ruleId, t.version)],
 );
-
-export const ALERT_STATES = ["active_unacked", "active_acked", "cleared_unacked", "closed"] as const;
 
 export const alerts = mysqlTable(
   "alerts",

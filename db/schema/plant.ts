@@ -1,5 +1,6 @@
 // The plant: halls (areas), lines, measuring points in web-path order, devices, neutralizers.
 import { bigint, boolean, date, double, index, int, mysqlEnum, mysqlTable, text, uniqueIndex, varchar } from "drizzle-orm/mysql-core";
+import { NEUTRALIZER_STATES } from "../../lib/vocabulary/neutralizer-states";
 
 export const areas = mysqlTable("areas", {
   id: int("id").autoincrement().primaryKey(),
@@ -86,7 +87,8 @@ export const devices = mysqlTable(
 );
 
 export const NEUTRALIZER_KINDS = ["ionizing_bar", "ionized_air_blower", "ionizing_nozzle", "other"] as const;
-export const NEUTRALIZER_STATES = ["in_service", "needs_cleaning", "faulty", "removed"] as const;
+// The value list comes from the one vocabulary (lib/vocabulary/neutralizer-states.ts).
+export { NEUTRALIZER_STATES };
 
 export const neutralizers = mysqlTable(
   "neutralizers",

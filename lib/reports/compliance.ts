@@ -11,9 +11,9 @@
  */
 import type { DateWindow } from "../report-shifts";
 import { localDateOf } from "../report-shifts";
-import type { ReportState, Where } from "./types";
+import type { Where } from "./types";
+import { DAY_MS, type PointState } from "../vocabulary";
 
-export const DAY_MS = 86_400_000;
 /** Items falling due within this many days of `asOfTs` are listed as "due soon". */
 export const DUE_SOON_DAYS = 14;
 
@@ -45,7 +45,7 @@ export type ComplianceInput = {
   meters: readonly ComplianceMeterInput[];
 };
 
-export type Due = { dueTs: number | null; status: DueStatus; days: number | null; code: ReportState };
+export type Due = { dueTs: number | null; status: DueStatus; days: number | null; code: PointState };
 
 export type ComplianceNeutralizerRow = {
   id: number;
@@ -62,7 +62,7 @@ export type ComplianceNeutralizerRow = {
   cleaning: Due;
 };
 
-export type ComplianceMeterRow = ComplianceMeterInput & { status: DueStatus; days: number | null; code: ReportState };
+export type ComplianceMeterRow = ComplianceMeterInput & { status: DueStatus; days: number | null; code: PointState };
 
 export type ComplianceReport = {
   kind: "compliance";
@@ -87,7 +87,7 @@ export type ComplianceReport = {
   meters: ComplianceMeterRow[];
 };
 
-const STATUS_CODE: Record<DueStatus, ReportState> = { overdue: "over", due_soon: "near", ok: "normal", unknown: "silent" };
+const STATUS_CODE: Record<DueStatus, PointState> = { overdue: "over", due_soon: "near", ok: "normal", unknown: "silent" };
 const URGENCY: Record<DueStatus, number> = { overdue: 0, unknown: 1, due_soon: 2, ok: 3 };
 
 /** Look-ahead for "due soon" of an item with this interval: DUE_SOON_DAYS, at most a quarter of the interval. */

@@ -8,10 +8,10 @@ import { recordsToCsv, type CsvColumn } from "../csv";
 import type { ComplianceReport } from "./compliance";
 import { formatCsvTime } from "./format";
 import type { HandoverReport } from "./handover";
-import type { ReportState } from "./types";
+import type { PointState } from "../vocabulary";
 import type { WeeklyReport } from "./weekly";
 
-export type StateWords = Record<ReportState, string>;
+export type StateWords = Record<PointState, string>;
 
 export const HANDOVER_TABLES = ["alerts", "points", "halls", "neutralizers", "notes"] as const;
 export const WEEKLY_TABLES = ["points", "rules", "pairs"] as const;

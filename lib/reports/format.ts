@@ -4,9 +4,9 @@
  */
 import { tz } from "@date-fns/tz";
 import { format } from "date-fns";
-import { formatDuration, formatSigned } from "../rules/format";
+import { formatSigned } from "../rules/format";
 
-export { formatDuration };
+export { formatDuration } from "../vocabulary/durations";
 
 /** "14:05" (or another date-fns pattern) in the plant's time zone. */
 export function formatTs(ts: number, timeZone: string, pattern = "HH:mm"): string {

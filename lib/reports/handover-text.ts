@@ -6,9 +6,9 @@
 import { describeShift } from "../report-shifts";
 import { formatDayTime, formatDuration, formatKv, formatPct, formatShare, formatTs } from "./format";
 import type { HandoverReport } from "./handover";
-import type { ReportState } from "./types";
+import type { PointState } from "../vocabulary";
 
-export type StateCodes = { symbols: Record<ReportState, string>; words: Record<ReportState, string> };
+export type StateCodes = { symbols: Record<PointState, string>; words: Record<PointState, string> };
 
 export function handoverSubject(report: HandoverReport): string {
   return `Shift handover — ${describeShift(report.window)} — ${report.plantName}`;
@@ -16,7 +16,7 @@ export function handoverSubject(report: HandoverReport): string {
 
 export function handoverText(report: HandoverReport, codes: StateCodes, opts: { fromName?: string; link?: string } = {}): string {
   const zone = report.window.timeZone;
-  const code = (s: ReportState) => `${codes.symbols[s]} ${codes.words[s]}`;
+  const code = (s: PointState) => `${codes.symbols[s]} ${codes.words[s]}`;
   const hhmm = (ts: number) => formatTs(ts, zone);
   const out: string[] = [];
   out.push(`${report.plantName} — shift handover`);

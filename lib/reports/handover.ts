@@ -7,11 +7,12 @@
  * line notes.
  */
 import type { ShiftWindow } from "../report-shifts";
+import { ACTIVE_ALERT_STATES, ALERT_STATE_WORDS, DAY_MS, alertStateCodeAt, type AlertState, type RuleKind, type Severity } from "../vocabulary";
 import { chargeLimitAt, rhLowLimitAt, type StoredRule } from "./limits";
 import { lowestReading, timeOverLimit, worstReading, type Sample } from "./series";
-import { buildPlaceIndex, type ReportArea, type ReportState, type Where } from "./types";
+import { buildPlaceIndex, type ReportArea, type Where } from "./types";
+import type { PointState } from "../vocabulary";
 
-export const DAY_MS = 86_400_000;
 
 /**
  * A raw reading stands for at most this long (sample-and-hold): 2 min, the plant-wide "sensor
@@ -29,11 +30,11 @@ export type HandoverAlertEvent = { ts: number; kind: string; personName: string 
 
 export type HandoverAlertInput = {
   id: number;
-  kind: string;
-  severity: string;
+  kind: RuleKind;
+  severity: Severity;
   ruleName: string | null;
   message: string;
-  state: string;
+  state: AlertState;
   startTs: number;
   endTs: number | null;
   peakValue: number | null;
@@ -84,7 +85,7 @@ export type HandoverInput = {
   holdMs?: number;
 };
 
-export type HandoverAlertRow = HandoverAlertInput & { where: Where; code: ReportState; status: string; raisedInShift: boolean; activeMsInShift: number };
+export type HandoverAlertRow = HandoverAlertInput & { where: Where; code: PointState; status: string; raisedInShift: boolean; activeMsInShift: number };
 
 export type HandoverPointRow = {
   pointId: number;
@@ -95,7 +96,7 @@ export type HandoverPointRow = {
   coveredMs: number;
   excursions: number;
   worst: Sample | null;
-  code: ReportState;
+  code: PointState;
 };
 
 export type HandoverHallRow = {
@@ -108,10 +109,10 @@ export type HandoverHallRow = {
   belowBandMs: number;
   belowLimitMs: number;
   coveredMs: number;
-  code: ReportState;
+  code: PointState;
 };
 
-export type HandoverNeutralizerRow = { id: number; tag: string; kind: string; where: Where; reasons: string[]; code: ReportState };
+export type HandoverNeutralizerRow = { id: number; tag: string; kind: string; where: Where; reasons: string[]; code: PointState };
 
 export type HandoverNoteRow = HandoverNoteInput & { where: Where };
 
@@ -145,23 +146,6 @@ export type HandoverReport = {
 
 const LEVEL_WORDS = { point: "point", line: "line", area: "hall", plant: "plant-wide" } as const;
 
-const ACTIVE_STATES = new Set(["active_unacked", "active_acked"]);
-
-/** Code of an alert: its kind's state, or shelved while shelved. */
-export function alertCode(a: { kind: string; shelvedUntilTs: number | null; endTs: number | null }, atTs: number): ReportState {
-  if (a.shelvedUntilTs !== null && a.shelvedUntilTs > atTs && a.endTs === null) return "shelved";
-  if (a.kind === "sensor_silent" || a.kind === "sensor_flat") return "silent";
-  if (a.kind === "rh_forecast" || a.kind === "charge_rate") return "near";
-  return "over";
-}
-
-export const ALERT_STATE_WORDS: Record<string, string> = {
-  active_unacked: "Active, not acknowledged",
-  active_acked: "Active, acknowledged",
-  cleared_unacked: "Cleared, not acknowledged",
-  closed: "Closed",
-};
-
 function daysText(ms: number): string {
   const d = Math.floor(ms / DAY_MS);
   if (d >= 1) return `${d} d`;
@@ -174,10 +158,10 @@ export function neutralizerAttention(
   n: HandoverNeutralizerInput,
   atTs: number,
   effectLossAlertTs: readonly number[] = [],
-): { reasons: string[]; code: ReportState } {
+): { reasons: string[]; code: PointState } {
   const reasons: string[] = [];
-  let code: ReportState = "normal";
-  const raise = (c: ReportState) => {
+  let code: PointState = "normal";
+  const raise = (c: PointState) => {
     if (c === "over" || (c === "near" && code === "normal")) code = c;
   };
   if (n.state === "faulty") {
@@ -245,7 +229,7 @@ export function buildHandover(input: HandoverInput): HandoverReport {
         // no rule in force: nothing is "over", but the coverage still counts
         const over = timeOverLimit(series, { kind: "magnitude_above", limit: limit?.value ?? Number.POSITIVE_INFINITY }, span, holdMs);
         const worst = worstReading(series, span);
-        let code: ReportState = "normal";
+        let code: PointState = "normal";
         if (over.coveredMs === 0 || !worst) code = "silent";
         else if (over.overMs > 0) code = "over";
         else if (limit && Math.abs(worst.value) >= NEAR_LIMIT_FRACTION * limit.value) code = "near";
@@ -271,7 +255,7 @@ export function buildHandover(input: HandoverInput): HandoverReport {
     const band = timeOverLimit(series, { kind: "below", limit: area.rhMinPct }, span, holdMs);
     const belowLimitMs = limit ? timeOverLimit(series, { kind: "below", limit: limit.value }, span, holdMs).overMs : 0;
     const lowest = lowestReading(series, span);
-    let code: ReportState = "normal";
+    let code: PointState = "normal";
     if (!lowest || band.coveredMs === 0) code = "silent";
     else if (belowLimitMs > 0) code = "over";
     else if (band.overMs > 0) code = "near";
@@ -298,8 +282,8 @@ export function buildHandover(input: HandoverInput): HandoverReport {
       return {
         ...a,
         where: places.where(a),
-        code: alertCode(a, endTs),
-        status: ALERT_STATE_WORDS[a.state] ?? a.state,
+        code: alertStateCodeAt(a, endTs),
+        status: ALERT_STATE_WORDS[a.state],
         raisedInShift: a.startTs >= window.startTs,
         activeMsInShift: Math.max(0, to - from),
       };
@@ -347,7 +331,7 @@ export function buildHandover(input: HandoverInput): HandoverReport {
     summary: {
       alertsRaised: alerts.filter((a) => a.raisedInShift).length,
       alertsActiveAtEnd: alerts.filter((a) => a.endTs === null || a.endTs > endTs).length,
-      unacknowledgedAtEnd: alerts.filter((a) => ACTIVE_STATES.has(a.state) && a.ackedTs === null && (a.endTs === null || a.endTs > endTs)).length,
+      unacknowledgedAtEnd: alerts.filter((a) => ACTIVE_ALERT_STATES.includes(a.state) && a.ackedTs === null && (a.endTs === null || a.endTs > endTs)).length,
       pointsOverLimit: points.filter((p) => p.overMs > 0).length,
       pointsWithData: points.filter((p) => p.coveredMs > 0).length,
       pointsTotal: points.length,

@@ -4,9 +4,6 @@
  * of db imports; the read model's objects fit it as they are.
  */
 
-/** The one set of state codes (components/ui/state-badge.tsx renders them). */
-export type ReportState = "normal" | "near" | "over" | "silent" | "shelved";
-
 export type ReportPoint = {
   id: number;
   name: string;

@@ -11,7 +11,8 @@ import type { DateWindow } from "../report-shifts";
 import { chargeLimitAt, rhLowLimitAt, type StoredRule } from "./limits";
 import { fitLeastSquares, thinPairs, type LineFit, type Pair } from "./regression";
 import { lowestReading, timeOverLimit, worstReading, type Sample } from "./series";
-import type { ReportArea, ReportLine, ReportState } from "./types";
+import type { ReportArea, ReportLine } from "./types";
+import type { PointState } from "../vocabulary";
 
 /** A 1-minute rollup bucket stands for one minute. */
 export const MINUTE_HOLD_MS = 60_000;
@@ -77,7 +78,7 @@ export type WeeklyPointRow = {
   excursions: number;
   worst: Sample | null;
   alerts: number;
-  code: ReportState;
+  code: PointState;
   rh: WeeklyFit;
   speed: WeeklyFit;
 };
@@ -155,7 +156,7 @@ export function buildWeekly(input: WeeklyInput): WeeklyReport {
       const v = speed.get(hourTs);
       if (v !== undefined) speedPairs.push([v, y]);
     }
-    let code: ReportState = "normal";
+    let code: PointState = "normal";
     if (over.coveredMs === 0) code = "silent";
     else if (over.overMs > 0) code = "over";
     return {

@@ -14,9 +14,10 @@
  * caller, not here.
  */
 import { z } from "zod";
+import { ALERT_STATES, type AlertState } from "../vocabulary/alert-states";
 
-export const ALERT_STATES = ["active_unacked", "active_acked", "cleared_unacked", "closed"] as const;
-export type AlertStateName = (typeof ALERT_STATES)[number];
+export { ALERT_STATES };
+export type { AlertState };
 
 /**
  * Longest a single shelving may last. ISA-18.2 requires shelving to be time-limited but sets no
@@ -26,7 +27,7 @@ export const MAX_SHELVE_MS = 7 * 24 * 60 * 60 * 1000;
 export const MAX_SHELVE_REASON_LENGTH = 500;
 
 export type AlertLifecycleState = {
-  state: AlertStateName;
+  state: AlertState;
   raisedTs: number;
   ackedTs: number | null;
   ackedBy: number | null;

@@ -8,6 +8,7 @@
  * can never reach the evaluation loop.
  */
 import { z } from "zod";
+import { RULE_KINDS, SEVERITIES, type RuleKind, type Severity } from "../vocabulary/rule-kinds";
 
 // ---------------------------------------------------------------------------------------------
 // Readings
@@ -40,21 +41,11 @@ export type Reading = z.infer<typeof readingSchema>;
 // Rule definitions
 // ---------------------------------------------------------------------------------------------
 
-export const SEVERITIES = ["low", "medium", "high"] as const;
+// The value lists live in lib/vocabulary/rule-kinds.ts (the schema's enums use them too).
+export { RULE_KINDS, SEVERITIES };
+export type { RuleKind, Severity };
 export const severitySchema = z.enum(SEVERITIES);
-export type Severity = z.infer<typeof severitySchema>;
-
-export const RULE_KINDS = [
-  "charge_high",
-  "charge_rate",
-  "rh_low",
-  "rh_forecast",
-  "sensor_silent",
-  "sensor_flat",
-  "effect_loss",
-] as const;
 export const ruleKindSchema = z.enum(RULE_KINDS);
-export type RuleKind = z.infer<typeof ruleKindSchema>;
 
 const positiveIdSchema = z.number().int().positive();
 

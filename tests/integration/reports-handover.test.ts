@@ -7,7 +7,7 @@ import { getHandoverReport } from "@/db/queries/reports";
 import { handoverCsv } from "@/lib/reports/csv-tables";
 import { handoverText } from "@/lib/reports/handover-text";
 import type { HandoverReport } from "@/lib/reports/handover";
-import { STATE_SYMBOLS, STATE_WORDS } from "@/components/ui/state-badge";
+import { STATE_SYMBOLS, STATE_WORDS } from "@/lib/vocabulary";
 import { DEMO_PEOPLE } from "@/lib/demo-plant";
 import { CHARGE_STEP_MS, chargeAt, MIN, RH_STEP_MS, rhAt, SEC, seedReportFixture, type ReportFixture } from "./reports-fixture";
 

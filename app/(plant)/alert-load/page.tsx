@@ -16,8 +16,8 @@ import {
 } from "@/db/queries/alerts";
 import { getPlantSettings } from "@/db/queries/equipment";
 import { loadPlantTopology } from "@/db/queries/topology";
-import { RULE_KIND_LABELS } from "@/components/alerts/labels";
-import { formatDurationMs } from "@/components/alerts/format";
+import { RULE_KIND_WORDS } from "@/lib/vocabulary";
+import { formatDuration } from "@/lib/vocabulary";
 import { Card, Forbidden, PageHeader } from "@/components/ui/page";
 import { formatPlantTime } from "@/lib/shifts";
 import { PerDayBars, Per10MinChart } from "./_components/load-charts";
@@ -119,7 +119,7 @@ export default async function AlertLoadPage({ searchParams }: { searchParams: Pr
                   <tr key={r.ruleId} className="border-t border-paper-line first:border-0">
                     <td className="py-1.5 pr-2">
                       <div className="font-medium">{r.ruleName ?? `Rule ${r.ruleId}`}</div>
-                      {r.ruleName && r.ruleName !== RULE_KIND_LABELS[r.kind] ? <div className="text-xs text-ink-faint">{RULE_KIND_LABELS[r.kind]}</div> : null}
+                      {r.ruleName && r.ruleName !== RULE_KIND_WORDS[r.kind] ? <div className="text-xs text-ink-faint">{RULE_KIND_WORDS[r.kind]}</div> : null}
                     </td>
                     <td className="w-40 py-1.5 pr-2">
                       <span className="block h-2.5 rounded-sm bg-paper-sunk">
@@ -148,7 +148,7 @@ export default async function AlertLoadPage({ searchParams }: { searchParams: Pr
             <ul className="space-y-1 text-sm">
               {load.floods.map((f) => (
                 <li key={f.startTs} className="num">
-                  {formatPlantTime(f.startTs, plant.timeZone, "d MMM HH:mm")}–{formatPlantTime(f.endTs, plant.timeZone, "HH:mm")}: {f.count} alerts in {formatDurationMs(f.endTs - f.startTs)}
+                  {formatPlantTime(f.startTs, plant.timeZone, "d MMM HH:mm")}–{formatPlantTime(f.endTs, plant.timeZone, "HH:mm")}: {f.count} alerts in {formatDuration(f.endTs - f.startTs)}
                 </li>
               ))}
             </ul>
@@ -174,7 +174,7 @@ export default async function AlertLoadPage({ searchParams }: { searchParams: Pr
               <ul className="space-y-1 text-sm">
                 {load.standing.map((s) => (
                   <li key={s.id}>
-                    {s.ruleName ?? RULE_KIND_LABELS[s.kind]} — {where(s.subjectKey)} <span className="text-ink-faint">since {formatPlantTime(s.startTs, plant.timeZone, "d MMM HH:mm")}</span>
+                    {s.ruleName ?? RULE_KIND_WORDS[s.kind]} — {where(s.subjectKey)} <span className="text-ink-faint">since {formatPlantTime(s.startTs, plant.timeZone, "d MMM HH:mm")}</span>
                   </li>
                 ))}
               </ul>

@@ -8,7 +8,7 @@ import { getPlantSettings } from "@/db/queries/equipment";
 import { getPlantLayout } from "@/db/queries/plant";
 import { listRuleAudit, listRuleRows } from "@/db/queries/rules";
 import { Card, Forbidden, PageHeader } from "@/components/ui/page";
-import { isRuleKindName } from "@/components/alerts/labels";
+import { isRuleKind } from "@/lib/vocabulary";
 import { can } from "@/lib/permissions";
 import { formatPlantTime } from "@/lib/shifts";
 import { LimitsEditor, type RuleInfo } from "./_components/limits-editor";
@@ -29,7 +29,7 @@ export default async function LimitsPage() {
   const db = getDb();
   const [layout, rows, audit, plant] = await Promise.all([getPlantLayout(db), listRuleRows(db), listRuleAudit(db, 15), getPlantSettings(db)]);
   const rules: RuleInfo[] = rows.flatMap((r) =>
-    isRuleKindName(r.kind)
+    isRuleKind(r.kind)
       ? [
           {
             id: r.id,

@@ -1,7 +1,7 @@
 "use client";
 // The admin's forms on the on-call page: add a shift, remove one, change the e-mail settings.
 import { ActionForm, Field, inputClass, SubmitButton } from "@/components/forms/action-form";
-import { SEVERITY_LABELS } from "@/components/alerts/labels";
+import { SEVERITY_WORDS } from "@/lib/vocabulary";
 import { addShift, removeShift, saveAlertingSettings } from "./actions";
 
 export function AddShiftForm({ people, defaultStart, defaultEnd }: { people: Array<{ id: number; name: string }>; defaultStart: string; defaultEnd: string }) {
@@ -56,7 +56,7 @@ export function AlertingSettingsForm({ notifyMinSeverity, notifyAfterMin, escala
         <select name="notifyMinSeverity" className={inputClass} defaultValue={notifyMinSeverity}>
           {(["low", "medium", "high"] as const).map((s) => (
             <option key={s} value={s}>
-              {SEVERITY_LABELS[s]} and above
+              {SEVERITY_WORDS[s]} and above
             </option>
           ))}
         </select>

@@ -6,7 +6,7 @@ import { getDb } from "@/db/client";
 import { getPlantSettings } from "@/db/queries/equipment";
 import { getAlertingSettings, listOnCallAt, listRosterPeople, listShifts, type RosterShift } from "@/db/queries/oncall";
 import { countMailsByState, listRecentMails } from "@/db/queries/outbox";
-import { SEVERITY_LABELS } from "@/components/alerts/labels";
+import { SEVERITY_WORDS } from "@/lib/vocabulary";
 import { Card, EmptyState, Forbidden, PageHeader } from "@/components/ui/page";
 import { can } from "@/lib/permissions";
 import { formatPlantTime, toPlantLocalInput } from "@/lib/shifts";
@@ -75,7 +75,7 @@ export default async function OnCallPage() {
               </ol>
             )}
             <p className="mt-3 text-sm text-ink-soft" data-testid="alerting-summary">
-              Alerts of <b>{SEVERITY_LABELS[settings.notifyMinSeverity].toLowerCase()}</b> severity and above that stay unacknowledged for{" "}
+              Alerts of <b>{SEVERITY_WORDS[settings.notifyMinSeverity].toLowerCase()}</b> severity and above that stay unacknowledged for{" "}
               <b>{Math.round(settings.notifyAfterS / 60)} min</b> are e-mailed to order 1; after a further <b>{Math.round(settings.escalateAfterS / 60)} min</b> without an
               acknowledgement, to the next order. Shelved alerts are not e-mailed. The daily digest goes out at {String(settings.digestHourLocal).padStart(2, "0")}:00.
             </p>

@@ -11,7 +11,7 @@ import { AppError, badInput } from "@/lib/errors";
 import { can, type Role } from "@/lib/permissions";
 import { isValidDate } from "@/lib/report-shifts";
 import { handoverSubject, handoverText } from "@/lib/reports/handover-text";
-import { STATE_SYMBOLS, STATE_WORDS } from "@/components/ui/state-badge";
+import { STATE_SYMBOLS, STATE_WORDS } from "@/lib/vocabulary";
 import { defineAction } from "../action";
 import type { SessionPerson } from "../session";
 

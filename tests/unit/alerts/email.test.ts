@@ -2,9 +2,7 @@
 // (the same shape and word as the screens) and the link to the line page at that time.
 import { describe, expect, it } from "vitest";
 import { composeAlertEmail, composeDigestEmail, type AlertMailInput } from "../../../ingest/alerts-email";
-import { STATE_SYMBOLS, STATE_WORDS } from "../../../components/ui/state-badge";
-import { alertStateCode, stateCodeText } from "../../../components/alerts/labels";
-import { formatAlertValue } from "../../../components/alerts/format";
+import { STATE_SYMBOLS, STATE_WORDS, alertStateCode, formatAlertValue, stateCodeText } from "@/lib/vocabulary";
 
 const T0 = Date.UTC(2026, 0, 12, 14, 2); // 14:02 in London (UTC+0 in January)
 
@@ -83,7 +81,8 @@ describe("formatAlertValue", () => {
     expect(formatAlertValue("charge_high", -23.14)).toBe("−23.1 kV");
     expect(formatAlertValue("charge_rate", 3.04)).toBe("3.0 kV/min");
     expect(formatAlertValue("rh_low", 27.44)).toBe("27.4 % RH");
-    expect(formatAlertValue("sensor_silent", 372)).toBe("6 min silent");
+    // durations keep their seconds up to 10 min (lib/vocabulary/durations.ts)
+    expect(formatAlertValue("sensor_silent", 372)).toBe("6 min 12 s silent");
     expect(formatAlertValue("effect_loss", -0.6)).toBe("reduction −60 %");
     expect(formatAlertValue("effect_loss", null)).toBe("–");
   });

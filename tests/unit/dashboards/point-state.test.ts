@@ -1,7 +1,8 @@
 // Point states against limits (lib/point-state.ts). The 80 % "near" band is Stillfield's own
 // display convention (common practice for early-warning bands on operator screens), not a standard.
 import { describe, expect, it } from "vitest";
-import { limitRatio, pointState, valueState, worstState } from "@/lib/point-state";
+import { limitRatio, pointState, valueState } from "@/lib/point-state";
+import { worstState } from "@/lib/vocabulary";
 
 const now = 1_767_225_600_000;
 const high = { direction: "high" as const, limit: 12 };

@@ -2,7 +2,8 @@
 // attention, due dates, report parameters.
 import { describe, expect, it } from "vitest";
 import { chargeLimitAt, rhLowLimitAt, type StoredRule } from "@/lib/reports/limits";
-import { alertCode, DAY_MS, neutralizerAttention, type HandoverNeutralizerInput } from "@/lib/reports/handover";
+import { neutralizerAttention, type HandoverNeutralizerInput } from "@/lib/reports/handover";
+import { DAY_MS, alertStateCodeAt } from "@/lib/vocabulary";
 import { calibrationStatus, dueSoonWindowMs, dueStatus } from "@/lib/reports/compliance";
 import { complianceParamsSchema, handoverParamsSchema, resolveComplianceParams, resolveHandoverParams } from "@/lib/reports/params";
 import { DEFAULT_PLANT_SETTINGS } from "@/lib/plant-settings";
@@ -48,12 +49,15 @@ describe("limits a report measures against", () => {
 });
 
 describe("alert codes", () => {
-  it("code by kind, shelved while shelved", () => {
-    expect(alertCode({ kind: "charge_high", shelvedUntilTs: null, endTs: null }, 0)).toBe("over");
-    expect(alertCode({ kind: "rh_forecast", shelvedUntilTs: null, endTs: null }, 0)).toBe("near");
-    expect(alertCode({ kind: "sensor_silent", shelvedUntilTs: null, endTs: 5 }, 0)).toBe("silent");
-    expect(alertCode({ kind: "charge_high", shelvedUntilTs: 100, endTs: null }, 50)).toBe("shelved");
-    expect(alertCode({ kind: "charge_high", shelvedUntilTs: 100, endTs: null }, 150)).toBe("over");
+  it("code by kind, shelved while shelved, normal once ended", () => {
+    expect(alertStateCodeAt({ kind: "charge_high", shelvedUntilTs: null, endTs: null }, 0)).toBe("over");
+    expect(alertStateCodeAt({ kind: "rh_forecast", shelvedUntilTs: null, endTs: null }, 0)).toBe("near");
+    expect(alertStateCodeAt({ kind: "sensor_silent", shelvedUntilTs: null, endTs: 5 }, 0)).toBe("silent");
+    expect(alertStateCodeAt({ kind: "charge_high", shelvedUntilTs: 100, endTs: null }, 50)).toBe("shelved");
+    expect(alertStateCodeAt({ kind: "charge_high", shelvedUntilTs: 100, endTs: null }, 150)).toBe("over");
+    // an alert that cleared before the end of the shift reads "OK", as on the alert list
+    expect(alertStateCodeAt({ kind: "charge_high", shelvedUntilTs: null, endTs: 40 }, 50)).toBe("normal");
+    expect(alertStateCodeAt({ kind: "charge_high", shelvedUntilTs: 100, endTs: 40 }, 50)).toBe("normal");
   });
 });
 

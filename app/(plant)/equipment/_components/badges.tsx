@@ -1,6 +1,7 @@
 // The equipment pages speak the one set of state codes (components/ui/state-badge.tsx): a
 // neutralizer's state, a check's result and a due date map onto normal / near / over / silent.
-import { StateBadge, type PointState } from "@/components/ui/state-badge";
+import { StateBadge } from "@/components/ui/state-badge";
+import type { PointState } from "@/lib/vocabulary";
 import { NEUTRALIZER_STATE_LABELS, type NeutralizerState } from "@/db/queries/equipment";
 import { fmtDaysLeft, wholeDaysLeft } from "./format";
 

@@ -8,7 +8,7 @@ import { useMemo, useState } from "react";
 import clsx from "clsx";
 import { inputClass } from "@/components/forms/action-form";
 import { SeverityTag } from "@/components/alerts/alert-bits";
-import { RULE_KIND_LABELS, SEVERITY_LABELS, type RuleKindName, type SeverityName } from "@/components/alerts/labels";
+import { RULE_KIND_WORDS, SEVERITY_WORDS, type RuleKind, type Severity } from "@/lib/vocabulary";
 import { EmptyState } from "@/components/ui/page";
 import { fromPlantLocalInput, toPlantLocalInput } from "@/lib/shifts";
 import type { ReplayResult } from "@/db/queries/rules";
@@ -17,7 +17,7 @@ import { ReplayView } from "./replay-view";
 
 export type RuleInfo = {
   id: number;
-  kind: RuleKindName;
+  kind: RuleKind;
   name: string;
   pointId: number | null;
   lineId: number | null;
@@ -25,7 +25,7 @@ export type RuleInfo = {
   scopedElsewhere: boolean;
   enabled: boolean;
   currentVersion: number;
-  severity: SeverityName;
+  severity: Severity;
   onDelayS: number;
   offDelayS: number;
   onlyWhileRunning: boolean;
@@ -40,7 +40,7 @@ type Place = { level: Level; areaId: number | null; lineId: number | null; point
 
 const LEVEL_RANK: Record<Level, number> = { plant: 0, area: 1, line: 2, point: 3 };
 const LEVEL_WORDS: Record<Level, string> = { plant: "plant-wide", area: "hall", line: "line", point: "point" };
-const KINDS = Object.keys(RULE_KIND_LABELS).filter((k): k is RuleKindName => k in RULE_KIND_LABELS);
+const KINDS = Object.keys(RULE_KIND_WORDS).filter((k): k is RuleKind => k in RULE_KIND_WORDS);
 
 function levelOf(r: Pick<RuleInfo, "pointId" | "lineId" | "areaId">): Level {
   return r.pointId !== null ? "point" : r.lineId !== null ? "line" : r.areaId !== null ? "area" : "plant";
@@ -55,9 +55,9 @@ function matches(r: RuleInfo, p: Place): boolean {
 }
 
 /** Per kind and severity, the rules at the most specific level matching the place (as the engine resolves them). */
-function rulesInForce(rules: RuleInfo[], p: Place, kind: RuleKindName): RuleInfo[] {
+function rulesInForce(rules: RuleInfo[], p: Place, kind: RuleKind): RuleInfo[] {
   const candidates = rules.filter((r) => r.kind === kind && matches(r, p));
-  const best = new Map<SeverityName, number>();
+  const best = new Map<Severity, number>();
   for (const r of candidates) best.set(r.severity, Math.max(best.get(r.severity) ?? -1, LEVEL_RANK[levelOf(r)]));
   return candidates
     .filter((r) => LEVEL_RANK[levelOf(r)] === best.get(r.severity))
@@ -67,8 +67,8 @@ function rulesInForce(rules: RuleInfo[], p: Place, kind: RuleKindName): RuleInfo
 type Draft = {
   ruleId?: number;
   baseVersion?: number;
-  kind: RuleKindName;
-  severity: SeverityName;
+  kind: RuleKind;
+  severity: Severity;
   place: Place;
   fields: Record<string, string>;
   onDelayS: string;
@@ -80,7 +80,7 @@ type Draft = {
   from: RuleInfo | null;
 };
 
-function draftFrom(rule: RuleInfo | null, kind: RuleKindName, severity: SeverityName, place: Place, own: boolean): Draft {
+function draftFrom(rule: RuleInfo | null, kind: RuleKind, severity: Severity, place: Place, own: boolean): Draft {
   const fields: Record<string, string> = {};
   for (const f of PARAM_FIELDS[kind]) {
     const v = rule?.params[f.key];
@@ -172,7 +172,7 @@ export function LimitsEditor({
     setFieldErrors({});
   }
 
-  function edit(rule: RuleInfo | null, kind: RuleKindName, severity: SeverityName) {
+  function edit(rule: RuleInfo | null, kind: RuleKind, severity: Severity) {
     const own = rule !== null && levelOf(rule) === place.level && matches(rule, place);
     setDraft(draftFrom(rule, kind, severity, place, own));
     setReplay(null);
@@ -283,7 +283,7 @@ export function LimitsEditor({
                 if (here.length === 0) {
                   return [
                     <tr key={kind} className="border-t border-paper-line">
-                      <td className="px-4 py-2 font-medium">{RULE_KIND_LABELS[kind]}</td>
+                      <td className="px-4 py-2 font-medium">{RULE_KIND_WORDS[kind]}</td>
                       <td className="px-2 py-2 text-ink-faint" colSpan={4}>
                         No rule of this kind applies here.
                       </td>
@@ -302,7 +302,7 @@ export function LimitsEditor({
                   const editing = draft !== null && draft.kind === kind && draft.severity === r.severity && (draft.ruleId === r.id || (draft.ruleId === undefined && draft.from?.id === r.id));
                   return (
                     <tr key={r.id} className={clsx("border-t border-paper-line", editing && "bg-brand-soft/50", !r.enabled && "text-ink-faint")} data-testid="rule-row" data-rule-id={r.id} data-kind={kind}>
-                      <td className="px-4 py-2 font-medium">{RULE_KIND_LABELS[kind]}</td>
+                      <td className="px-4 py-2 font-medium">{RULE_KIND_WORDS[kind]}</td>
                       <td className="px-2 py-2">
                         <SeverityTag severity={r.severity} />
                       </td>
@@ -366,7 +366,7 @@ export function LimitsEditor({
           <section className="rounded-card border border-brand/40 bg-paper-raised" data-testid="rule-editor">
             <header className="flex flex-wrap items-baseline justify-between gap-2 border-b border-paper-line px-4 py-2.5">
               <h2 className="text-sm font-semibold text-ink">
-                {draft.ruleId !== undefined ? `Edit ${RULE_KIND_LABELS[draft.kind].toLowerCase()} (version ${draft.baseVersion} → ${(draft.baseVersion ?? 0) + 1})` : `New ${RULE_KIND_LABELS[draft.kind].toLowerCase()} rule`}{" "}
+                {draft.ruleId !== undefined ? `Edit ${RULE_KIND_WORDS[draft.kind].toLowerCase()} (version ${draft.baseVersion} → ${(draft.baseVersion ?? 0) + 1})` : `New ${RULE_KIND_WORDS[draft.kind].toLowerCase()} rule`}{" "}
                 <span className="font-normal text-ink-soft">at {draft.place.label}</span>
               </h2>
               <button type="button" className="text-xs text-ink-soft hover:text-ink" onClick={() => setDraft(null)}>
@@ -403,7 +403,7 @@ export function LimitsEditor({
                     <select className={`${inputClass} mt-1`} value={draft.severity} onChange={(e) => setDraft({ ...draft, severity: e.target.value === "high" ? "high" : e.target.value === "low" ? "low" : "medium" })} aria-label="Severity">
                       {(["low", "medium", "high"] as const).map((s) => (
                         <option key={s} value={s}>
-                          {SEVERITY_LABELS[s]}
+                          {SEVERITY_WORDS[s]}
                         </option>
                       ))}
                     </select>
@@ -552,10 +552,10 @@ function NumberField({
   );
 }
 
-function AddRule({ onAdd, kinds }: { onAdd: (kind: RuleKindName, severity: SeverityName) => void; kinds: RuleKindName[] }) {
-  const [kind, setKind] = useState<RuleKindName>(kinds[0] ?? "charge_high");
-  const [severity, setSeverity] = useState<SeverityName>("high");
-  const kindOptions = useMemo(() => kinds.map((k) => ({ value: k, label: RULE_KIND_LABELS[k] })), [kinds]);
+function AddRule({ onAdd, kinds }: { onAdd: (kind: RuleKind, severity: Severity) => void; kinds: RuleKind[] }) {
+  const [kind, setKind] = useState<RuleKind>(kinds[0] ?? "charge_high");
+  const [severity, setSeverity] = useState<Severity>("high");
+  const kindOptions = useMemo(() => kinds.map((k) => ({ value: k, label: RULE_KIND_WORDS[k] })), [kinds]);
   return (
     <div className="flex flex-wrap items-center gap-2 border-t border-paper-line px-4 py-2.5 text-sm">
       <span className="text-xs text-ink-soft">Add a rule here:</span>
@@ -572,7 +572,7 @@ function AddRule({ onAdd, kinds }: { onAdd: (kind: RuleKindName, severity: Sever
         <select className={inputClass} value={severity} onChange={(e) => setSeverity(e.target.value === "low" ? "low" : e.target.value === "medium" ? "medium" : "high")} aria-label="Severity of rule to add">
           {(["low", "medium", "high"] as const).map((s) => (
             <option key={s} value={s}>
-              {SEVERITY_LABELS[s]}
+              {SEVERITY_WORDS[s]}
             </option>
           ))}
         </select>

@@ -3,12 +3,12 @@
 // the span, for how long in all, when (a strip per side), and the proposal's alerts one by one.
 import clsx from "clsx";
 import { SeverityTag } from "@/components/alerts/alert-bits";
-import { formatAlertValue, formatDurationMs } from "@/components/alerts/format";
-import type { RuleKindName } from "@/components/alerts/labels";
+import { formatAlertValue, formatDuration } from "@/lib/vocabulary";
+import type { RuleKind } from "@/lib/vocabulary";
 import { formatPlantTime } from "@/lib/shifts";
 import type { ReplayResult, ReplaySide } from "@/db/queries/rules";
 
-export function ReplayView({ result, timeZone, kind, stale }: { result: ReplayResult; timeZone: string; kind: RuleKindName; stale: boolean }) {
+export function ReplayView({ result, timeZone, kind, stale }: { result: ReplayResult; timeZone: string; kind: RuleKind; stale: boolean }) {
   const diff = result.proposed.count - result.current.count;
   const span = `${formatPlantTime(result.fromTs, timeZone, "d MMM HH:mm")} – ${formatPlantTime(result.toTs, timeZone, "d MMM HH:mm")}`;
   return (
@@ -54,7 +54,7 @@ export function ReplayView({ result, timeZone, kind, stale }: { result: ReplayRe
                   <td className="px-2 py-1">
                     <SeverityTag severity={e.severity} />
                   </td>
-                  <td className="num px-2 py-1">{e.durationMs !== null ? formatDurationMs(e.durationMs) : "still active at the end"}{e.chattering ? " · chattering" : ""}</td>
+                  <td className="num px-2 py-1">{e.durationMs !== null ? formatDuration(e.durationMs) : "still active at the end"}{e.chattering ? " · chattering" : ""}</td>
                   <td className="num px-2 py-1">{formatAlertValue(kind, e.peakValue)}</td>
                 </tr>
               ))}
@@ -74,7 +74,7 @@ function SideCard({ title, side, testId, emphasis }: { title: string; side: Repl
         {side.count} <span className="text-sm font-normal text-ink-soft">alert{side.count === 1 ? "" : "s"}</span>
       </div>
       <div className="num text-xs text-ink-soft">
-        {formatDurationMs(side.totalDurationMs)} active in all
+        {formatDuration(side.totalDurationMs)} active in all
         {side.chattering ? ` · ${side.chattering} chattering` : ""}
         {side.stillActive ? ` · ${side.stillActive} still active` : ""}
       </div>

@@ -1,6 +1,6 @@
 // What the limits editor asks for, per kind of rule: the parameter fields with their units and
 // the words that explain them. Validation itself is the rules engine's schema, on the server.
-import type { RuleKindName } from "@/components/alerts/labels";
+import type { RuleKind } from "@/lib/vocabulary";
 
 export type ParamField = {
   key: string;
@@ -15,7 +15,7 @@ export type ParamField = {
   percentOfFraction?: boolean;
 };
 
-export const PARAM_FIELDS: Record<RuleKindName, ParamField[]> = {
+export const PARAM_FIELDS: Record<RuleKind, ParamField[]> = {
   charge_high: [
     { key: "limitKv", label: "Limit", unit: "kV", hint: "Raised when |charge| stays above this for the on-delay.", step: "0.1" },
     { key: "clearKv", label: "Clear level", unit: "kV", hint: "Clears when |charge| is back below this (below the limit: the deadband).", step: "0.1" },
@@ -61,11 +61,11 @@ export const PARAM_FIELDS: Record<RuleKindName, ParamField[]> = {
 };
 
 /** Kinds whose subjects are halls: they can be set plant-wide or per hall only. */
-export const HALL_KINDS: ReadonlySet<RuleKindName> = new Set(["rh_low", "rh_forecast"]);
+export const HALL_KINDS: ReadonlySet<RuleKind> = new Set(["rh_low", "rh_forecast"]);
 /** Kinds that never depend on the line running. */
-export const NOT_LINE_GATED: ReadonlySet<RuleKindName> = new Set(["rh_low", "rh_forecast", "sensor_silent"]);
+export const NOT_LINE_GATED: ReadonlySet<RuleKind> = new Set(["rh_low", "rh_forecast", "sensor_silent"]);
 
-export function summarizeParams(kind: RuleKindName, params: unknown): string {
+export function summarizeParams(kind: RuleKind, params: unknown): string {
   if (!params || typeof params !== "object") return "";
   const p = Object.fromEntries(Object.entries(params));
   const n = (k: string) => (typeof p[k] === "number" ? String(p[k]) : "–");

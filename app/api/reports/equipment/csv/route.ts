@@ -4,7 +4,7 @@ import { getComplianceReport, getPlantSettings } from "@/db/queries/reports";
 import { badInput } from "@/lib/errors";
 import { complianceCsv } from "@/lib/reports/csv-tables";
 import { complianceCsvParamsSchema, resolveComplianceParams } from "@/lib/reports/params";
-import { STATE_WORDS } from "@/components/ui/state-badge";
+import { STATE_WORDS } from "@/lib/vocabulary";
 import { parseOrThrow, queryObject, route } from "@/app/_server/route";
 import { csvResponse } from "../../_shared";
 

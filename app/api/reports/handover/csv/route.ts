@@ -4,7 +4,7 @@ import { getHandoverReport, getPlantSettings } from "@/db/queries/reports";
 import { notFound } from "@/lib/errors";
 import { handoverCsv } from "@/lib/reports/csv-tables";
 import { handoverCsvParamsSchema, resolveHandoverParams } from "@/lib/reports/params";
-import { STATE_WORDS } from "@/components/ui/state-badge";
+import { STATE_WORDS } from "@/lib/vocabulary";
 import { parseOrThrow, queryObject, route } from "@/app/_server/route";
 import { csvResponse } from "../../_shared";
 

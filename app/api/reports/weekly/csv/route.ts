@@ -4,7 +4,7 @@ import { getPlantSettings, getWeeklyReport } from "@/db/queries/reports";
 import { badInput, notFound } from "@/lib/errors";
 import { weeklyCsv } from "@/lib/reports/csv-tables";
 import { resolveWeek, weeklyCsvParamsSchema } from "@/lib/reports/params";
-import { STATE_WORDS } from "@/components/ui/state-badge";
+import { STATE_WORDS } from "@/lib/vocabulary";
 import { parseOrThrow, queryObject, route } from "@/app/_server/route";
 import { csvResponse } from "../../_shared";
 
