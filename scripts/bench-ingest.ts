@@ -14,9 +14,8 @@
 //          --latency-s (20) --outage-s (60; 0 skips) --window (500 in-flight messages)
 // Needs the MariaDB server binaries (scripts/ensure-system.sh); writes only under .data/.
 import fs from "node:fs";
-import path from "node:path";
 import { parseArgs } from "node:util";
-import mqtt, { type MqttClient } from "mqtt";
+import type { MqttClient } from "mqtt";
 import { z } from "zod";
 import { createTestDatabase } from "../tests/helpers/test-db";
 import { hashDeviceSecret } from "../lib/device-secrets";

@@ -1,7 +1,9 @@
 #!/usr/bin/env bash
 # npm test: installs what is missing, starts MariaDB (its own test database) and the services,
-# runs unit, integration and browser tests, stops what it started, prints "N passed, N failed".
+# runs lint and the layer rules, unit, integration and browser tests, stops what it started, prints
+# "N passed, N failed" (lint and the layer check count as one check each).
 #   npm test                         everything
+#   npm test -- lint [files…]        ESLint (on the files given, or everything) + the layer rules
 #   npm test -- unit|integration|e2e [files…]   one part (for focused work)
 #   STACK_SLOT=3 npm test -- e2e     a second stack on other ports, side by side
 set -uo pipefail
@@ -18,6 +20,30 @@ rm -rf "$OUT"
 mkdir -p "$OUT"
 
 bash scripts/ensure-npm.sh || exit 1
+
+status=0
+# A check that is not a test runner (lint, layer rules): its pass/fail lands in check-NAME.json,
+# which summarize-tests.mjs counts as one test.
+run_check() {
+  local name="$1"
+  shift
+  local ok=true
+  "$@" || { ok=false; status=1; }
+  printf '{"name":"%s","ok":%s}\n' "$name" "$ok" >"$OUT/check-$name.json"
+}
+
+if [ "$PART" = "all" ] || [ "$PART" = "lint" ]; then
+  echo "── lint (ESLint) and layer rules (dependency-cruiser)"
+  lint_targets=(.)
+  if [ "$PART" = "lint" ] && [ ${#FILES[@]} -gt 0 ]; then lint_targets=("${FILES[@]}"); fi
+  run_check lint npx eslint --max-warnings=0 --cache --cache-location "$DATA_DIR/eslint-cache/" "${lint_targets[@]}"
+  run_check layers npx depcruise --config .dependency-cruiser.cjs --output-type err app components db lib ingest simulators scripts tests
+  if [ "$PART" = "lint" ]; then
+    node scripts/summarize-tests.mjs "$OUT"
+    exit $status
+  fi
+fi
+
 need_browser=""
 if [ "$PART" = "all" ] || [ "$PART" = "e2e" ]; then need_browser="--browser"; fi
 bash scripts/ensure-system.sh $need_browser || exit 1
@@ -37,7 +63,6 @@ cleanup() {
 trap cleanup EXIT
 trap 'exit 130' INT TERM
 
-status=0
 run_vitest() {
   local project="$1"
   shift

@@ -29,12 +29,14 @@ export function NoteForm({
   const [touched, setTouched] = useState(false);
   useEffect(() => {
     if (pickedTs !== null) {
+      // eslint-disable-next-line react-hooks/set-state-in-effect -- a time picked on the chart overwrites the field once, and the person can still edit it
       setLocal(toPlantLocalInput(pickedTs, timeZone));
       setTouched(true);
     }
   }, [pickedTs, timeZone]);
   // until someone sets a time, the note is "now"
   useEffect(() => {
+    // eslint-disable-next-line react-hooks/set-state-in-effect -- the field follows the ticking clock until someone edits it
     if (!touched) setLocal(toPlantLocalInput(nowTs, timeZone));
   }, [nowTs, touched, timeZone]);
   const ts = touched ? fromPlantLocalInput(local, timeZone) : pickedTs ?? nowTs;

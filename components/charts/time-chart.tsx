@@ -65,6 +65,7 @@ export function TimeChart(props: TimeChartProps) {
   const readoutRef = useRef<HTMLSpanElement>(null);
   const plotRef = useRef<uPlot | null>(null);
   const propsRef = useRef(props);
+  // eslint-disable-next-line react-hooks/refs -- latest-props ref for uPlot's callbacks, which outlive a render
   propsRef.current = props;
 
   // create once
@@ -254,7 +255,6 @@ export function TimeChart(props: TimeChartProps) {
       plotRef.current = null;
     };
     // created once per mount; later changes go through setData / redraw below
-    // eslint-disable-next-line react-hooks/exhaustive-deps
   }, []);
 
   // new data or a new window: update in place

@@ -41,13 +41,15 @@ export function useFloorLive(initial: FloorSnapshot, opts: { areaId?: number; re
   const store = useMemo(() => new LiveStore(initial.trendMs, 2_000, 150), [initial.trendMs]);
   const seeded = useRef<FloorSnapshot | null>(null);
   const resetNext = useRef(false);
+  // seeding during render is safe: the store is outside React state and idempotent for repeats
+  /* eslint-disable react-hooks/refs -- the refs only remember which snapshot was fed to the store; nothing rendered reads them */
   if (seeded.current !== snapshot) {
-    // seeding during render is safe: the store is outside React state and idempotent for repeats
     if (resetNext.current) store.reset(snapshot.series);
     else store.ingest(snapshot.series);
     resetNext.current = false;
     seeded.current = snapshot;
   }
+  /* eslint-enable react-hooks/refs */
 
   const refetchTimer = useRef<ReturnType<typeof setTimeout> | null>(null);
   const refetchSoon = useCallback(() => {

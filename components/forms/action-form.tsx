@@ -33,7 +33,7 @@ export function ActionForm({
       if (resetOnSuccess) ref.current?.reset();
       onSuccess?.(state);
     }
-    // eslint-disable-next-line react-hooks/exhaustive-deps
+    // eslint-disable-next-line react-hooks/exhaustive-deps -- run once per server answer, not when the callbacks' identity changes
   }, [state]);
   return (
     <ErrorsContext.Provider value={state && !state.ok ? state.fieldErrors : undefined}>

@@ -15,6 +15,7 @@ export function UnitsProvider({ defaults, children }: { defaults: UnitPrefs; chi
   useEffect(() => {
     try {
       const raw = window.localStorage.getItem(STORAGE_KEY);
+      // eslint-disable-next-line react-hooks/set-state-in-effect -- localStorage exists only in the browser; reading it after mount keeps the first render equal to the server HTML
       if (raw) setState(parseUnitPrefs(JSON.parse(raw), defaults));
     } catch {
       /* private mode or a corrupt value: keep the plant's defaults */

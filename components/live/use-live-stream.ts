@@ -46,6 +46,7 @@ export function useLiveStream(
 ): LiveStreamState {
   const [state, setState] = useState<LiveStreamState>({ status: "connecting", brokerConnected: null, clockOffsetMs: 0 });
   const handlersRef = useRef(handlers);
+  // eslint-disable-next-line react-hooks/refs -- latest-handlers ref: the open stream calls the current handlers without reconnecting
   handlersRef.current = handlers;
   const scope = target.scope;
   const id = target.scope === "plant" ? undefined : target.id;
@@ -143,8 +144,7 @@ export function useLiveStream(
       es?.close();
       es = null;
     };
-    // a new initialSince only matters for a new stream (scope or store change)
-    // eslint-disable-next-line react-hooks/exhaustive-deps
+    // eslint-disable-next-line react-hooks/exhaustive-deps -- a new initialSince only matters for a new stream (scope or store change)
   }, [scope, id, store]);
 
   return state;

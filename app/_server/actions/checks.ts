@@ -11,7 +11,7 @@ import { NEUTRALIZER_KINDS } from "@/db/schema/plant";
 import { badInput } from "@/lib/errors";
 import type { CheckLimits } from "@/lib/physics/neutralizer";
 import { defineAction } from "../action";
-import { idField, localDateTimeToMs, optionalDate, optionalNumber, optionalText, requiredNumber } from "./equipment";
+import { localDateTimeToMs, optionalDate, optionalNumber, optionalText, requiredNumber } from "./equipment";
 
 // decay times: a charged-plate test is stopped after a few minutes; offsets past ±1000 V mean a
 // miswired plate (plausibility bounds, from memory)

@@ -31,7 +31,7 @@ export function UploadsGallery({ uploads, role, timeZone, empty = "No photos or 
           <li key={u.id}>
             <a href={`/api/uploads/${u.id}`} target="_blank" rel="noopener" className="group block rounded border border-paper-line bg-paper p-1.5 hover:border-brand">
               {u.thumbnailKey ? (
-                // eslint-disable-next-line @next/next/no-img-element
+                // eslint-disable-next-line @next/next/no-img-element -- the thumbnail is already resized by our upload route; next/image would resize it again
                 <img src={`/api/uploads/${u.id}?variant=thumb`} alt={u.originalName} className="aspect-[4/3] w-full rounded-sm object-cover" loading="lazy" />
               ) : (
                 <span className="flex aspect-[4/3] w-full items-center justify-center rounded-sm bg-paper-sunk text-sm font-semibold text-ink-soft">PDF</span>
