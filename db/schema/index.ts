@@ -4,3 +4,4 @@ export * from "./readings";
 export * from "./alerts";
 export * from "./records";
 export * from "./surveys";
+export * from "./gateways";
