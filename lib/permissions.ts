@@ -18,11 +18,15 @@ export const ACTIONS = [
   "oncall.manage",
   "devices.manage", // create devices, issue and rotate secrets
   "audit.view",
+  // walk-down surveys: shift leads and up walk the rounds, turn findings into actions and close
+  // them (they are on the floor every shift); engineers and up edit the survey plans
+  "survey.record",
+  "survey.plan",
 ] as const;
 export type Action = (typeof ACTIONS)[number];
 
 const viewer: Action[] = ["view"];
-const shiftLead: Action[] = [...viewer, "alert.respond", "note.add"];
+const shiftLead: Action[] = [...viewer, "alert.respond", "note.add", "survey.record"];
 const engineer: Action[] = [
   ...shiftLead,
   "limits.edit",
@@ -32,6 +36,7 @@ const engineer: Action[] = [
   "upload.add",
   "import.run",
   "audit.view",
+  "survey.plan",
 ];
 const admin: Action[] = [...engineer, "people.manage", "oncall.manage", "devices.manage"];
 
