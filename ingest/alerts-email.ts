@@ -2,7 +2,7 @@
 // e-mail for one alert and the daily digest of a day's alerts. Each alert e-mail says what,
 // where, since when, the peak, and links to the line page at the alert's time; the state code is
 // the same shape-and-word set the screens use (STATE_SYMBOLS / STATE_WORDS).
-import { formatPlantTime } from "../lib/shifts";
+import { formatPlantTime } from "../lib/plant-time";
 import { ALERT_STATE_WORDS, RULE_KIND_WORDS, SEVERITY_WORDS, alertStateCode, stateCodeText, type AlertState, type RuleKind, type Severity } from "../lib/vocabulary";
 import { formatAlertValue, formatDuration } from "../lib/vocabulary";
 

@@ -15,9 +15,10 @@
 // queues nothing twice):
 //   digest:<plant date>:<personId>   the previous plant day's alerts, at alerting.digestHourLocal
 //   due-list:<ISO week>:<personId>   the weekly due list (db/queries/due-list.ts), Mondays from then on
+import fs from "node:fs";
 import path from "node:path";
+import tls from "node:tls";
 import nodemailer, { type Transporter } from "nodemailer";
-import { TZDate } from "@date-fns/tz";
 import { and, eq, inArray } from "drizzle-orm";
 import { closeDb, getDb, type Db } from "../db/client";
 import { getEnv } from "../db/env";
@@ -28,17 +29,12 @@ import { getPlantSettings } from "../db/queries/equipment";
 import { getAlertingSettings } from "../db/queries/oncall";
 import { claimDueMails, enqueueMail, markMailFailed, markMailSent, retryBackoffMs } from "../db/queries/outbox";
 import { loadPlantTopology } from "../db/queries/topology";
-import { formatPlantTime } from "../lib/shifts";
+import { getSettings, tlsFiles } from "../lib/settings";
+import { formatPlantTime, previousPlantDay } from "../lib/plant-time";
 import { composeDigestEmail } from "./alerts-email";
 import { createLogger, describeError } from "./log";
 
 const log = createLogger("mailer");
-
-const num = (name: string, d: number) => {
-  const v = process.env[name];
-  const n = Number(v);
-  return v !== undefined && v !== "" && Number.isFinite(n) && n >= 0 ? n : d;
-};
 
 export type MailerConfig = {
   pollMs: number;
@@ -51,14 +47,15 @@ export type MailerConfig = {
 };
 
 export function getMailerConfig(): MailerConfig {
+  const s = getSettings();
   return {
-    pollMs: num("MAILER_POLL_MS", 1000),
-    leaseMs: num("MAILER_LEASE_MS", 60_000),
-    backoffBaseMs: num("MAILER_BACKOFF_BASE_MS", 5_000),
-    backoffMaxMs: num("MAILER_BACKOFF_MAX_MS", 300_000),
-    maxPermanentFailures: num("MAILER_MAX_PERMANENT", 3),
-    scheduleEveryMs: num("MAILER_SCHEDULE_EVERY_MS", 60_000),
-    batch: num("MAILER_BATCH", 20),
+    pollMs: s.MAILER_POLL_MS,
+    leaseMs: s.MAILER_LEASE_MS,
+    backoffBaseMs: s.MAILER_BACKOFF_BASE_MS,
+    backoffMaxMs: s.MAILER_BACKOFF_MAX_MS,
+    maxPermanentFailures: s.MAILER_MAX_PERMANENT,
+    scheduleEveryMs: s.MAILER_SCHEDULE_EVERY_MS,
+    batch: s.MAILER_BATCH,
   };
 }
 
@@ -78,20 +75,6 @@ function isPermanent(err: unknown): boolean {
 }
 
 // ---- schedules ----
-
-/** Plant-local date string and the [from, to) of the plant day before `nowMs`. */
-export function previousPlantDay(nowMs: number, timeZone: string): { date: string; fromTs: number; toTs: number; hourNow: number; weekday: number } {
-  const local = new TZDate(nowMs, timeZone);
-  const todayStart = new TZDate(local.getFullYear(), local.getMonth(), local.getDate(), 0, 0, 0, timeZone);
-  const yesterdayStart = new TZDate(local.getFullYear(), local.getMonth(), local.getDate() - 1, 0, 0, 0, timeZone);
-  return {
-    date: formatPlantTime(yesterdayStart.getTime(), timeZone, "yyyy-MM-dd"),
-    fromTs: yesterdayStart.getTime(),
-    toTs: todayStart.getTime(),
-    hourNow: local.getHours(),
-    weekday: local.getDay(),
-  };
-}
 
 /** Queues yesterday's digest for everyone who asked for it (from the digest hour on). */
 export async function queueDailyDigests(db: Db, nowMs: number, appUrl: string): Promise<number> {
@@ -140,11 +123,16 @@ export async function startMailer(opts: { db?: Db; config?: MailerConfig } = {})
   const env = getEnv();
   const cfg = opts.config ?? getMailerConfig();
   const db = opts.db ?? getDb();
+  // STARTTLS whenever the server offers it (nodemailer's default once ignoreTLS is off), checked
+  // against the system's CAs plus our own (DATA_DIR/tls/ca.crt: the local sink's certificate);
+  // SMTP_REQUIRE_TLS=1 refuses a server that does not offer it
+  const caFile = tlsFiles(env).ca;
   const transport: Transporter = nodemailer.createTransport({
     host: env.SMTP_HOST,
     port: env.SMTP_PORT,
     secure: false,
-    ignoreTLS: true,
+    requireTLS: env.SMTP_REQUIRE_TLS,
+    tls: { ca: fs.existsSync(caFile) ? [...tls.rootCertificates, fs.readFileSync(caFile, "utf8")] : undefined, minVersion: "TLSv1.2" },
     connectionTimeout: 5_000,
     greetingTimeout: 5_000,
     socketTimeout: 15_000,

@@ -10,7 +10,7 @@ import clsx from "clsx";
 import { ActionForm, Field, inputClass, SubmitButton, type FormResult } from "@/components/forms/action-form";
 import { useNow } from "@/components/live/use-now";
 import { EmptyState } from "@/components/ui/page";
-import { formatPlantTime } from "@/lib/shifts";
+import { formatPlantTime } from "@/lib/plant-time";
 import type { AlertListItem } from "@/db/queries/alerts";
 import { AlertCode, SeverityTag } from "./alert-bits";
 import { formatAlertValue, formatDuration } from "@/lib/vocabulary";

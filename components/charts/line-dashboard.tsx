@@ -27,7 +27,7 @@ import { UnitsProvider, UnitsToggle, useUnits } from "@/components/live/units";
 import { ChargeValue, PointStateMark, RunIndicator, StreamIndicator } from "@/components/floor/bits";
 import { hallView, lineView, type PointView } from "@/components/floor/view-model";
 import { StateBadge } from "@/components/ui/state-badge";
-import { formatPlantSince, formatPlantTime, fromPlantLocalInput, shiftAt, toPlantLocalInput } from "@/lib/shifts";
+import { formatPlantSince, formatPlantTime, fromPlantLocalInput, shiftAt, toPlantLocalInput } from "@/lib/plant-time";
 import {
   chargeInUnit,
   formatAbsoluteHumidity,
@@ -193,6 +193,8 @@ function LineDashboardInner({ area, line, settings, canAddNote, addNote, serverN
             {[line.material, line.solventName ? `solvent: ${line.solventName}` : null, `nominal ${formatSpeed(line.nominalSpeedMpm)}`].filter(Boolean).join(" · ")}
           </p>
           <SparkMargin
+            variant="page"
+            className="mt-1 max-w-3xl"
             solventName={line.solventName}
             solventMieMj={line.solventMieMj}
             conductorCapacitancePf={line.conductorCapacitancePf}

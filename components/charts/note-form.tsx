@@ -4,7 +4,7 @@
 // checks the role on the server (viewers get 403 there, whatever this form shows).
 import { useEffect, useState } from "react";
 import { ActionForm, Field, FieldError, inputClass, SubmitButton, type FormResult } from "@/components/forms/action-form";
-import { fromPlantLocalInput, toPlantLocalInput } from "@/lib/shifts";
+import { fromPlantLocalInput, toPlantLocalInput } from "@/lib/plant-time";
 
 export type NoteAction = (prev: FormResult, fd: FormData) => Promise<FormResult>;
 

@@ -1,7 +1,7 @@
 // The line page's time ranges: live (last 15 min, streaming), the current shift, 24 h, 7 days,
 // 30 days, or a custom range, kept in the URL (?range=7d, ?range=custom&from=…&to=…) so a
 // reload or a shared link shows the same window.
-import { shiftAt, type ShiftSpec } from "@/lib/shifts";
+import { shiftAt, type ShiftSpec } from "@/lib/plant-time";
 
 export const RANGE_KINDS = ["live", "shift", "24h", "7d", "30d", "custom"] as const;
 export type RangeKind = (typeof RANGE_KINDS)[number];

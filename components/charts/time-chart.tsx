@@ -8,7 +8,7 @@ import "uplot/dist/uPlot.min.css";
 import type uPlot from "uplot";
 import { useEffect, useRef } from "react";
 import clsx from "clsx";
-import { formatPlantTime } from "@/lib/shifts";
+import { formatPlantTime } from "@/lib/plant-time";
 import { tokenColors, withAlpha, type TokenName } from "./token-colors";
 
 export type ChartSeries = {

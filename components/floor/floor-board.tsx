@@ -10,7 +10,7 @@ import { Sparkline } from "@/components/charts/sparkline";
 import { StateBadge } from "@/components/ui/state-badge";
 import { UnitsProvider, UnitsToggle, useUnits } from "@/components/live/units";
 import { formatChargeLimit, formatRh, formatSpeed, formatTemp, formatAbsoluteHumidity } from "@/lib/units";
-import { formatPlantSince, formatPlantTime, shiftAt } from "@/lib/shifts";
+import { formatPlantSince, formatPlantTime, shiftAt } from "@/lib/plant-time";
 import { ChargeValue, PointStateMark, RunIndicator, StreamIndicator } from "./bits";
 import { useFloorLive } from "./use-floor-live";
 import { hallView, TREND_MS, type HallView, type LineView, type PointView } from "./view-model";

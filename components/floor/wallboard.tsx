@@ -13,7 +13,7 @@ import { StateShape } from "@/components/ui/state-badge";
 import { STATE_WORDS } from "@/lib/vocabulary";
 import { LogoMark } from "@/components/ui/logo";
 import { chargePolarity, formatAbsoluteHumidity, formatCharge, formatChargeLimit, formatRh, formatSpeed, formatTemp } from "@/lib/units";
-import { formatPlantSince, formatPlantTime, shiftAt } from "@/lib/shifts";
+import { formatPlantSince, formatPlantTime, shiftAt } from "@/lib/plant-time";
 import type { PointState } from "@/lib/vocabulary";
 import { RunIndicator, StreamIndicator } from "./bits";
 import { useFloorLive } from "./use-floor-live";

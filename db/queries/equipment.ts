@@ -3,25 +3,18 @@
 // the point after it, while the line runs). Explicit column selections throughout: a device's
 // secret hash never leaves the writes in this module.
 import { and, asc, desc, eq, gte, inArray, lt, sql } from "drizzle-orm";
-import { TZDate } from "@date-fns/tz";
 import type { Db } from "../client";
 import { areas, devices, equipmentEvents, lines, neutralizers, people, points, rollup1m, uploads } from "../schema";
-import { DEVICE_KINDS, NEUTRALIZER_KINDS, NEUTRALIZER_STATES } from "../schema/plant";
+import { DEVICE_KINDS, NEUTRALIZER_KINDS } from "../schema/plant";
+import { DAY_MS, NEUTRALIZER_STATE_WORDS, type NeutralizerState } from "../../lib/vocabulary";
+import { lastCompletedShift } from "../../lib/plant-time";
 import { EQUIPMENT_EVENT_KINDS } from "../schema/records";
 import { effectFraction } from "../../lib/physics/neutralizer";
 import { getIngestStatus, listRecentRejections } from "./ingest-diagnostics";
 import { getCheckLimits, lastCheckTimes, listChecks, projectDecay, type CheckRow, type DecayProjection, type KindLimits } from "./checks";
 
-export type NeutralizerState = (typeof NEUTRALIZER_STATES)[number];
 export type DeviceKind = (typeof DEVICE_KINDS)[number];
 export type EquipmentEventKind = (typeof EQUIPMENT_EVENT_KINDS)[number];
-
-export const NEUTRALIZER_STATE_LABELS: Record<NeutralizerState, string> = {
-  in_service: "In service",
-  needs_cleaning: "Needs cleaning",
-  faulty: "Faulty",
-  removed: "Removed",
-};
 
 export const DEVICE_KIND_LABELS: Record<DeviceKind, string> = {
   field_meter: "Field meter",
@@ -42,7 +35,6 @@ export const EVENT_KIND_LABELS: Record<EquipmentEventKind, string> = {
   secret_rotated: "Secret",
 };
 
-const DAY_MS = 86_400_000;
 
 /** "YYYY-MM-DD" → epoch ms at 00:00 UTC (day-granular due dates). */
 export function dateOnlyMs(date: string | null): number | null {
@@ -228,7 +220,7 @@ export async function updateNeutralizer(db: Db, id: number, input: NeutralizerWr
       await event("moved", `Moved from ${names.get(before.pointId ?? -1) ?? "no point"} to ${names.get(input.pointId ?? -1) ?? "no point"}.`);
     }
     if (changed.includes("state")) {
-      await event(input.state === "faulty" ? "fault" : "state_changed", `${NEUTRALIZER_STATE_LABELS[before.state]} → ${NEUTRALIZER_STATE_LABELS[input.state]}.`);
+      await event(input.state === "faulty" ? "fault" : "state_changed", `${NEUTRALIZER_STATE_WORDS[before.state]} → ${NEUTRALIZER_STATE_WORDS[input.state]}.`);
     }
     const rest = changed.filter((k) => k !== "pointId" && k !== "state");
     if (rest.length) await event("edited", `Changed ${rest.map((k) => FIELD_LABELS[k]).join(", ")}.`);
@@ -502,32 +494,11 @@ export async function computeNeutralizerEffects(db: Db, neutralizerIds: number[]
 import { getPlantSettings } from "./plant-settings";
 export { getPlantSettings };
 
-/**
- * The last complete shift before `nowMs`: shift starts are local plant times ("06:00"); a shift
- * ends where the next one starts.
- */
-export function previousShiftWindow(nowMs: number, timeZone: string, shifts: { name: string; start: string }[]): { name: string; fromTs: number; toTs: number } {
-  const local = new TZDate(nowMs, timeZone);
-  const starts: { name: string; ts: number }[] = [];
-  for (let dayOffset = -2; dayOffset <= 0; dayOffset++) {
-    for (const s of shifts) {
-      const [hh, mm] = s.start.split(":").map(Number);
-      const ts = new TZDate(local.getFullYear(), local.getMonth(), local.getDate() + dayOffset, hh, mm, 0, 0, timeZone).getTime();
-      starts.push({ name: s.name, ts });
-    }
-  }
-  starts.sort((a, b) => a.ts - b.ts);
-  const past = starts.filter((s) => s.ts <= nowMs);
-  const current = past[past.length - 1];
-  const previous = past[past.length - 2];
-  return { name: previous.name, fromTs: previous.ts, toTs: current.ts };
-}
-
 export async function effectWindows(db: Db, nowMs: number): Promise<EffectWindow[]> {
   const plant = await getPlantSettings(db);
-  const shift = previousShiftWindow(nowMs, plant.timeZone, plant.shifts);
+  const shift = lastCompletedShift(nowMs, plant);
   return [
-    { key: "shift", label: `Last shift (${shift.name})`, fromTs: shift.fromTs, toTs: shift.toTs },
+    { key: "shift", label: `Last shift (${shift.name})`, fromTs: shift.startTs, toTs: shift.endTs },
     { key: "day", label: "Last 24 h", fromTs: nowMs - DAY_MS, toTs: nowMs },
     { key: "week", label: "Last 7 days", fromTs: nowMs - 7 * DAY_MS, toTs: nowMs },
   ];

@@ -20,7 +20,7 @@ import {
   readings,
 } from "../schema";
 import { getPlantLayout, type PlantArea } from "./plant";
-import { dateRangeWindow, localTimeToTs, shiftWindowFor, weekWindow, type ShiftWindow } from "../../lib/report-shifts";
+import { dateRangeWindow, localTimeToTs, shiftWindowFor, weekWindow, type ShiftWindow } from "../../lib/plant-time";
 import { buildCompliance, type ComplianceCheckInput, type ComplianceReport } from "../../lib/reports/compliance";
 import { buildHandover, RAW_HOLD_MS, type HandoverAlertInput, type HandoverReport } from "../../lib/reports/handover";
 import type { StoredRule } from "../../lib/reports/limits";

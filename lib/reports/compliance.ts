@@ -9,8 +9,8 @@
  * the last cleaning. "Due soon" looks ahead DUE_SOON_DAYS, but never more than a quarter of the
  * item's own interval: a bar cleaned weekly is not "due soon" for most of every week.
  */
-import type { DateWindow } from "../report-shifts";
-import { localDateOf } from "../report-shifts";
+import type { DateWindow } from "../plant-time";
+import { localDateOf } from "../plant-time";
 import type { Where } from "./types";
 import { DAY_MS, type PointState } from "../vocabulary";
 

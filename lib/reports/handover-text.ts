@@ -3,7 +3,7 @@
  * the state codes as text symbols and words (components/ui/state-badge STATE_SYMBOLS and
  * STATE_WORDS, passed in) so they read in any mail program and in black and white. Pure.
  */
-import { describeShift } from "../report-shifts";
+import { describeShift } from "../plant-time";
 import { formatDayTime, formatDuration, formatKv, formatPct, formatShare, formatTs } from "./format";
 import type { HandoverReport } from "./handover";
 import type { PointState } from "../vocabulary";

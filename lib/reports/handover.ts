@@ -6,7 +6,7 @@
  * charge limit and its worst reading, the lowest RH per hall, neutralizers that need attention,
  * line notes.
  */
-import type { ShiftWindow } from "../report-shifts";
+import type { ShiftWindow } from "../plant-time";
 import { ACTIVE_ALERT_STATES, ALERT_STATE_WORDS, DAY_MS, alertStateCodeAt, type AlertState, type RuleKind, type Severity } from "../vocabulary";
 import { chargeLimitAt, rhLowLimitAt, type StoredRule } from "./limits";
 import { lowestReading, timeOverLimit, worstReading, type Sample } from "./series";

@@ -4,7 +4,7 @@
  * last 90 days. Pure.
  */
 import { z } from "zod";
-import { addDaysToDate, isValidDate, lastCompletedShift, localDateOf, type ShiftSettings } from "../report-shifts";
+import { addDaysToDate, isValidDate, lastCompletedShift, localDateOf, type ShiftSpec } from "../plant-time";
 import { COMPLIANCE_TABLES, HANDOVER_TABLES, WEEKLY_TABLES } from "./csv-tables";
 
 const dateField = (what: string) =>
@@ -42,7 +42,7 @@ export const complianceCsvParamsSchema = z.object({
 });
 
 /** The handover asked for, or the last completed shift. */
-export function resolveHandoverParams(p: { date?: string; shift?: string }, settings: ShiftSettings, nowTs: number): { date: string; shift: string } {
+export function resolveHandoverParams(p: { date?: string; shift?: string }, settings: ShiftSpec, nowTs: number): { date: string; shift: string } {
   if (p.date && p.shift) return { date: p.date, shift: p.shift };
   const last = lastCompletedShift(nowTs, settings);
   if (p.date) return { date: p.date, shift: settings.shifts[0]?.name ?? last.name };

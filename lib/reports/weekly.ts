@@ -7,7 +7,7 @@
  * "minutes in which any reading was over", an upper bound), the fits from hourly means (rollup_1h)
  * of hours in which the line was running.
  */
-import type { DateWindow } from "../report-shifts";
+import type { DateWindow } from "../plant-time";
 import { chargeLimitAt, rhLowLimitAt, type StoredRule } from "./limits";
 import { fitLeastSquares, thinPairs, type LineFit, type Pair } from "./regression";
 import { lowestReading, timeOverLimit, worstReading, type Sample } from "./series";

@@ -3,7 +3,7 @@
 // weekly review and the equipment report render; viewers get 403 for the e-mail.
 import { expect, test, type Page } from "@playwright/test";
 import { closeDb, getDb } from "../../db/client";
-import { addDaysToDate } from "../../lib/report-shifts";
+import { addDaysToDate } from "../../lib/plant-time";
 import { hasReportFixture, seedReportFixture } from "../integration/reports-fixture";
 import { apiAs, demoPerson, signIn, snap } from "./helpers";
 import { eq } from "drizzle-orm";
@@ -22,7 +22,7 @@ test.beforeAll(async () => {
   const now = Date.now();
   if (!(await hasReportFixture(db))) await seedReportFixture(db, now);
   // the fixture day is eight days back in the plant's time zone (see reports-fixture.ts)
-  const { localDateOf } = await import("../../lib/report-shifts");
+  const { localDateOf } = await import("../../lib/plant-time");
   day = localDateOf(now - 8 * 86_400_000, "Europe/London");
   gravureId = (await db.select({ id: lines.id }).from(lines).where(eq(lines.slug, "gravure-1")))[0].id;
 });

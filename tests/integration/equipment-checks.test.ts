@@ -5,7 +5,8 @@ import { and, eq, inArray, like } from "drizzle-orm";
 import { closeDb, getDb } from "@/db/client";
 import { checks, devices, equipmentEvents, neutralizers, outbox, people, rollup1m, settings } from "@/db/schema";
 import { CHECK_LIMIT_SOURCES, getCheckLimits, recordCheck } from "@/db/queries/checks";
-import { computeNeutralizerEffects, getNeutralizerDetail, previousShiftWindow } from "@/db/queries/equipment";
+import { computeNeutralizerEffects, getNeutralizerDetail } from "@/db/queries/equipment";
+import { lastCompletedShift } from "@/lib/plant-time";
 import { getDueList, isoWeekKey, queueWeeklyDueListEmail } from "@/db/queries/due-list";
 import { addEquipmentNoteAction, createNeutralizerAction, markCleanedAction, updateNeutralizerAction, uploadFileAction } from "@/app/_server/actions/equipment";
 import { recordCheckAction, saveCheckLimitsAction, sendDueListNowAction } from "@/app/_server/actions/checks";
@@ -214,19 +215,19 @@ describe("neutralizer effect from line data", () => {
 
   it("the last shift is the last complete one in plant time", () => {
     // 2026-07-01 15:30 BST = 14:30 Z; shifts 06/14/22 local → last complete: Early 06:00–14:00 BST
-    const w = previousShiftWindow(Date.UTC(2026, 6, 1, 14, 30), TZ, [
+    const w = lastCompletedShift(Date.UTC(2026, 6, 1, 14, 30), { timeZone: TZ, shifts: [
       { name: "Early", start: "06:00" },
       { name: "Late", start: "14:00" },
       { name: "Night", start: "22:00" },
-    ]);
-    expect(w).toEqual({ name: "Early", fromTs: Date.UTC(2026, 6, 1, 5), toTs: Date.UTC(2026, 6, 1, 13) });
+    ] });
+    expect(w).toMatchObject({ name: "Early", startTs: Date.UTC(2026, 6, 1, 5), endTs: Date.UTC(2026, 6, 1, 13) });
     // 03:00 in winter: last complete is Late of the previous day (14:00–22:00 GMT)
-    const n = previousShiftWindow(Date.UTC(2026, 0, 10, 3), TZ, [
+    const n = lastCompletedShift(Date.UTC(2026, 0, 10, 3), { timeZone: TZ, shifts: [
       { name: "Early", start: "06:00" },
       { name: "Late", start: "14:00" },
       { name: "Night", start: "22:00" },
-    ]);
-    expect(n).toEqual({ name: "Late", fromTs: Date.UTC(2026, 0, 9, 14), toTs: Date.UTC(2026, 0, 9, 22) });
+    ] });
+    expect(n).toMatchObject({ name: "Late", startTs: Date.UTC(2026, 0, 9, 14), endTs: Date.UTC(2026, 0, 9, 22) });
   });
 });
 

@@ -8,7 +8,7 @@ import { emailHandoverAction, handoverDedupeKey } from "@/app/_server/actions/re
 import type { SessionPerson } from "@/app/_server/session";
 import { DEMO_PEOPLE } from "@/lib/demo-plant";
 import { DEFAULT_PLANT_SETTINGS } from "@/lib/plant-settings";
-import { lastCompletedShift } from "@/lib/report-shifts";
+import { lastCompletedShift } from "@/lib/plant-time";
 
 async function sessionOf(role: string): Promise<SessionPerson> {
   const p = DEMO_PEOPLE.find((d) => d.role === role)!;

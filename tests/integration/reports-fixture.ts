@@ -8,7 +8,7 @@ import { and, eq, gte, lt } from "drizzle-orm";
 import type { Db } from "../../db/client";
 import * as s from "../../db/schema";
 import { DEMO_PEOPLE } from "../../lib/demo-plant";
-import { addDaysToDate, localDateOf, localTimeToTs, shiftWindowFor, weekWindow, type ShiftWindow } from "../../lib/report-shifts";
+import { addDaysToDate, localDateOf, localTimeToTs, shiftWindowFor, weekWindow, type ShiftWindow } from "../../lib/plant-time";
 import { DEFAULT_PLANT_SETTINGS } from "../../lib/plant-settings";
 
 export const FIXTURE_TZ = "Europe/London";

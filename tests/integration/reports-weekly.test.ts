@@ -4,7 +4,7 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { createTestDatabase, type TestDatabase } from "../helpers/test-db";
 import { getComplianceReport, getWeeklyReport } from "@/db/queries/reports";
-import { addDaysToDate, localTimeToTs } from "@/lib/report-shifts";
+import { addDaysToDate, localTimeToTs } from "@/lib/plant-time";
 import type { WeeklyReport } from "@/lib/reports/weekly";
 import type { ComplianceReport } from "@/lib/reports/compliance";
 import { DAY, FIXTURE_TZ, HOUR, hourlyAt, MIN, seedReportFixture, type ReportFixture } from "./reports-fixture";

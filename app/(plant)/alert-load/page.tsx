@@ -19,7 +19,7 @@ import { loadPlantTopology } from "@/db/queries/topology";
 import { RULE_KIND_WORDS } from "@/lib/vocabulary";
 import { formatDuration } from "@/lib/vocabulary";
 import { Card, Forbidden, PageHeader } from "@/components/ui/page";
-import { formatPlantTime } from "@/lib/shifts";
+import { formatPlantTime } from "@/lib/plant-time";
 import { PerDayBars, Per10MinChart } from "./_components/load-charts";
 
 export const metadata: Metadata = { title: "Alert load" };

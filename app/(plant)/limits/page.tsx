@@ -10,7 +10,7 @@ import { listRuleAudit, listRuleRows } from "@/db/queries/rules";
 import { Card, Forbidden, PageHeader } from "@/components/ui/page";
 import { isRuleKind } from "@/lib/vocabulary";
 import { can } from "@/lib/permissions";
-import { formatPlantTime } from "@/lib/shifts";
+import { formatPlantTime } from "@/lib/plant-time";
 import { LimitsEditor, type RuleInfo } from "./_components/limits-editor";
 
 export const metadata: Metadata = { title: "Limits" };

@@ -9,7 +9,7 @@ import { countMailsByState, listRecentMails } from "@/db/queries/outbox";
 import { SEVERITY_WORDS } from "@/lib/vocabulary";
 import { Card, EmptyState, Forbidden, PageHeader } from "@/components/ui/page";
 import { can } from "@/lib/permissions";
-import { formatPlantTime, toPlantLocalInput } from "@/lib/shifts";
+import { formatPlantTime, toPlantLocalInput } from "@/lib/plant-time";
 import { AddShiftForm, AlertingSettingsForm, RemoveShiftButton } from "./oncall-forms";
 
 export const metadata: Metadata = { title: "On-call" };

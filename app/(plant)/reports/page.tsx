@@ -4,7 +4,7 @@ import Link from "next/link";
 import { requirePagePermission } from "@/app/_server/session";
 import { getDb } from "@/db/client";
 import { getPlantSettings } from "@/db/queries/reports";
-import { describeShift, lastCompletedShift } from "@/lib/report-shifts";
+import { describeShift, lastCompletedShift } from "@/lib/plant-time";
 import { Forbidden, PageHeader } from "@/components/ui/page";
 
 export const metadata: Metadata = { title: "Reports" };

@@ -6,7 +6,7 @@ import { getDb } from "@/db/client";
 import { getPlantSettings } from "@/db/queries/equipment";
 import { addShift, addShiftInputSchema, alertingSettingsSchema, removeShift, saveAlertingSettings } from "@/db/queries/oncall";
 import { badInput } from "@/lib/errors";
-import { fromPlantLocalInput } from "@/lib/shifts";
+import { fromPlantLocalInput } from "@/lib/plant-time";
 import { defineAction } from "../action";
 
 /** The form sends plant-local "YYYY-MM-DDTHH:MM"; the API may send epoch ms. */

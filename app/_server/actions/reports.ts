@@ -9,7 +9,7 @@ import { getHandoverReport, getRecipient, queueOutboxMail } from "@/db/queries/r
 import { getEnv } from "@/db/env";
 import { AppError, badInput } from "@/lib/errors";
 import { can, type Role } from "@/lib/permissions";
-import { isValidDate } from "@/lib/report-shifts";
+import { isValidDate } from "@/lib/plant-time";
 import { handoverSubject, handoverText } from "@/lib/reports/handover-text";
 import { STATE_SYMBOLS, STATE_WORDS } from "@/lib/vocabulary";
 import { defineAction } from "../action";

@@ -2,7 +2,8 @@
 // with at most 20 % jitter. Expected values worked by hand (base × 2^(attempt−1)).
 import { describe, expect, it } from "vitest";
 import { retryBackoffMs } from "../../../db/queries/outbox";
-import { outboxMessageId, previousPlantDay } from "../../../ingest/mailer";
+import { outboxMessageId } from "../../../ingest/mailer";
+import { previousPlantDay } from "../../../lib/plant-time";
 
 describe("retryBackoffMs", () => {
   it("doubles from the base: 5 s, 10 s, 20 s, 40 s", () => {

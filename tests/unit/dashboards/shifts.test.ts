@@ -1,8 +1,8 @@
-// Shift boundaries and plant clock times (lib/shifts.ts). UK clock changes: last Sunday of
+// Shift boundaries and plant clock times (lib/plant-time.ts). UK clock changes: last Sunday of
 // March and of October at 01:00 UTC (UK Summer Time rules, from memory); 2026: 29 March and
 // 25 October.
 import { describe, expect, it } from "vitest";
-import { formatPlantSince, formatPlantTime, fromPlantLocalInput, isValidTimeZone, shiftAt, shiftsBetween, toPlantLocalInput } from "@/lib/shifts";
+import { formatPlantSince, formatPlantTime, fromPlantLocalInput, isValidTimeZone, shiftAt, shiftsBetween, toPlantLocalInput } from "@/lib/plant-time";
 import { DEFAULT_PLANT_SETTINGS } from "@/lib/plant-settings";
 
 const london = { timeZone: "Europe/London", shifts: DEFAULT_PLANT_SETTINGS.shifts };

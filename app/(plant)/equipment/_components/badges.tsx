@@ -1,19 +1,11 @@
 // The equipment pages speak the one set of state codes (components/ui/state-badge.tsx): a
 // neutralizer's state, a check's result and a due date map onto normal / near / over / silent.
 import { StateBadge } from "@/components/ui/state-badge";
-import type { PointState } from "@/lib/vocabulary";
-import { NEUTRALIZER_STATE_LABELS, type NeutralizerState } from "@/db/queries/equipment";
+import { NEUTRALIZER_STATE_CODE, NEUTRALIZER_STATE_WORDS, type NeutralizerState } from "@/lib/vocabulary";
 import { fmtDaysLeft, wholeDaysLeft } from "./format";
 
-const STATE_CODE: Record<NeutralizerState, PointState> = {
-  in_service: "normal",
-  needs_cleaning: "near",
-  faulty: "over",
-  removed: "silent",
-};
-
 export function NeutralizerStateBadge({ state }: { state: NeutralizerState }) {
-  return <StateBadge state={STATE_CODE[state]} label={NEUTRALIZER_STATE_LABELS[state]} />;
+  return <StateBadge state={NEUTRALIZER_STATE_CODE[state]} label={NEUTRALIZER_STATE_WORDS[state]} />;
 }
 
 export function CheckResultBadge({ passed }: { passed: boolean }) {

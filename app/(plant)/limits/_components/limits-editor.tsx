@@ -10,7 +10,7 @@ import { inputClass } from "@/components/forms/action-form";
 import { SeverityTag } from "@/components/alerts/alert-bits";
 import { RULE_KIND_WORDS, SEVERITY_WORDS, type RuleKind, type Severity } from "@/lib/vocabulary";
 import { EmptyState } from "@/components/ui/page";
-import { fromPlantLocalInput, toPlantLocalInput } from "@/lib/shifts";
+import { fromPlantLocalInput, toPlantLocalInput } from "@/lib/plant-time";
 import type { ReplayResult } from "@/db/queries/rules";
 import { HALL_KINDS, NOT_LINE_GATED, PARAM_FIELDS, summarizeParams } from "./rule-fields";
 import { ReplayView } from "./replay-view";

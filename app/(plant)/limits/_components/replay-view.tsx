@@ -5,7 +5,7 @@ import clsx from "clsx";
 import { SeverityTag } from "@/components/alerts/alert-bits";
 import { formatAlertValue, formatDuration } from "@/lib/vocabulary";
 import type { RuleKind } from "@/lib/vocabulary";
-import { formatPlantTime } from "@/lib/shifts";
+import { formatPlantTime } from "@/lib/plant-time";
 import type { ReplayResult, ReplaySide } from "@/db/queries/rules";
 
 export function ReplayView({ result, timeZone, kind, stale }: { result: ReplayResult; timeZone: string; kind: RuleKind; stale: boolean }) {

@@ -6,7 +6,7 @@ import { requirePagePermission } from "@/app/_server/session";
 import { getDb } from "@/db/client";
 import { getHandoverReport, getPlantSettings, listHandoverRecipients } from "@/db/queries/reports";
 import { can } from "@/lib/permissions";
-import { describeShift, nextShift, previousShift, shiftContaining } from "@/lib/report-shifts";
+import { describeShift, nextShift, previousShift, shiftAt } from "@/lib/plant-time";
 import { formatDayTime } from "@/lib/reports/format";
 import { handoverParamsSchema, resolveHandoverParams } from "@/lib/reports/params";
 import { Forbidden, PageHeader } from "@/components/ui/page";
@@ -39,7 +39,7 @@ export default async function HandoverPage({ searchParams }: { searchParams: Pro
   const which = resolveHandoverParams(parsed.success ? parsed.data : {}, settings, now);
   const report = parsed.success ? await getHandoverReport(db, which, now) : null;
   if (parsed.success && !report) errors.shift = `The plant has no shift called “${which.shift}”`;
-  const current = shiftContaining(now, settings);
+  const current = shiftAt(now, settings);
 
   const controls = (
     <form method="get" className="mb-4 flex flex-wrap items-end gap-3 print:hidden" data-testid="handover-controls">

@@ -5,7 +5,7 @@ import { requirePagePermission } from "@/app/_server/session";
 import { getDb } from "@/db/client";
 import { getPlantLayout } from "@/db/queries/plant";
 import { getPlantSettings, getWeeklyReport } from "@/db/queries/reports";
-import { addDaysToDate, localDateOf, weekWindow } from "@/lib/report-shifts";
+import { addDaysToDate, localDateOf, weekWindow } from "@/lib/plant-time";
 import { formatDayTime, formatTs } from "@/lib/reports/format";
 import { resolveWeek, weeklyParamsSchema } from "@/lib/reports/params";
 import { Forbidden, PageHeader } from "@/components/ui/page";
