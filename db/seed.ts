@@ -9,6 +9,7 @@ import { closeDb, getDb, type Db } from "./client";
 import { getEnv } from "./env";
 import * as s from "./schema";
 import { createPerson } from "./queries/people";
+import { seedDemoSurveys } from "./queries/surveys-demo";
 import {
   DEMO_AREAS,
   DEMO_LINES,
@@ -178,6 +179,7 @@ export async function seedDemoPlant(db: Db, opts: { nowMs?: number; secretsFile?
     rows.push({ personId: ids["admin@harrowfen.example"], startTs: start + w * weekMs, endTs: start + (w + 1) * weekMs, escalationOrder: 3 });
   }
   await db.insert(s.oncallShifts).values(rows);
+  await seedDemoSurveys(db, now);
 
   const file = opts.secretsFile ?? deviceSecretsFile();
   fs.mkdirSync(path.dirname(file), { recursive: true });
