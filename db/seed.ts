@@ -17,9 +17,12 @@ import {
   DEMO_PLANT_NAME,
   fieldMeterCode,
   loggerCode,
+  DEMO_CHECKS,
+  demoNeutralizer,
   neutralizerTag,
   speedGatewayCode,
 } from "../lib/demo-plant";
+import { defaultCheckLimits, judgeCheck, STANDARD_PLATE } from "../lib/physics/neutralizer";
 import { generateDeviceSecret, hashDeviceSecret } from "../lib/device-secrets";
 import { DEFAULT_PLANT_SETTINGS } from "../lib/plant-settings";
 
@@ -104,16 +107,16 @@ export async function seedDemoPlant(db: Db, opts: { nowMs?: number; secretsFile?
           calibrationDue: calibrationDue[(li + pi) % calibrationDue.length],
           createdAt: now,
         });
-        // a neutralizer just upstream of each measuring point
-        const blower = l.kind === "bag_machine" && pi === 1;
-        await tx.insert(s.neutralizers).values({
+        // a neutralizer just upstream of each measuring point, of the kind the demo plant gives it
+        const nz = demoNeutralizer(l.slug, p.slug);
+        const [nzRes] = await tx.insert(s.neutralizers).values({
           tag: neutralizerTag(l.slug, p.slug),
-          kind: blower ? "ionized_air_blower" : "ionizing_bar",
-          lengthMm: blower ? null : 1400,
-          powerUnit: "HV power unit, 7 kV AC",
-          outputKv: 7,
-          airAssisted: blower,
-          mountingDistanceMm: blower ? 300 : 30,
+          kind: nz.kind,
+          lengthMm: nz.lengthMm,
+          powerUnit: nz.powerUnit,
+          outputKv: nz.outputKv,
+          airAssisted: nz.airAssisted,
+          mountingDistanceMm: nz.mountingDistanceMm,
           pointId,
           installedOn: "2024-03-04",
           cleaningIntervalDays: l.solventName ? 7 : 14,
@@ -121,6 +124,34 @@ export async function seedDemoPlant(db: Db, opts: { nowMs?: number; secretsFile?
           lastCleanedTs: now - ((li * 3 + pi * 2) % 12) * 86_400_000,
           state: "in_service",
         });
+        // its charged-plate checks on the standard plate, judged against its kind's default limits
+        for (const c of DEMO_CHECKS[`${l.slug}/${p.slug}`] ?? []) {
+          const judgement = judgeCheck(c, defaultCheckLimits(nz.kind));
+          const [checkRes] = await tx.insert(s.checks).values({
+            neutralizerId: nzRes.insertId,
+            ts: now - c.daysAgo * 86_400_000,
+            method: "charged_plate",
+            plateDistanceMm: c.plateDistanceMm,
+            plateCapacitancePf: STANDARD_PLATE.capacitancePf,
+            plateWidthMm: STANDARD_PLATE.widthMm,
+            plateLengthMm: STANDARD_PLATE.lengthMm,
+            decayPosS: c.decayPosS,
+            decayNegS: c.decayNegS,
+            offsetV: c.offsetV,
+            instrument: "Charged-plate monitor CPM-1 (demo)",
+            passed: judgement.pass,
+            failReasons: judgement.failures.join(" ").slice(0, 300) || null,
+            limitsUsed: JSON.stringify({ ...defaultCheckLimits(nz.kind), source: "default" }),
+          });
+          await tx.insert(s.equipmentEvents).values({
+            subjectType: "neutralizer",
+            subjectId: nzRes.insertId,
+            ts: now - c.daysAgo * 86_400_000,
+            kind: "check",
+            text: `${judgement.pass ? "Passed" : "Failed"} charged-plate check.`,
+            checkId: checkRes.insertId,
+          });
+        }
       }
     }
 

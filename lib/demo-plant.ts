@@ -1,5 +1,6 @@
 // The invented demo plant, "Harrow Fen Packaging", a flexible-packaging converter (PRODUCT.md §10).
 // Pure data: the seed writes it to the database and the simulators play it. All names invented.
+import type { NeutralizerKind } from "./physics/neutralizer-kinds";
 
 export type DemoPoint = {
   slug: string;
@@ -151,3 +152,68 @@ export const DEMO_PEOPLE = [
   { email: "admin@harrowfen.example", name: "Jo Whitlock", role: "admin", password: "admin-demo-2026" },
   { email: "oncall@harrowfen.example", name: "Dana Fairweather", role: "engineer", password: "oncall-demo-2026" },
 ] as const;
+
+// ---------------------------------------------------------------------------------------------
+// Demo neutralizers and charged-plate checks (invented). Kinds and distances follow each kind's
+// usual range (lib/physics/neutralizer-kinds.ts): long-range pulsed-DC bars at the big unwinds
+// and rewinds, AC bars close in along the web, a blower at the bag stacker, a passive cord on
+// the bag machine's unwind and a nozzle at the label dispense edge.
+
+export type DemoNeutralizer = {
+  kind: NeutralizerKind;
+  mountingDistanceMm: number;
+  airAssisted: boolean;
+  lengthMm: number | null;
+  powerUnit: string | null;
+  outputKv: number | null;
+};
+
+const DEMO_NEUTRALIZER_OVERRIDES: Record<string, Omit<DemoNeutralizer, "lengthMm"> & { lengthMm?: number | null }> = {
+  "gravure-1/unwind": { kind: "pulsed_dc_bar", mountingDistanceMm: 200, airAssisted: false, powerUnit: "Pulsed-DC controller, ±12 kV", outputKv: 12 },
+  "gravure-1/rewind": { kind: "pulsed_dc_bar", mountingDistanceMm: 250, airAssisted: false, powerUnit: "Pulsed-DC controller, ±12 kV", outputKv: 12 },
+  "flexo-2/unwind": { kind: "air_assisted_bar", mountingDistanceMm: 120, airAssisted: true, powerUnit: "HV power unit, 7 kV AC", outputKv: 7 },
+  "flexo-2/rewind": { kind: "steady_dc_bar", mountingDistanceMm: 100, airAssisted: false, powerUnit: "Steady-DC supply, ±10 kV", outputKv: 10 },
+  "laminator-1/rewind": { kind: "pulsed_dc_bar", mountingDistanceMm: 300, airAssisted: false, powerUnit: "Pulsed-DC controller, ±12 kV", outputKv: 12 },
+  "slitter-1/unwind": { kind: "pulsed_dc_bar", mountingDistanceMm: 180, airAssisted: false, powerUnit: "Pulsed-DC controller, ±12 kV", outputKv: 12 },
+  "bagger-1/unwind": { kind: "passive_cord", mountingDistanceMm: 15, airAssisted: false, powerUnit: null, outputKv: null },
+  "bagger-1/seal-exit": { kind: "blower", mountingDistanceMm: 300, airAssisted: true, lengthMm: null, powerUnit: "HV power unit, 7 kV AC", outputKv: 7 },
+  "labeller-1/dispense": { kind: "nozzle", mountingDistanceMm: 50, airAssisted: true, lengthMm: null, powerUnit: "HV power unit, 7 kV AC", outputKv: 7 },
+};
+
+/** The neutralizer just upstream of a demo point: an AC bar at 30 mm unless listed above. */
+export function demoNeutralizer(lineSlug: string, pointSlug: string): DemoNeutralizer {
+  const o = DEMO_NEUTRALIZER_OVERRIDES[`${lineSlug}/${pointSlug}`];
+  if (!o) return { kind: "ac_bar", mountingDistanceMm: 30, airAssisted: false, lengthMm: 1400, powerUnit: "HV power unit, 7 kV AC", outputKv: 7 };
+  return { ...o, lengthMm: o.lengthMm === undefined ? 1400 : o.lengthMm };
+}
+
+export type DemoCheck = {
+  /** days before the seed time */
+  daysAgo: number;
+  decayPosS: number;
+  decayNegS: number;
+  offsetV: number;
+  /** test distance, mm */
+  plateDistanceMm: number;
+};
+
+/**
+ * Charged-plate checks of a few demo neutralizers, on the standard 20 pF, 150 × 150 mm plate.
+ * The laminator's rewind bar has slowed since its last cleaning (1.3 s → 3.6 s): still inside
+ * the pulsed-DC default of 5 s, but about ×2.8 slower than its own baseline.
+ */
+export const DEMO_CHECKS: Record<string, DemoCheck[]> = {
+  "gravure-1/unwind": [
+    { daysAgo: 95, decayPosS: 1.4, decayNegS: 1.5, offsetV: 6, plateDistanceMm: 200 },
+    { daysAgo: 5, decayPosS: 1.6, decayNegS: 1.7, offsetV: -9, plateDistanceMm: 200 },
+  ],
+  "gravure-1/infeed": [{ daysAgo: 40, decayPosS: 0.6, decayNegS: 0.7, offsetV: 4, plateDistanceMm: 30 }],
+  "flexo-2/print-exit": [{ daysAgo: 30, decayPosS: 0.7, decayNegS: 0.8, offsetV: -12, plateDistanceMm: 30 }],
+  "laminator-1/rewind": [
+    { daysAgo: 9, decayPosS: 1.2, decayNegS: 1.3, offsetV: 8, plateDistanceMm: 300 },
+    { daysAgo: 6, decayPosS: 1.5, decayNegS: 1.7, offsetV: 10, plateDistanceMm: 300 },
+    { daysAgo: 3, decayPosS: 2.4, decayNegS: 2.7, offsetV: 14, plateDistanceMm: 300 },
+    { daysAgo: 1, decayPosS: 3.2, decayNegS: 3.6, offsetV: 18, plateDistanceMm: 300 },
+  ],
+  "bagger-1/seal-exit": [{ daysAgo: 60, decayPosS: 3.1, decayNegS: 3.4, offsetV: -21, plateDistanceMm: 300 }],
+};

@@ -3,9 +3,12 @@
  * the equipment pages. They do not block saving: the engineer may know better (a bar mounted
  * far away on purpose while a guard is fitted); they say what is likely wrong and why.
  *
- * The distances are rules of thumb of static-control practice, not limits from a standard.
+ * The distances are rules of thumb of static-control practice, not limits from a standard; each
+ * kind's range lives with the kind (lib/physics/neutralizer-kinds.ts).
  * Pure: no I/O.
  */
+
+import { mountingRangeMm, NEUTRALIZER_KIND_SPECS, type NeutralizerKind } from "./physics/neutralizer-kinds";
 
 export type EquipmentWarning = {
   /** stable code for tests and for grouping */
@@ -18,7 +21,7 @@ export type EquipmentWarning = {
 };
 
 export type NeutralizerSettings = {
-  kind: "ionizing_bar" | "ionized_air_blower" | "ionizing_nozzle" | "other";
+  kind: NeutralizerKind;
   airAssisted: boolean;
   mountingDistanceMm: number | null;
   lengthMm: number | null;
@@ -31,61 +34,57 @@ export type NeutralizerSettings = {
   solventLine?: boolean;
 };
 
-/**
- * An ionizing bar without air assistance works only close to the web: about 50 mm (2 in) is
- * the usual upper bound for a passive or powered AC bar; farther away the ions recombine
- * before they reach the web (common practice, from memory).
- */
-export const PASSIVE_BAR_MAX_DISTANCE_MM = 50;
-/** Closer than about 10 mm a bar can touch a fluttering web or spark to it (common practice, from memory). */
-export const BAR_MIN_DISTANCE_MM = 10;
-/** Ionized-air blowers reach some hundreds of mm; past about 1 m little is left (common practice, from memory). */
-export const BLOWER_MAX_DISTANCE_MM = 1000;
 /** A field meter's reading is only right at the distance it was calibrated for; 10 % or 2 mm of slack. */
 export const FIELD_METER_DISTANCE_TOLERANCE = { fraction: 0.1, mm: 2 };
 
 const COMMON = "common practice";
 
-export function neutralizerWarnings(n: NeutralizerSettings): EquipmentWarning[] {
-  const out: EquipmentWarning[] = [];
+/**
+ * Mounting distance against the kind's usual range (lib/physics/neutralizer-kinds.ts): too far
+ * and the ions recombine or spread before they reach the web; too close and a fluttering web
+ * can touch the emitters or draw sparks from them.
+ */
+function distanceWarnings(n: NeutralizerSettings): EquipmentWarning[] {
   const d = n.mountingDistanceMm;
-  if (n.kind === "ionizing_bar" && d !== null) {
-    if (!n.airAssisted && d > PASSIVE_BAR_MAX_DISTANCE_MM) {
-      out.push({
-        code: "bar_too_far",
-        field: "mountingDistanceMm",
-        message: `An ionizing bar without air assistance is mounted ${fmt(d)} mm from the web. Without air to carry the ions it works only within about ${PASSIVE_BAR_MAX_DISTANCE_MM} mm (2 in); at ${fmt(d)} mm it will remove little charge. Move it closer or use an air-assisted bar.`,
-        source: COMMON,
-      });
+  const spec = NEUTRALIZER_KIND_SPECS[n.kind];
+  const { minMm, maxMm } = mountingRangeMm(n.kind, n.airAssisted);
+  if (d === null) {
+    if (maxMm !== null && n.state !== "removed") {
+      return [{ code: "no_distance", field: "mountingDistanceMm", message: `Record the mounting distance to the web: a ${spec.label.toLowerCase()}'s effect depends on it (usually ${range(minMm, maxMm)}).`, source: COMMON }];
     }
-    if (d < BAR_MIN_DISTANCE_MM) {
-      out.push({
-        code: "bar_too_close",
-        field: "mountingDistanceMm",
-        message: `${fmt(d)} mm is very close: a fluttering web can touch the emitters or draw sparks from them. About ${BAR_MIN_DISTANCE_MM}–${PASSIVE_BAR_MAX_DISTANCE_MM} mm is usual.`,
-        source: COMMON,
-      });
-    }
+    return [];
   }
-  if (n.kind === "ionized_air_blower" && d !== null && d > BLOWER_MAX_DISTANCE_MM) {
+  const out: EquipmentWarning[] = [];
+  if (maxMm !== null && d > maxMm) {
     out.push({
-      code: "blower_too_far",
+      code: "too_far",
       field: "mountingDistanceMm",
-      message: `A blower ${fmt(d)} mm away reaches the target with few ions left; within about ${BLOWER_MAX_DISTANCE_MM} mm is usual.`,
-      source: COMMON,
+      message: `A ${spec.label.toLowerCase()} is usually mounted ${range(minMm, maxMm)} from the web; at ${fmt(d)} mm it will remove little charge. Move it closer${n.kind === "ac_bar" ? ", or use a pulsed-DC or air-assisted bar where it must sit farther away" : ""}.`,
+      source: spec.source,
     });
   }
-  if (n.kind === "ionizing_nozzle" && d !== null && d > 300) {
+  if (minMm !== null && d < minMm) {
     out.push({
-      code: "nozzle_too_far",
+      code: "too_close",
       field: "mountingDistanceMm",
-      message: `A nozzle ${fmt(d)} mm away spreads its ionized air too thin; nozzles work at short range, usually within about 300 mm.`,
-      source: COMMON,
+      message:
+        n.kind === "pulsed_dc_bar"
+          ? `${fmt(d)} mm is close for a pulsed-DC bar: at short range its pulses leave bands of alternating charge on the web. ${range(minMm, maxMm)} is usual; use an AC bar close in.`
+          : `${fmt(d)} mm is very close: a fluttering web can touch the emitters or draw sparks from them. ${range(minMm, maxMm)} is usual for a ${spec.label.toLowerCase()}.`,
+      source: spec.source,
     });
   }
-  if (n.kind === "ionizing_bar" && n.airAssisted === false && d === null && n.state !== "removed") {
-    out.push({ code: "no_distance", field: "mountingDistanceMm", message: "Record the mounting distance to the web: a bar's effect depends on it.", source: COMMON });
-  }
+  return out;
+}
+
+function range(minMm: number | null, maxMm: number | null): string {
+  if (minMm !== null && maxMm !== null) return `${fmt(minMm)}–${fmt(maxMm)} mm`;
+  if (maxMm !== null) return `within ${fmt(maxMm)} mm`;
+  return "at a distance that suits it";
+}
+
+export function neutralizerWarnings(n: NeutralizerSettings): EquipmentWarning[] {
+  const out: EquipmentWarning[] = [...distanceWarnings(n)];
   if (n.pointId === null && n.state !== "removed") {
     out.push({
       code: "no_point",

@@ -29,7 +29,16 @@ export type ExplainerResult = {
 export const PERCEPTION_WORDS: Record<HumanPerception, string> = {
   "not felt": "would most likely not feel a discharge",
   felt: "would feel a discharge (a small prick) on touching earthed metal",
-  "painful/visible": "would get a painful discharge, heard and often seen as a spark",
+  heard: "would get a discharge that is felt and heard as a snap",
+  seen: "would get a painful discharge, felt, heard and seen as a spark",
+};
+
+/** Short words for the results table. */
+export const PERCEPTION_SHORT: Record<HumanPerception, string> = {
+  "not felt": "would not feel it",
+  felt: "would feel it",
+  heard: "would feel and hear it",
+  seen: "would see the spark",
 };
 
 export function explainCharge(input: ExplainerInput): ExplainerResult {

@@ -2,7 +2,7 @@
 // Charge reading explainer: what a field-meter reading means for the surface, the air and people.
 import { useMemo, useState } from "react";
 import { fieldMessages } from "./number-input";
-import { explainCharge, explainerSchema, type ExplainerFields } from "./charge-explainer-model";
+import { explainCharge, explainerSchema, PERCEPTION_SHORT, type ExplainerFields } from "./charge-explainer-model";
 import { TRADE_FACTS } from "./trade-facts";
 import { Answer, CalcCard, Caution, FieldGrid, Method, NumberInput, Presets, Results } from "./calc-ui";
 
@@ -31,7 +31,7 @@ export function ChargeExplainer() {
 
       {r ? (
         <>
-          <Answer tone={r.impossible ? "over" : r.breakdownShare >= 0.5 || r.perception === "painful/visible" ? "near" : "normal"} testId="charge-answer">
+          <Answer tone={r.impossible ? "over" : r.breakdownShare >= 0.5 || r.perception === "seen" ? "near" : "normal"} testId="charge-answer">
             {r.words}
           </Answer>
           <div aria-label="Share of the air-breakdown ceiling" className="space-y-1">
@@ -49,7 +49,7 @@ export function ChargeExplainer() {
               { label: "Field at the surface", value: `${(r.fieldVPerM / 1e5).toFixed(2)} kV/cm`, note: `${Math.round(r.fieldVPerM).toLocaleString("en-GB")} V/m`, testId: "field" },
               { label: "Surface charge density", value: `${r.surfaceChargeUcPerM2.toFixed(2).replace("-", "\u2212")} µC/m²`, note: "single-sided (web over earthed metal)", testId: "sigma" },
               { label: "Share of breakdown ceiling", value: `${(r.breakdownShare * 100).toFixed(1)} %`, note: "3 MV/m, about 26.5 µC/m²", testId: "share" },
-              { label: "A person charged to this level", value: r.perception === "not felt" ? "would not feel it" : r.perception === "felt" ? "would feel it" : "painful spark", testId: "perception" },
+              { label: "A person charged to this level", value: PERCEPTION_SHORT[r.perception], note: "felt ~2–3 kV · heard ~5 kV · seen ~8–10 kV (common practice)", testId: "perception" },
             ]}
           />
         </>

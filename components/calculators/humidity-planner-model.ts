@@ -9,6 +9,7 @@ import {
   humidityRatioKgPerKg,
   indoorRhAfterHeatingPct,
   rhFromHumidityRatioPct,
+  STANDARD_PRESSURE_PA,
   TRIPLE_POINT_C,
   vapourPressurePa,
 } from "@/lib/physics";
@@ -21,6 +22,7 @@ export const plannerSchema = z.object({
   indoorTempC: numberField({ what: "hall temperature", unit: "°C", min: 5, max: 45, example: "21" }),
   targetRhPct: numberField({ what: "target RH", unit: "%", min: 1, max: 95, example: "45" }),
   airflowM3PerH: numberField({ what: "outdoor air flow", unit: "m³/h", min: 0, max: 2_000_000, example: "9000" }),
+  flowAt: z.enum(["outdoor", "hall"], { message: "Choose where the air flow is measured" }),
   humidifierKgPerH: z.union([z.literal("").transform(() => null), numberField({ what: "humidifier capacity", unit: "kg/h", min: 0, max: 100_000, example: "12" })]),
 });
 
@@ -41,6 +43,10 @@ export type PlannerResult = {
   condenses: boolean;
   targetDewPointC: number;
   targetAbsoluteGPerM3: number;
+  /** Mass of dry air the flow carries, kg/h, at the conditions the flow is measured at. */
+  dryAirKgPerH: number;
+  /** The same flow figure read at the other conditions (outdoor ↔ hall), kg/h of dry air. */
+  dryAirOtherKgPerH: number;
   waterKgPerH: number;
   /** With the humidifier's capacity: the RH it reaches and the share of the need it covers. */
   withHumidifier: { rhReachedPct: number; shareOfNeed: number } | null;
@@ -57,11 +63,19 @@ export function planHumidity(input: PlannerInput): PlannerResult {
   const indoorRhPct = indoorRhAfterHeatingPct({ outdoorTempC, outdoorRhPct, indoorTempC, basis });
   const other = basis === "water" ? "ice" : "water";
   const indoorRhOtherBasisPct = outdoorTempC <= TRIPLE_POINT_C ? indoorRhAfterHeatingPct({ outdoorTempC, outdoorRhPct, indoorTempC, basis: other }) : null;
-  const waterKgPerH = humidifierWaterKgPerH({ airflowM3PerH, indoorTempC, fromRhPct: indoorRhPct, toRhPct: targetRhPct });
+  // A cubic metre of cold outdoor air holds more dry air than one of warm hall air (v = Rda·T·(1 +
+  // 1.607858·W)/p): the same m³/h is about 10 % more air at −10 °C than at 21 °C, 14 % at −20 °C.
+  const dryAirOutdoor = dryAirMassFlowKgPerH(airflowM3PerH, outdoorTempC, outdoorRhPct, STANDARD_PRESSURE_PA, basis);
+  const dryAirHall = dryAirMassFlowKgPerH(airflowM3PerH, indoorTempC, Math.min(100, indoorRhPct));
+  const dryAirKgPerH = input.flowAt === "outdoor" ? dryAirOutdoor : dryAirHall;
+  const dryAirOtherKgPerH = input.flowAt === "outdoor" ? dryAirHall : dryAirOutdoor;
+  const hallWaterKgPerH = humidifierWaterKgPerH({ airflowM3PerH, indoorTempC, fromRhPct: Math.min(100, indoorRhPct), toRhPct: targetRhPct });
+  // the water per kg of dry air is the same whichever way the flow is read; only the mass differs
+  const waterKgPerH = dryAirHall > 0 ? hallWaterKgPerH * (dryAirKgPerH / dryAirHall) : 0;
 
   let withHumidifier: PlannerResult["withHumidifier"] = null;
   if (humidifierKgPerH !== null && airflowM3PerH > 0) {
-    const dryAir = dryAirMassFlowKgPerH(airflowM3PerH, indoorTempC, indoorRhPct);
+    const dryAir = dryAirKgPerH;
     const w = humidityRatioKgPerKg(indoorTempC, indoorRhPct) + Math.min(humidifierKgPerH, waterKgPerH) / dryAir;
     withHumidifier = {
       rhReachedPct: Math.min(targetRhPct, Math.max(indoorRhPct, rhFromHumidityRatioPct(indoorTempC, w))),
@@ -78,7 +92,7 @@ export function planHumidity(input: PlannerInput): PlannerResult {
   } else {
     words =
       `${outdoorWords}, heated to ${fmt(indoorTempC)} °C, holds only ${fmt(indoorRhPct)} % RH. ` +
-      `To bring ${Math.round(airflowM3PerH).toLocaleString("en-GB")} m³/h of it to ${fmt(targetRhPct, 0)} % RH, add about ${fmt(waterKgPerH, waterKgPerH < 10 ? 1 : 0)} kg of water per hour (≈ ${fmt(waterKgPerH, waterKgPerH < 10 ? 1 : 0)} L/h, ${Math.round(waterKgPerH * 24).toLocaleString("en-GB")} L a day).`;
+      `To bring ${Math.round(airflowM3PerH).toLocaleString("en-GB")} m³/h of it (measured ${input.flowAt === "outdoor" ? "at the outdoor intake" : "in the hall"}) to ${fmt(targetRhPct, 0)} % RH, add about ${fmt(waterKgPerH, waterKgPerH < 10 ? 1 : 0)} kg of water per hour (≈ ${fmt(waterKgPerH, waterKgPerH < 10 ? 1 : 0)} L/h, ${Math.round(waterKgPerH * 24).toLocaleString("en-GB")} L a day).`;
     if (withHumidifier && humidifierKgPerH !== null) {
       words +=
         withHumidifier.shareOfNeed >= 1
@@ -99,6 +113,8 @@ export function planHumidity(input: PlannerInput): PlannerResult {
     condenses: rawIndoor > 100,
     targetDewPointC: dewOrFrostPointC(indoorTempC, targetRhPct),
     targetAbsoluteGPerM3: absoluteHumidityGPerM3(indoorTempC, targetRhPct),
+    dryAirKgPerH,
+    dryAirOtherKgPerH,
     waterKgPerH,
     withHumidifier,
     words,

@@ -18,6 +18,7 @@ export function HumidityPlanner({ halls }: { halls: HallPreset[] }) {
     indoorTempC: String(first?.tempSetpointC ?? 21),
     targetRhPct: "45",
     airflowM3PerH: String(first?.airflowM3PerH ?? 9000),
+    flowAt: "outdoor",
     humidifierKgPerH: first ? String(first.humidifierKgPerH) : "",
   });
   const [hall, setHall] = useState<string | null>(first?.name ?? null);
@@ -66,6 +67,17 @@ export function HumidityPlanner({ halls }: { halls: HallPreset[] }) {
         <NumberInput id="indoorTempC" label="Hall temperature" unit="°C" value={fields.indoorTempC} onChange={set("indoorTempC")} error={errors.indoorTempC} hint={hall ? `${hall} setpoint` : undefined} />
         <NumberInput id="targetRhPct" label="Target RH in the hall" unit="%" value={fields.targetRhPct} onChange={set("targetRhPct")} error={errors.targetRhPct} />
         <NumberInput id="airflowM3PerH" label="Outdoor air brought in" unit="m³/h" value={fields.airflowM3PerH} onChange={set("airflowM3PerH")} error={errors.airflowM3PerH} hint="Fresh-air flow of the hall's ventilation" />
+        <SelectInput
+          id="flowAt"
+          label="The air flow is measured"
+          value={fields.flowAt}
+          onChange={set("flowAt")}
+          error={errors.flowAt}
+          hint="Cold air is denser: the same m³/h carries about 10 % more air at −10 °C outdoors than in a 21 °C hall."
+        >
+          <option value="outdoor">At the outdoor intake (cold)</option>
+          <option value="hall">At hall conditions (supply air, warm)</option>
+        </SelectInput>
         <NumberInput id="humidifierKgPerH" label="Humidifier capacity (optional)" unit="kg/h" value={fields.humidifierKgPerH} onChange={set("humidifierKgPerH")} error={errors.humidifierKgPerH} hint="Leave empty to see only the need" />
       </FieldGrid>
 
@@ -82,6 +94,12 @@ export function HumidityPlanner({ halls }: { halls: HallPreset[] }) {
             rows={[
               { label: "Indoor RH after heating", value: `${f(result.indoorRhPct)} %`, note: result.indoorRhOtherBasisPct !== null ? `over ${fields.basis === "water" ? "ice" : "water"} the same figure gives ${f(result.indoorRhOtherBasisPct)} %` : undefined, testId: "indoor-rh" },
               { label: "Water to add", value: `${f(result.waterKgPerH)} kg/h`, testId: "water-kg-per-h" },
+              {
+                label: "Dry air carried",
+                value: `${Math.round(result.dryAirKgPerH).toLocaleString("en-GB")} kg/h`,
+                note: `the same m³/h read ${fields.flowAt === "outdoor" ? "in the hall" : "at the outdoor intake"} would be ${Math.round(result.dryAirOtherKgPerH).toLocaleString("en-GB")} kg/h (${f(Math.abs(result.dryAirKgPerH / result.dryAirOtherKgPerH - 1) * 100, 0)} % ${result.dryAirKgPerH > result.dryAirOtherKgPerH ? "less" : "more"})`,
+                testId: "dry-air",
+              },
               { label: result.outdoorDewIsFrost ? "Outdoor frost point" : "Outdoor dew point", value: `${f(result.outdoorDewPointC)} °C` },
               { label: "Outdoor absolute humidity", value: `${f(result.outdoorAbsoluteGPerM3, 2)} g/m³` },
               { label: "Hall absolute humidity, before", value: `${f(result.indoorAbsoluteGPerM3, 2)} g/m³` },
@@ -97,7 +115,7 @@ export function HumidityPlanner({ halls }: { halls: HallPreset[] }) {
         formula={
           <>
             pw = RHout · pws(Tout) &nbsp;·&nbsp; RHin = pw / pws(Tin)
-            <br />W = 0.621945 · pw / (p − pw) &nbsp;·&nbsp; ṁwater = (V̇ / v) · (Wtarget − Win)
+            <br />W = 0.621945 · pw / (p − pw) &nbsp;·&nbsp; ṁda = V̇ / v(T, W where the flow is measured) &nbsp;·&nbsp; ṁwater = ṁda · (Wtarget − Win)
             <br />pws: Hyland–Wexler over water (eq. 6) or over ice (eq. 5); v = Rda·T·(1 + 1.607858·W)/p
           </>
         }
@@ -105,7 +123,7 @@ export function HumidityPlanner({ halls }: { halls: HallPreset[] }) {
         assumptions={[
           "All the air comes in from outside and is heated without adding or removing moisture; people, processes and water-based inks add some, so this is the most water you would need.",
           "RH above 0 °C is always over water. Below 0 °C the two conventions differ by 10–20 % at −10 to −20 °C: use the basis your outdoor figure was measured on.",
-          "Sea-level pressure (101 325 Pa); the air flow is measured at hall conditions; the humidifier holds the temperature and all its water evaporates.",
+          "Sea-level pressure (101 325 Pa); the dry-air mass is taken at the conditions you say the flow is measured at (outdoor intake or hall); the humidifier holds the temperature and all its water evaporates.",
         ]}
       />
     </CalcCard>

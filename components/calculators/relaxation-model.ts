@@ -4,16 +4,44 @@ import { z } from "zod";
 import { classifySurfaceResistance, relaxationTimeS, type SurfaceResistanceClass } from "@/lib/physics";
 import { numberField } from "./number-input";
 
-export const relaxationSchema = z.object({
-  relativePermittivity: numberField({ what: "relative permittivity εr", unit: "", min: 1, max: 200, example: "2.3" }),
-  resistivityOhmM: numberField({ what: "volume resistivity", unit: "Ω·m", min: 0, max: 1e22, exclusiveMin: true, example: "1e10" }),
-  surfaceResistanceOhm: z.union([z.literal("").transform(() => null), numberField({ what: "surface resistance", unit: "Ω", min: 0, max: 1e20, example: "1e12" })]),
-});
+/** 1 Ω·cm = 0.01 Ω·m: datasheets usually give Ω·cm, and mixing the two is a 100× error. */
+export const OHM_CM_IN_OHM_M = 0.01;
+
+export const RESISTIVITY_UNITS = {
+  ohm_m: { label: "Ω·m", toOhmM: 1 },
+  ohm_cm: { label: "Ω·cm", toOhmM: OHM_CM_IN_OHM_M },
+} as const;
+export type ResistivityUnit = keyof typeof RESISTIVITY_UNITS;
+
+export const relaxationSchema = z
+  .object({
+    relativePermittivity: numberField({ what: "relative permittivity εr", unit: "", min: 1, max: 200, example: "2.3" }),
+    resistivityUnit: z.enum(["ohm_m", "ohm_cm"], { message: "Choose Ω·m or Ω·cm" }),
+    resistivity: z.string(),
+    surfaceResistanceOhm: z.union([z.literal("").transform(() => null), numberField({ what: "surface resistance", unit: "Ω", min: 0, max: 1e20, example: "1e12" })]),
+  })
+  .transform((v, ctx) => {
+    const unit = RESISTIVITY_UNITS[v.resistivityUnit];
+    // the same physical range (up to 1e22 Ω·m) in either unit
+    const field = numberField({ what: "volume resistivity", unit: unit.label, min: 0, max: 1e22 / unit.toOhmM, exclusiveMin: true, example: "1e10" }).safeParse(v.resistivity);
+    if (!field.success) {
+      ctx.issues.push({ code: "custom", message: field.error.issues[0].message, path: ["resistivity"], input: v.resistivity });
+      return z.NEVER;
+    }
+    return {
+      relativePermittivity: v.relativePermittivity,
+      resistivityUnit: v.resistivityUnit,
+      resistivityOhmM: field.data * unit.toOhmM,
+      surfaceResistanceOhm: v.surfaceResistanceOhm,
+    };
+  });
 
 export type RelaxationFields = { [K in keyof z.input<typeof relaxationSchema>]: string };
 export type RelaxationInput = z.output<typeof relaxationSchema>;
 
 export type RelaxationResult = {
+  /** the resistivity in SI units, whichever unit it was typed in */
+  resistivityOhmM: number;
   tauS: number;
   /** Time for the charge to fall to 10 % (τ·ln 10) and to 1 % (τ·ln 100), s. */
   toTenthS: number;
@@ -51,6 +79,7 @@ export function estimateRelaxation(input: RelaxationInput): RelaxationResult {
         ? "Charge lingers for seconds: enough to reach the next idler or the rewind."
         : "Charge stays for minutes or much longer: it goes into the roll with the web and must be removed by a neutralizer.";
   return {
+    resistivityOhmM: input.resistivityOhmM,
     tauS,
     toTenthS,
     toHundredthS,

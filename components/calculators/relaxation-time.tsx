@@ -4,10 +4,10 @@
 import { useMemo, useState } from "react";
 import { fieldMessages } from "./number-input";
 import { CLASS_WORDS, estimateRelaxation, formatSeconds, relaxationSchema, type RelaxationFields } from "./relaxation-model";
-import { Answer, CalcCard, FieldGrid, Method, NumberInput, Presets, Results } from "./calc-ui";
+import { Answer, CalcCard, FieldGrid, Method, NumberInput, Presets, Results, SelectInput } from "./calc-ui";
 
 export function RelaxationTime() {
-  const [fields, setFields] = useState<RelaxationFields>({ relativePermittivity: "2", resistivityOhmM: "1e10", surfaceResistanceOhm: "" });
+  const [fields, setFields] = useState<RelaxationFields>({ relativePermittivity: "2", resistivity: "1e10", resistivityUnit: "ohm_m", surfaceResistanceOhm: "" });
   const set = (k: keyof RelaxationFields) => (v: string) => setFields((p) => ({ ...p, [k]: v }));
   const parsed = useMemo(() => relaxationSchema.safeParse(fields), [fields]);
   const errors = parsed.success ? {} : fieldMessages(parsed.error.issues);
@@ -18,14 +18,26 @@ export function RelaxationTime() {
       <Presets
         label="Typical (order of magnitude):"
         items={[
-          { key: "example", label: "Worked example εr 2, 10¹⁰ Ω·m", onPick: () => setFields((p) => ({ ...p, relativePermittivity: "2", resistivityOhmM: "1e10" })) },
-          { key: "film", label: "Polyolefin film εr 2.3, 10¹⁶ Ω·m", onPick: () => setFields((p) => ({ ...p, relativePermittivity: "2.3", resistivityOhmM: "1e16" })) },
-          { key: "toluene", label: "Toluene εr 2.4, 10¹² Ω·m", onPick: () => setFields((p) => ({ ...p, relativePermittivity: "2.4", resistivityOhmM: "1e12" })) },
+          { key: "example", label: "Worked example εr 2, 10¹⁰ Ω·m", onPick: () => setFields((p) => ({ ...p, relativePermittivity: "2", resistivity: "1e10", resistivityUnit: "ohm_m" })) },
+          { key: "film", label: "Polyolefin film εr 2.3, 10¹⁶ Ω·m", onPick: () => setFields((p) => ({ ...p, relativePermittivity: "2.3", resistivity: "1e16", resistivityUnit: "ohm_m" })) },
+          { key: "toluene", label: "Toluene εr 2.4, 10¹² Ω·m", onPick: () => setFields((p) => ({ ...p, relativePermittivity: "2.4", resistivity: "1e12", resistivityUnit: "ohm_m" })) },
         ]}
       />
       <FieldGrid>
         <NumberInput id="relativePermittivity" label="Relative permittivity εr" value={fields.relativePermittivity} onChange={set("relativePermittivity")} error={errors.relativePermittivity} hint="Plastics about 2–4, water 80" />
-        <NumberInput id="resistivityOhmM" label="Volume resistivity ρ" unit="Ω·m" value={fields.resistivityOhmM} onChange={set("resistivityOhmM")} error={errors.resistivityOhmM} hint="Type powers of ten as 1e10 or 10^10" />
+        <NumberInput
+          id="resistivity"
+          label="Volume resistivity ρ"
+          unit={fields.resistivityUnit === "ohm_cm" ? "Ω·cm" : "Ω·m"}
+          value={fields.resistivity}
+          onChange={set("resistivity")}
+          error={errors.resistivity}
+          hint={r && fields.resistivityUnit === "ohm_cm" ? `= ${r.resistivityOhmM.toExponential(2).replace("e+", "e")} Ω·m (1 Ω·cm = 0.01 Ω·m)` : "Type powers of ten as 1e10 or 10^10"}
+        />
+        <SelectInput id="resistivityUnit" label="Unit of the resistivity" value={fields.resistivityUnit} onChange={set("resistivityUnit")} error={errors.resistivityUnit} hint="Datasheets usually give Ω·cm; the two differ 100×.">
+          <option value="ohm_m">Ω·m (SI)</option>
+          <option value="ohm_cm">Ω·cm (datasheets)</option>
+        </SelectInput>
         <NumberInput id="surfaceResistanceOhm" label="Surface resistance (optional)" unit="Ω" value={fields.surfaceResistanceOhm} onChange={set("surfaceResistanceOhm")} error={errors.surfaceResistanceOhm} hint="From a surface-resistance meter, e.g. 1e12" />
       </FieldGrid>
 
@@ -48,7 +60,7 @@ export function RelaxationTime() {
       <Method
         formula={
           <>
-            τ = ε0 · εr · ρ &nbsp;(ε0 = 8.854×10⁻¹² F/m) &nbsp;·&nbsp; q(t) = q0 · e^(−t/τ)
+            τ = ε0 · εr · ρ &nbsp;(ε0 = 8.854×10⁻¹² F/m, ρ in Ω·m; 1 Ω·cm = 0.01 Ω·m) &nbsp;·&nbsp; q(t) = q0 · e^(−t/τ)
             <br />class by surface resistance R: &lt; 10⁴ Ω conductive · 10⁴–10¹¹ Ω dissipative · ≥ 10¹¹ Ω insulative
           </>
         }

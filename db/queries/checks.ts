@@ -6,25 +6,30 @@ import { and, desc, eq, gte, inArray, sql } from "drizzle-orm";
 import { z } from "zod";
 import type { Db } from "../client";
 import { checks, equipmentEvents, lines, neutralizers, people, points, settings } from "../schema";
-import { NEUTRALIZER_KINDS } from "../schema/plant";
-import { DEFAULT_CHECK_LIMITS, fitDecayTrend, judgeCheck, projectDecayDueDate, type CheckJudgement, type CheckLimits } from "../../lib/physics/neutralizer";
+import { NEUTRALIZER_KIND_LABELS, NEUTRALIZER_KINDS, type NeutralizerKind } from "../../lib/physics/neutralizer-kinds";
+import {
+  CHECK_STANDARD_EDITIONS,
+  decaySlowdown,
+  defaultCheckLimits,
+  fitDecayTrend,
+  judgeCheck,
+  projectDecayDueDate,
+  type CheckJudgement,
+  type CheckLimits,
+  type DecaySlowdown,
+} from "../../lib/physics/neutralizer";
 
-export type NeutralizerKind = (typeof NEUTRALIZER_KINDS)[number];
-
-export const NEUTRALIZER_KIND_LABELS: Record<NeutralizerKind, string> = {
-  ionizing_bar: "Ionizing bar",
-  ionized_air_blower: "Ionized-air blower",
-  ionizing_nozzle: "Ionizing nozzle",
-  other: "Other",
-};
+export { NEUTRALIZER_KIND_LABELS, type NeutralizerKind };
 
 export const CHECK_LIMITS_KEY = "check_limits";
 
-/** Where each default limit comes from; shown beside the limits on the Checks page. */
+const { testMethodAnsi, testMethodIec, program } = CHECK_STANDARD_EDITIONS;
+
+/** Where each default limit comes from, with the editions cited; shown beside the limits on the Checks page. */
 export const CHECK_LIMIT_SOURCES = {
-  maxDecayS:
-    "Decay-time limits are user-defined: ANSI/ESD STM3.1 and IEC 61340-4-7 say how to measure the decay from 1000 V to 100 V on a charged plate but leave the acceptance limit to the user. The 20 s default is a plant starting value for bars and blowers on web lines, not a figure from the standards.",
-  maxOffsetAbsV: "An offset (balance) limit of ±35 V is common in ESD control programs (common practice); the standards again leave the limit to the user.",
+  maxDecayS: `Decay-time limits are user-defined: ${testMethodAnsi} and ${testMethodIec} say how to measure the decay from 1000 V to 100 V on a 20 pF, 150 × 150 mm charged plate but leave the acceptance limit to the user (${program} also leaves discharge time user-defined). Each kind's default is a starting value of about two to three times what a clean unit of that kind shows at its usual distance (common practice, from memory), so a bar that normally decays in 1–2 s fails once it has slowed several-fold.`,
+  maxOffsetAbsV: `±35 V is the ionizer offset limit of ${program} (measured per ${testMethodAnsi}; from memory). S20.20 was written for handling electrostatic-discharge-sensitive electronic parts, not for web lines: a converting line can usually live with more, so treat ±35 V as a strict starting value.`,
+  plate: `The test plate: 20 pF on a 150 × 150 mm plate (${testMethodAnsi}, ${testMethodIec}). Record the plate and the test distance: decay times from another plate or distance are not comparable.`,
 } as const;
 
 const limitsSchema = z.object({
@@ -32,8 +37,10 @@ const limitsSchema = z.object({
   maxOffsetAbsV: z.number().min(0).max(1000),
 });
 
+// Each kind is read on its own: an entry of a kind that no longer exists, or a null left by the
+// kind migration, is ignored instead of throwing away every limit the plant set.
 const storedSchema = z.object({
-  byKind: z.partialRecord(z.enum(NEUTRALIZER_KINDS), limitsSchema),
+  byKind: z.record(z.string(), z.unknown()),
   updatedBy: z.number().int().nullable().optional(),
 });
 
@@ -51,8 +58,8 @@ export async function getCheckLimits(db: Db): Promise<CheckLimitsSetting> {
   const stored = parsed?.success ? parsed.data : null;
   const byKind = Object.fromEntries(
     NEUTRALIZER_KINDS.map((k) => {
-      const s = stored?.byKind[k];
-      return [k, s ? { ...s, source: "plant" as const } : { ...DEFAULT_CHECK_LIMITS, source: "default" as const }];
+      const parsedKind = limitsSchema.safeParse(stored?.byKind[k]);
+      return [k, parsedKind.success ? { ...parsedKind.data, source: "plant" as const } : { ...defaultCheckLimits(k), source: "default" as const }];
     }),
   ) as Record<NeutralizerKind, KindLimits>;
   let updatedByName: string | null = null;
@@ -75,7 +82,11 @@ export type RecordCheckInput = {
   neutralizerId: number;
   ts: number;
   method: "charged_plate" | "periodic";
+  /** test distance from the neutralizer to the plate, mm */
   plateDistanceMm: number | null;
+  plateCapacitancePf?: number | null;
+  plateWidthMm?: number | null;
+  plateLengthMm?: number | null;
   decayPosS: number | null;
   decayNegS: number | null;
   offsetV: number | null;
@@ -109,6 +120,9 @@ export async function recordCheck(db: Db, input: RecordCheckInput, limitsSetting
       ts: input.ts,
       method: input.method,
       plateDistanceMm: input.plateDistanceMm,
+      plateCapacitancePf: input.plateCapacitancePf ?? null,
+      plateWidthMm: input.plateWidthMm ?? null,
+      plateLengthMm: input.plateLengthMm ?? null,
       decayPosS: input.decayPosS,
       decayNegS: input.decayNegS,
       offsetV: input.offsetV,
@@ -169,6 +183,9 @@ export type CheckRow = {
   ts: number;
   method: "charged_plate" | "periodic";
   plateDistanceMm: number | null;
+  plateCapacitancePf: number | null;
+  plateWidthMm: number | null;
+  plateLengthMm: number | null;
   decayPosS: number | null;
   decayNegS: number | null;
   offsetV: number | null;
@@ -197,6 +214,9 @@ export async function listChecks(db: Db, opts: { neutralizerId?: number; sinceTs
       ts: checks.ts,
       method: checks.method,
       plateDistanceMm: checks.plateDistanceMm,
+      plateCapacitancePf: checks.plateCapacitancePf,
+      plateWidthMm: checks.plateWidthMm,
+      plateLengthMm: checks.plateLengthMm,
       decayPosS: checks.decayPosS,
       decayNegS: checks.decayNegS,
       offsetV: checks.offsetV,
@@ -255,6 +275,8 @@ export type DecayProjection = {
   /** when the fitted line reaches the limit; null when it is not rising or too few checks */
   dueTs: number | null;
   basis: "since_cleaning" | "recent";
+  /** latest check against the unit's own baseline (the first checks of the same series) */
+  slowdown: DecaySlowdown | null;
 };
 
 const PROJECTION_WINDOW_MS = 365 * 86_400_000;
@@ -288,5 +310,6 @@ export function projectDecay(
     limitS,
     dueTs,
     basis,
+    slowdown: decaySlowdown(pts),
   };
 }

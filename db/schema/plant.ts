@@ -1,6 +1,7 @@
 // The plant: halls (areas), lines, measuring points in web-path order, devices, neutralizers.
 import { bigint, boolean, date, double, index, int, mysqlEnum, mysqlTable, text, uniqueIndex, varchar } from "drizzle-orm/mysql-core";
 import { NEUTRALIZER_STATES } from "../../lib/vocabulary/neutralizer-states";
+import { NEUTRALIZER_KINDS } from "../../lib/physics/neutralizer-kinds";
 
 export const areas = mysqlTable("areas", {
   id: int("id").autoincrement().primaryKey(),
@@ -86,7 +87,8 @@ export const devices = mysqlTable(
   (t) => [index("devices_point_idx").on(t.pointId), index("devices_area_idx").on(t.areaId)],
 );
 
-export const NEUTRALIZER_KINDS = ["ionizing_bar", "ionized_air_blower", "ionizing_nozzle", "other"] as const;
+// Kinds with their mounting ranges and decay defaults: lib/physics/neutralizer-kinds.ts.
+export { NEUTRALIZER_KINDS };
 // The value list comes from the one vocabulary (lib/vocabulary/neutralizer-states.ts).
 export { NEUTRALIZER_STATES };
 

@@ -8,7 +8,14 @@ export const checks = mysqlTable(
     neutralizerId: int("neutralizer_id").notNull(),
     ts: bigint("ts", { mode: "number" }).notNull(),
     method: mysqlEnum("method", ["charged_plate", "periodic"]).notNull().default("charged_plate"),
+    // the test distance: from the neutralizer to the charged plate (decay times at different
+    // distances are not comparable)
     plateDistanceMm: double("plate_distance_mm"),
+    // the plate the monitor used: 20 pF on 150 × 150 mm in ANSI/ESD STM3.1-2015 and
+    // IEC 61340-4-7:2017; null on checks recorded before the plate was asked for
+    plateCapacitancePf: double("plate_capacitance_pf"),
+    plateWidthMm: double("plate_width_mm"),
+    plateLengthMm: double("plate_length_mm"),
     decayPosS: double("decay_pos_s"),
     decayNegS: double("decay_neg_s"),
     offsetV: double("offset_v"),

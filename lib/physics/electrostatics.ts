@@ -197,27 +197,45 @@ export function classifySurfaceResistance(ohms: number): SurfaceResistanceClass 
   return "insulative";
 }
 
-export type HumanPerception = "not felt" | "felt" | "painful/visible";
+export type HumanPerception = "not felt" | "felt" | "heard" | "seen";
 
-/** Body voltage, kV, from which most people feel a discharge (common practice; onset 1.5–3 kV). */
+/**
+ * Body voltages, kV, at which a discharge to earthed metal is commonly felt, heard and seen
+ * (common practice, from memory; the usual tables give felt from about 2–3 kV, heard from about
+ * 5 kV and seen from about 8–10 kV; individual thresholds vary widely).
+ */
 export const PERCEPTION_FELT_FROM_KV = 2;
-/** Body voltage, kV, from which a discharge is commonly painful and the spark visible (common practice). */
-export const PERCEPTION_PAINFUL_FROM_KV = 5;
+export const PERCEPTION_HEARD_FROM_KV = 5;
+export const PERCEPTION_SEEN_FROM_KV = 8;
 
 /**
  * How a person charged to `bodyVoltageKv` is likely to perceive the discharge on touching an
- * earthed object: below ~2 kV 'not felt', ~2–5 kV 'felt', above ~5 kV 'painful/visible'.
- * Common practice, from memory: people begin to feel discharges at about 1.5–3 kV; sparks are
- * commonly heard from about 5 kV and seen from about 5–10 kV. Individual thresholds vary widely.
- * Uses the magnitude; polarity does not matter.
+ * earthed object: below 2 kV 'not felt', 2–5 kV 'felt', 5–8 kV 'heard', from 8 kV 'seen' (and
+ * felt and heard). Common practice, from memory. Uses the magnitude; polarity does not matter.
  */
 export function humanPerception(bodyVoltageKv: number): HumanPerception {
   assertFinite("Body voltage", bodyVoltageKv);
   const kv = Math.abs(bodyVoltageKv);
   if (kv < PERCEPTION_FELT_FROM_KV) return "not felt";
-  if (kv < PERCEPTION_PAINFUL_FROM_KV) return "felt";
-  return "painful/visible";
+  if (kv < PERCEPTION_HEARD_FROM_KV) return "felt";
+  if (kv < PERCEPTION_SEEN_FROM_KV) return "heard";
+  return "seen";
 }
+
+/**
+ * Propagating brush discharges: a thin insulating film or coating over an earthed roller or a
+ * metal backing can hold far more charge than a free surface, because the charge on its two
+ * sides holds each other; above about 2.5×10⁻⁴ C/m² (250 µC/m²) a breakdown can spread over the
+ * whole surface and release up to about 1 J, enough to ignite any solvent vapour and to give a
+ * severe shock (IEC TS 60079-32-1, from memory). A field meter above the web cannot see this
+ * charge: the earthed backing hides it.
+ */
+export const PROPAGATING_BRUSH_MIN_CHARGE_C_PER_M2 = 2.5e-4;
+export const PROPAGATING_BRUSH_MAX_ENERGY_J = 1;
+
+/** The caution shown on solvent lines and in the spark-hazard calculator (one wording). */
+export const PROPAGATING_BRUSH_CAUTION =
+  "Propagating brush discharges: film running over earthed rollers or on a metal backing can hold more than about 2.5×10⁻⁴ C/m² (250 µC/m²) and release up to about 1 J in one discharge, far above any solvent's minimum ignition energy. ½CV² does not cover them, and a field meter above the web does not see that charge. Source: IEC TS 60079-32-1, from memory.";
 
 /**
  * Largest equivalent energy of a brush discharge from a charged insulating surface, mJ: about

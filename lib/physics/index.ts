@@ -7,3 +7,4 @@ export * from "./psychrometrics";
 export * from "./electrostatics";
 export * from "./neutralizer";
 export * from "./line-hazard";
+export * from "./neutralizer-kinds";

@@ -61,3 +61,31 @@ export function sparkMarginForLine(input: LineSparkMarginInput): LineSparkMargin
     voltageAtMarginKv: voltageForEnergyKv(conductorCapacitancePf, solventMieMj / SPARK_MARGIN_FACTOR),
   };
 }
+
+/**
+ * Stored energy as a multiple of the MIE, written the way people read it: "64×", "1.5×",
+ * "0.43×", "0.003×" (two significant figures below 1, so a small ratio never rounds to "0.0").
+ */
+export function formatMieRatio(ratioToMie: number): string {
+  if (!Number.isFinite(ratioToMie) || ratioToMie < 0) throw new RangeError(`Ratio must be a finite number ≥ 0 (got ${ratioToMie}).`);
+  if (ratioToMie === 0) return "0×";
+  if (ratioToMie >= 10) return `${Math.round(ratioToMie)}×`;
+  if (ratioToMie >= 1) return `${Number(ratioToMie.toFixed(1))}×`;
+  return `${Number(ratioToMie.toPrecision(ratioToMie >= 0.1 ? 2 : 1))}×`;
+}
+
+/** What each verdict says after the ratio, the same on the Floor, the line page and the calculator. */
+export const SPARK_VERDICT_SHORT: Record<SparkVerdict, string> = {
+  "can ignite": "can ignite",
+  "within tenfold of MIE": "within tenfold",
+  "below MIE with margin": "below",
+};
+
+/** "stored energy 64× the MIE: can ignite" · "stored energy 0.003× the MIE: below". */
+export function sparkMarginPhrase(ratioToMie: number, verdict: SparkVerdict): string {
+  return `stored energy ${formatMieRatio(ratioToMie)} the MIE: ${SPARK_VERDICT_SHORT[verdict]}`;
+}
+
+/** The screening caution shown beside every spark-margin figure (visible, never only a tooltip). */
+export const SPARK_SCREENING_CAUTION =
+  "Screening figure, not a hazard assessment: solvent areas are assessed by a qualified person under NFPA 77, IEC TS 60079-32-1 and local codes; bond and earth every conductor whatever this says.";

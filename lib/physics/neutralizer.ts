@@ -10,13 +10,29 @@
 
 import { linearRegression, mean, median } from "simple-statistics";
 
+import { NEUTRALIZER_KIND_SPECS, type NeutralizerKind } from "./neutralizer-kinds";
+
 /**
  * Start and end voltages of the usual charged-plate decay test, V: the plate is charged to
- * ±1000 V and the time to fall to ±100 V is the decay time (ANSI/ESD STM3.1 and
- * IEC 61340-4-7 test method, from memory).
+ * ±1000 V and the time to fall to ±100 V is the decay time (ANSI/ESD STM3.1-2015 and
+ * IEC 61340-4-7:2017 test method, from memory).
  */
 export const DECAY_TEST_FROM_V = 1000;
 export const DECAY_TEST_TO_V = 100;
+
+/**
+ * The charged plate of the test method: 20 pF (±2 pF) on a 150 mm × 150 mm (6 in × 6 in)
+ * conductive plate (ANSI/ESD STM3.1-2015 and IEC 61340-4-7:2017, from memory). A monitor with
+ * another plate gives decay times that are not comparable, so each check records its plate.
+ */
+export const STANDARD_PLATE = { capacitancePf: 20, widthMm: 150, lengthMm: 150 } as const;
+
+/** Editions of the published documents the check pages cite (one home for the wording). */
+export const CHECK_STANDARD_EDITIONS = {
+  testMethodAnsi: "ANSI/ESD STM3.1-2015",
+  testMethodIec: "IEC 61340-4-7:2017",
+  program: "ANSI/ESD S20.20-2021",
+} as const;
 
 export interface CheckLimits {
   /** Longest acceptable decay time, s, for either polarity. */
@@ -26,14 +42,27 @@ export interface CheckLimits {
 }
 
 /**
- * Default verification limits. ANSI/ESD STM3.1 and IEC 61340-4-7 define how to measure decay
- * time and offset but set no universal acceptance limit: the user (the plant) sets them for
- * each application. Defaults used here, to be overridden per neutralizer:
- * - maxDecayS 20 s: a plant setting chosen for ionizing bars and blowers on web lines, not a
- *   value from the standards;
- * - maxOffsetAbsV 35 V: a limit common in ESD control programs (common practice, from memory).
+ * Offset (balance) limit, V: ANSI/ESD S20.20-2021 requires an ionizer's offset within ±35 V
+ * (discharge time user-defined), measured per ANSI/ESD STM3.1 (from memory). S20.20 was written
+ * for handling electrostatic-discharge-sensitive electronic parts; a web line can usually live
+ * with more, so this is a strict starting value, not a rule for converting.
  */
-export const DEFAULT_CHECK_LIMITS: CheckLimits = { maxDecayS: 20, maxOffsetAbsV: 35 };
+export const DEFAULT_OFFSET_LIMIT_V = 35;
+
+/**
+ * Limits for a kind the plant has not set: the kind's decay-time default
+ * (lib/physics/neutralizer-kinds.ts, common practice) and the ±35 V offset of ANSI/ESD S20.20.
+ */
+export function defaultCheckLimits(kind: NeutralizerKind): CheckLimits {
+  return { maxDecayS: NEUTRALIZER_KIND_SPECS[kind].defaultMaxDecayS, maxOffsetAbsV: DEFAULT_OFFSET_LIMIT_V };
+}
+
+/**
+ * Limits used when nothing is known about the unit (kind "other"): 20 s is Stillfield's
+ * generous starting value, not a figure from the standards, which leave the decay limit to the
+ * user; ±35 V is ANSI/ESD S20.20's offset limit.
+ */
+export const DEFAULT_CHECK_LIMITS: CheckLimits = defaultCheckLimits("other");
 
 function assertFinite(name: string, value: number): void {
   if (typeof value !== "number" || !Number.isFinite(value)) {
@@ -120,7 +149,7 @@ function judgeDecay(label: string, decayS: number | null, maxDecayS: number): Ch
  * Pass/fail of a charged-plate verification against the neutralizer's limits: each polarity
  * passes when its decay time ≤ maxDecayS, the offset passes when |offsetV| ≤ maxOffsetAbsV, and
  * the check passes only when all three do. A part that was not measured fails (a verification
- * needs both polarities and the offset). Limits default to DEFAULT_CHECK_LIMITS (plant settings).
+ * needs both polarities and the offset). Limits default to DEFAULT_CHECK_LIMITS (kind "other").
  */
 export function judgeCheck(readings: CheckReadings, limits: CheckLimits = DEFAULT_CHECK_LIMITS): CheckJudgement {
   assertFinite("Decay time limit", limits.maxDecayS);
@@ -182,6 +211,47 @@ export function fitDecayTrend(checks: readonly DecayCheckPoint[]): DecayTrend | 
   const originTs = Math.min(...checks.map((c) => c.ts));
   const line = linearRegression(checks.map((c) => [(c.ts - originTs) / MS_PER_DAY, c.decayS]));
   return { slopeSPerDay: line.m, interceptS: line.b, originTs };
+}
+
+/** A decay time this many times its own baseline earns a warning (Stillfield's choice). */
+export const SLOWDOWN_WARN_FACTOR = 2;
+
+export interface DecaySlowdown {
+  /** median decay of the earliest checks of the series (⌊(n−1)/2⌋ of them, one to three), s */
+  baselineS: number;
+  /** the latest check's decay, s */
+  currentS: number;
+  /** currentS / baselineS */
+  factor: number;
+  /** factor ≥ warnFactor */
+  warn: boolean;
+  /** how many checks made the baseline */
+  baselineChecks: number;
+}
+
+/**
+ * How much slower the latest check decays than the unit's own baseline: the median of the
+ * earliest checks of the series (the first ⌊(n−1)/2⌋, one to three, never the latest), which after
+ * a cleaning is the unit when clean. A bar that normally decays in 1–2 s and now takes 10 s can still pass a
+ * generous limit; against its own baseline it is ×5–10 slower. Pass the series the trend is
+ * fitted to (checks since the last cleaning when there are two or more). Returns null with fewer
+ * than two checks or a zero baseline.
+ */
+export function decaySlowdown(checks: readonly DecayCheckPoint[], warnFactor = SLOWDOWN_WARN_FACTOR): DecaySlowdown | null {
+  assertFinite("Warning factor", warnFactor);
+  const sorted = [...checks].sort((a, b) => a.ts - b.ts);
+  sorted.forEach((c, i) => {
+    assertFinite(`Check ${i + 1} decay time`, c.decayS);
+    if (c.decayS < 0) throw new RangeError(`Check ${i + 1} decay time cannot be negative.`);
+  });
+  if (sorted.length < 2) return null;
+  // the earlier half of the series, one to three checks: the unit before it began to slow
+  const base = sorted.slice(0, Math.max(1, Math.min(3, Math.floor((sorted.length - 1) / 2)))).map((c) => c.decayS);
+  const baselineS = median(base);
+  if (!(baselineS > 0)) return null;
+  const currentS = sorted[sorted.length - 1].decayS;
+  const factor = currentS / baselineS;
+  return { baselineS, currentS, factor, warn: factor >= warnFactor, baselineChecks: base.length };
 }
 
 /**

@@ -216,7 +216,7 @@ function LineRows({
             </td>
             <td className="truncate py-2 pr-3 text-ink-soft">
               {NEUTRALIZER_KIND_LABELS[n.kind]}
-              {n.airAssisted && n.kind === "ionizing_bar" ? ", air" : ""}
+              {n.airAssisted && (n.kind === "ac_bar" || n.kind === "pulsed_dc_bar" || n.kind === "steady_dc_bar") ? ", air" : ""}
             </td>
             <td className="num py-2 pr-3 text-right text-ink-soft">{n.mountingDistanceMm !== null ? `${n.mountingDistanceMm} mm` : "—"}</td>
             <td className="py-2 pr-3">

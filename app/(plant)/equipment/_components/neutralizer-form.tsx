@@ -4,6 +4,7 @@
 import { useState } from "react";
 import { ActionForm, Field, inputClass, SubmitButton, type FormResult } from "@/components/forms/action-form";
 import { neutralizerWarnings, type EquipmentWarning, type NeutralizerSettings } from "@/lib/equipment-warnings";
+import { NEUTRALIZER_KIND_LABELS, NEUTRALIZER_KIND_SPECS, NEUTRALIZER_KINDS, type NeutralizerKind } from "@/lib/physics/neutralizer-kinds";
 
 type Place = { points: { id: number; lineId: number; label: string }[]; lines: { id: number; solvent: boolean }[] };
 
@@ -24,12 +25,13 @@ export type NeutralizerFormValues = {
   notes: string | null;
 };
 
-const KINDS: Array<[NeutralizerSettings["kind"], string]> = [
-  ["ionizing_bar", "Ionizing bar"],
-  ["ionized_air_blower", "Ionized-air blower"],
-  ["ionizing_nozzle", "Ionizing nozzle"],
-  ["other", "Other"],
-];
+const KINDS: Array<[NeutralizerSettings["kind"], string]> = NEUTRALIZER_KINDS.map((k) => [k, NEUTRALIZER_KIND_LABELS[k]]);
+
+function kindHint(kind: NeutralizerKind): string {
+  const spec = NEUTRALIZER_KIND_SPECS[kind];
+  const range = spec.mountingMinMm !== null && spec.mountingMaxMm !== null ? `usually ${spec.mountingMinMm}–${spec.mountingMaxMm} mm from the web` : "no usual range assumed";
+  return `${spec.description} ${range}; decay limit ${spec.defaultMaxDecayS} s by default.`;
+}
 const STATES: Array<[NeutralizerSettings["state"], string]> = [
   ["in_service", "In service"],
   ["needs_cleaning", "Needs cleaning"],
@@ -47,7 +49,7 @@ function readSettings(form: HTMLFormElement, places: Place): NeutralizerSettings
   const fd = new FormData(form);
   const pointId = num(fd.get("pointId"));
   const lineId = places.points.find((p) => p.id === pointId)?.lineId;
-  const kind = KINDS.find(([k]) => k === fd.get("kind"))?.[0] ?? "ionizing_bar";
+  const kind = KINDS.find(([k]) => k === fd.get("kind"))?.[0] ?? "ac_bar";
   const state = STATES.find(([s]) => s === fd.get("state"))?.[0] ?? "in_service";
   return {
     kind,
@@ -78,6 +80,7 @@ export function NeutralizerForm({
   wide?: boolean;
 }) {
   const v = initial;
+  const [kind, setKind] = useState<NeutralizerKind>(v?.kind ?? "ac_bar");
   const [warnings, setWarnings] = useState<EquipmentWarning[]>(() =>
     v
       ? neutralizerWarnings({ ...v, solventLine: places.lines.find((l) => l.id === places.points.find((p) => p.id === v.pointId)?.lineId)?.solvent ?? false })
@@ -86,7 +89,10 @@ export function NeutralizerForm({
   return (
     <div onChange={(e) => {
       const form = (e.target as HTMLElement).closest("form");
-      if (form) setWarnings(neutralizerWarnings(readSettings(form, places)));
+      if (!form) return;
+      const settings = readSettings(form, places);
+      setKind(settings.kind);
+      setWarnings(neutralizerWarnings(settings));
     }}>
       <ActionForm action={action} className={wide ? "grid gap-3 md:grid-cols-2" : "space-y-3"} successMessage={v ? "Saved." : "Added."} resetOnSuccess={!v}>
         {v?.id ? <input type="hidden" name="id" value={v.id} /> : null}
@@ -94,8 +100,8 @@ export function NeutralizerForm({
           <Field label="Tag" name="tag">
             <input name="tag" className={inputClass} defaultValue={v?.tag ?? ""} required maxLength={60} />
           </Field>
-          <Field label="Kind" name="kind">
-            <select name="kind" className={inputClass} defaultValue={v?.kind ?? "ionizing_bar"}>
+          <Field label="Kind" name="kind" hint={kindHint(kind)}>
+            <select name="kind" className={inputClass} defaultValue={v?.kind ?? "ac_bar"}>
               {KINDS.map(([k, label]) => (
                 <option key={k} value={k}>
                   {label}
