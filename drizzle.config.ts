@@ -1,5 +1,5 @@
 // drizzle-kit reads the schema and writes SQL migrations into db/migrations (generate only;
-// `push` is broken on MariaDB, see SETUP-NOTES). Applying them is scripts/migrate.ts.
+// `push` is broken on MariaDB: it rewrites every column and still exits 0). Applying them is scripts/migrate.ts.
 import { defineConfig } from "drizzle-kit";
 
 export default defineConfig({

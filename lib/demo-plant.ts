@@ -1,4 +1,4 @@
-// The invented demo plant, "Harrow Fen Packaging", a flexible-packaging converter (PRODUCT.md §10).
+// The invented demo plant, "Harrow Fen Packaging", a flexible-packaging converter.
 // Pure data: the seed writes it to the database and the simulators play it. All names invented.
 import type { NeutralizerKind } from "./physics/neutralizer-kinds";
 

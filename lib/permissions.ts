@@ -1,4 +1,4 @@
-// The one map from role to allowed actions (PRODUCT.md §2). Every page, route handler and
+// The one map from role to allowed actions (the role table in README.md). Every page, route handler and
 // server action asks `can(role, action)` through requirePermission() on the server.
 
 export const ROLE_NAMES = ["viewer", "shift_lead", "engineer", "admin"] as const;

@@ -1,4 +1,4 @@
-// The demo plant's physics and scenario (PRODUCT.md §10), as pure functions of time: the same
+// The demo plant's physics and scenario (plant in lib/demo-plant.ts), as pure functions of time: the same
 // seed, anchor and instant always give the same reading, so the live simulator and the backfill
 // produce identical data, restarts change nothing, and tests can reason about the output.
 //
@@ -12,7 +12,7 @@
 //   function of time. RH = RH(T_hall, W).
 //   Cold snap: outdoor temperature falls by COLD_SNAP.deltaTempC over rampInH and the air is
 //   drier; the heated halls dry out over hours (typ. 43 % → under 20 %).
-// Charge at a measuring point (common-practice model, PRODUCT.md §10):
+// Charge at a measuring point (common-practice model):
 //   q = polarity · baseKv · (speed / nominal)^0.7 · f(RH) · (1 − η) + CARRY · q(previous point)
 //   f(RH) = 10^(−(RH − 20)/40): tenfold less from 20 % to 60 % RH (published tables of generated
 //   voltages at 10–20 % vs 65–90 % RH show ratios of 10–40; from memory, common practice).

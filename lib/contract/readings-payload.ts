@@ -1,4 +1,4 @@
-// The device payload contract (PRODUCT.md §4): one zod schema used by the ingest worker, the
+// The device payload contract (lib/contract/README.md): one zod schema used by the ingest worker, the
 // simulators and the tests. A message holds one reading set or a batch of them:
 //
 //   {"ts": 1767225600000, "values": {"charge_kv": -3.42}}

@@ -1,4 +1,4 @@
-/** The cautions every survey screen and report carries (PRODUCT.md §8). Pure text. */
+/** The cautions every survey screen and report carries (the safety notes in README.md). Pure text. */
 export const SURVEY_CAUTIONS: readonly string[] = [
   "Stillfield is a monitoring and record-keeping aid, not a safety system.",
   "Solvent areas: a handheld meter, a phone or a camera taken into a classified (hazardous) area must be approved for it; the area and its static hazards are assessed by a qualified person under NFPA 77, IEC TS 60079-32-1 and local codes.",

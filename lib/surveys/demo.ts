@@ -1,5 +1,5 @@
 /**
- * The demo plant's survey-only line and its walk-down history (PRODUCT.md §10; all invented):
+ * The demo plant's survey-only line and its walk-down history (beside lib/demo-plant.ts; all invented):
  * a second slitter-rewinder in the Converting Hall with no fixed meters, a full survey plan and
  * a quick round, and two past surveys — the first with findings and two actions, the second a
  * re-survey of the unwind that closed the bar-cleaning action. Pure data; db/queries/surveys-demo.ts writes it.

@@ -1,4 +1,4 @@
-// Alerts in the browser (issue 5): a shift lead acknowledges one alert and shelves another from
+// Alerts in the browser: a shift lead acknowledges one alert and shelves another from
 // the list; a viewer sees the list but cannot acknowledge (no buttons, and 403 from the API as
 // well); the alert-load and on-call pages render. Alerts are written straight into the stack's
 // test database (as the alerts runner would), so the test does not wait for real excursions.

@@ -1,4 +1,4 @@
-// The Floor (issue 4): a viewer sees every demo line with values that change while the plant
+// The Floor: a viewer sees every demo line with values that change while the plant
 // simulator runs, each state as a word and a shape, and the halls' climate. Screenshots at
 // 1366×768 and 1920×1080 go to the test output.
 import { expect, test, type Page } from "@playwright/test";

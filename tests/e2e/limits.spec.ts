@@ -1,4 +1,4 @@
-// The limits editor in the browser (issue 5): an engineer overrides a charge limit at one point,
+// The limits editor in the browser: an engineer overrides a charge limit at one point,
 // replays it over two days of recorded data (beside the current rules), saves it, edits it
 // again, and the audit log shows both changes; a viewer sees the limits but no editing, and the
 // API refuses a viewer's save with 403.

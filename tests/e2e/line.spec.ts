@@ -1,4 +1,4 @@
-// A line's page (issue 4): live charts, 7 days from the rollups with min/max bands, notes
+// A line's page: live charts, 7 days from the rollups with min/max bands, notes
 // (a shift lead adds one and sees it after a reload; a viewer is refused, by the API too),
 // and the end-to-end time from a device's timestamped reading to the open page.
 import { expect, test, type Page } from "@playwright/test";

@@ -1,4 +1,4 @@
-// The wallboard (issue 4): a hall's lines, full screen and dark, live, for a viewer-level kiosk.
+// The wallboard: a hall's lines, full screen and dark, live, for a viewer-level kiosk.
 import { expect, test } from "@playwright/test";
 import { DEMO_AREAS, DEMO_LINES } from "../../lib/demo-plant";
 import { signIn, snap } from "./helpers";

@@ -1,4 +1,4 @@
-// Nothing accepted is lost (issue 3, "Done when"):
+// Nothing accepted is lost:
 //  - MariaDB is stopped while the plant simulator publishes and started again: every reading
 //    the broker acknowledged before, during and after the outage ends up in the table (the
 //    worker buffers, spills past its memory bound, retries and replays);

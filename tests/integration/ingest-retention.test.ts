@@ -1,4 +1,4 @@
-// Retention (issue 3): raw readings older than RAW_RETENTION_DAYS are dropped by whole daily
+// Retention: raw readings older than RAW_RETENTION_DAYS are dropped by whole daily
 // partitions while the rollups stay; the scheduled job also creates partitions ahead of time.
 // The worker runs the job at start (and every INGEST_MAINTENANCE_INTERVAL_MS).
 import { afterAll, beforeAll, describe, expect, it } from "vitest";

@@ -1,4 +1,4 @@
-// The plant simulator's scenario is visible in what is stored (issue 3, "Done when"): a week
+// The plant simulator's scenario is visible in what is stored: a week
 // of backfilled history shows the cold snap drying the Press Hall over hours, the Gravure
 // Press 1 unwind neutralizer fouling, the power-unit fault and the silent sensor; raw rows and
 // rollups agree. Then the live simulator plays through the real broker and worker, and its odd

@@ -1,4 +1,4 @@
-// The role → action map follows PRODUCT.md §2 row by row.
+// The role → action map follows the role table in README.md row by row.
 import { describe, expect, it } from "vitest";
 import { ACTIONS, can, ROLE_NAMES, type Action, type Role } from "@/lib/permissions";
 
@@ -9,7 +9,7 @@ const table: Record<Role, Action[]> = {
   admin: [...ACTIONS],
 };
 
-describe("permissions (PRODUCT.md §2)", () => {
+describe("permissions (README.md role table)", () => {
   for (const role of ROLE_NAMES) {
     for (const action of ACTIONS) {
       const expected = table[role].includes(action);

@@ -1,5 +1,5 @@
 // On-call escalation timing (ingest/alerts-escalation.ts planNotification). Expected times are
-// worked by hand from the product rule (PRODUCT.md §6, issue 5): first e-mail notifyAfterS after
+// worked by hand from the escalation rule in that file's header: first e-mail notifyAfterS after
 // the raise, each escalation escalateAfterS after the previous step; default 5 min each.
 import { describe, expect, it } from "vitest";
 import { planNotification, severitiesAtOrAbove } from "../../../ingest/alerts-escalation";

@@ -1,5 +1,5 @@
 // The plant simulator's model: deterministic, inside the device contract, and showing the
-// scenario's events (PRODUCT.md §10).
+// scenario's events (simulators/plant-model.ts).
 import { describe, expect, it } from "vitest";
 import { DEMO_LINES } from "@/lib/demo-plant";
 import { checkReadingSets } from "@/lib/contract/readings-payload";
@@ -28,7 +28,7 @@ describe("plant model", () => {
     expect(other.valuesAt(other.devices.find((x) => x.code === d.code)!, t)).not.toEqual(a.valuesAt(d, t));
   });
 
-  it("charges tenfold less at 60 % RH than at 20 % RH (common practice, PRODUCT.md §10)", () => {
+  it("charges tenfold less at 60 % RH than at 20 % RH (common practice)", () => {
     expect(humidityFactor(20) / humidityFactor(60)).toBeCloseTo(10, 6);
     expect(humidityFactor(40)).toBeLessThan(humidityFactor(30));
   });

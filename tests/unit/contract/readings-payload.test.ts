@@ -1,4 +1,4 @@
-// The device payload contract (PRODUCT.md §4): what is accepted, and the reason given for each
+// The device payload contract (lib/contract/README.md): what is accepted, and the reason given for each
 // kind of bad input. Ranges are the contract's own limits (see CHANNEL_RANGES for their basis).
 import { describe, expect, it } from "vitest";
 import {

@@ -115,7 +115,7 @@ describe("default rules", () => {
     );
   });
 
-  it("carry the plant settings stated in the brief (common practice, from memory)", () => {
+  it("carry the plant's default settings (common practice, from memory)", () => {
     const byKindSeverity = (kind: string, severity: string) => DEFAULT_RULES.find((r) => r.kind === kind && r.severity === severity);
     expect(byKindSeverity("charge_high", "medium")).toMatchObject({ onDelayS: 10, offDelayS: 30, params: { limitKv: 12, clearKv: 10 } });
     expect(byKindSeverity("charge_high", "high")).toMatchObject({ params: { limitKv: 20 } });

@@ -1,4 +1,4 @@
-// The caution shown wherever Stillfield guides maintenance of neutralizers (PRODUCT.md §8).
+// The caution shown wherever Stillfield guides maintenance of neutralizers (the safety notes in README.md).
 export function HighVoltageCaution({ compact = false }: { compact?: boolean }) {
   return (
     <aside role="note" aria-label="Caution" className="rounded-card border border-near/40 border-l-4 border-l-near bg-near-soft/50 px-4 py-2.5 text-sm text-ink" data-testid="hv-caution">
