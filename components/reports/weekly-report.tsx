@@ -2,7 +2,7 @@
 // charge follows humidity and speed at each point (scatter + least-squares line, r²). Server component.
 import { formatDuration, formatKv, formatPct, formatTs } from "@/lib/reports/format";
 import type { LineFit } from "@/lib/reports/regression";
-import type { WeeklyReport as Report, WeeklyFit } from "@/lib/reports/weekly";
+import { CHARGE_FIT_MEASURE, type WeeklyReport as Report, type WeeklyFit } from "@/lib/reports/weekly";
 import { EmptyState } from "@/components/ui/page";
 import { ScatterPlot } from "./scatter-plot";
 import { LimitBar, Section, StateCell, Table, Td, Th, Tile, Tiles, Tr } from "./report-parts";
@@ -35,12 +35,12 @@ function FitPanel({ name, data, xLabel, xUnit, per, testId }: { name: string; da
       {data.n === 0 ? (
         <p className="py-8 text-center text-sm text-ink-faint">No running hours with both readings this week.</p>
       ) : (
-        <ScatterPlot pairs={data.plot} fit={data.fit} xLabel={xLabel} yLabel="|charge| kV" title={`${name}: |charge| against ${xLabel}`} />
+        <ScatterPlot pairs={data.plot} fit={data.fit} xLabel={xLabel} yLabel="charge RMS, kV" title={`${name}: hourly charge RMS against ${xLabel}`} />
       )}
       {data.fit ? (
         <div className="mt-1 text-xs leading-relaxed text-ink-soft">
           <p className="num">
-            |charge| ≈ {sig(data.fit.intercept)} {data.fit.slope < 0 ? "−" : "+"} {sig(Math.abs(data.fit.slope))} × {xUnit === "% RH" ? "RH" : "speed"} (kV)
+            charge RMS ≈ {sig(data.fit.intercept)} {data.fit.slope < 0 ? "−" : "+"} {sig(Math.abs(data.fit.slope))} × {xUnit === "% RH" ? "RH" : "speed"} (kV)
             {data.fit.rSquared !== null ? (
               <>
                 {" "}
@@ -163,9 +163,12 @@ export function WeeklyReportView({ report }: { report: Report }) {
 
       <Section
         title="Charge against humidity"
-        aside="Hourly means of running hours; least-squares line (simple-statistics), r² = share of the hour-to-hour variation the line explains"
+        aside="Each dot is one running hour; least-squares line (simple-statistics), r² = share of the hour-to-hour variation the line explains"
         testId="weekly-rh-fits"
       >
+        <p className="mb-2 text-xs leading-relaxed text-ink-soft" data-testid="weekly-fit-measure">
+          Charge is the <b className="font-medium text-ink">{CHARGE_FIT_MEASURE.words}</b> from the hourly rollups, humidity and speed their hourly means. Why RMS: {CHARGE_FIT_MEASURE.why}.
+        </p>
         <div className="grid gap-3 sm:grid-cols-2 xl:grid-cols-4 print:grid-cols-2">
           {report.points.map((p) => (
             <FitPanel key={p.pointId} name={p.name} data={p.rh} xLabel={`${report.hall.name} RH, %`} xUnit="% RH" per={10} testId="rh-fit" />

@@ -23,10 +23,10 @@ import { getPlantLayout, type PlantArea } from "./plant";
 import { dateRangeWindow, localTimeToTs, shiftWindowFor, weekWindow, type ShiftWindow } from "../../lib/plant-time";
 import { buildCompliance, type ComplianceCheckInput, type ComplianceReport } from "../../lib/reports/compliance";
 import { buildHandover, RAW_HOLD_MS, type HandoverAlertInput, type HandoverReport } from "../../lib/reports/handover";
-import type { StoredRule } from "../../lib/reports/limits";
+import { listStoredRules } from "./limits";
 import { bucketExtreme, type Sample } from "../../lib/reports/series";
 import { buildPlaceIndex } from "../../lib/reports/types";
-import { buildWeekly, MINUTE_HOLD_MS, type HourlyMean, type WeeklyReport } from "../../lib/reports/weekly";
+import { buildWeekly, MINUTE_HOLD_MS, rollupRms, type HourlyMean, type WeeklyReport } from "../../lib/reports/weekly";
 
 import { getPlantSettings } from "./plant-settings";
 export { getPlantSettings };
@@ -34,26 +34,6 @@ export { getPlantSettings };
 /** Each hall's outdoor-air flow and humidifier capacity (for the humidity planner's presets). */
 export async function listHallAirSupply(db: Db): Promise<{ id: number; airflowM3PerH: number; humidifierKgPerH: number }[]> {
   return db.select({ id: areas.id, airflowM3PerH: areas.airflowM3PerH, humidifierKgPerH: areas.humidifierKgPerH }).from(areas).orderBy(asc(areas.id));
-}
-
-/** Every rule with its current version's severity and params. */
-export async function loadStoredRules(db: Db): Promise<StoredRule[]> {
-  const rows = await db
-    .select({
-      ruleId: rules.id,
-      kind: rules.kind,
-      name: rules.name,
-      enabled: rules.enabled,
-      pointId: rules.pointId,
-      lineId: rules.lineId,
-      areaId: rules.areaId,
-      severity: ruleVersions.severity,
-      params: ruleVersions.params,
-    })
-    .from(rules)
-    .innerJoin(ruleVersions, and(eq(ruleVersions.ruleId, rules.id), eq(ruleVersions.version, rules.currentVersion)))
-    .orderBy(asc(rules.id));
-  return rows;
 }
 
 function groupSamples(rows: readonly { deviceId: number; ts: number; value: number }[]): Map<number, Sample[]> {
@@ -184,7 +164,7 @@ export async function getHandoverReport(db: Db, req: HandoverRequest, nowTs: num
 export async function buildHandoverForWindow(db: Db, window: ShiftWindow, plantName: string, nowTs: number): Promise<HandoverReport> {
   const plant = await getPlantLayout(db);
   const [ruleList, chargeSeries, rhSeries, alertList, neutralizerList, notes] = await Promise.all([
-    loadStoredRules(db),
+    listStoredRules(db),
     loadRawSeries(db, "charge_kv", fieldMeterIds(plant), window.startTs, window.endTs, RAW_HOLD_MS),
     loadRawSeries(db, "rh_pct", loggerIds(plant), window.startTs, window.endTs, RAW_HOLD_MS),
     loadAlertsInWindow(db, window.startTs, window.endTs),
@@ -261,7 +241,7 @@ export async function getWeeklyReport(db: Db, req: WeeklyRequest, nowTs: number)
   const pointIds = line.points.map((p) => p.id);
 
   const [ruleList, minuteCharge, minuteRh, hourlyRows, alertRows] = await Promise.all([
-    loadStoredRules(db),
+    listStoredRules(db),
     meterIds.length
       ? db
           .select({ deviceId: rollup1m.deviceId, bucketTs: rollup1m.bucketTs, min: rollup1m.min, max: rollup1m.max })
@@ -278,7 +258,7 @@ export async function getWeeklyReport(db: Db, req: WeeklyRequest, nowTs: number)
       : Promise.resolve([]),
     hourlyIds.length
       ? db
-          .select({ deviceId: rollup1h.deviceId, channel: rollup1h.channel, bucketTs: rollup1h.bucketTs, sum: rollup1h.sum, count: rollup1h.count })
+          .select({ deviceId: rollup1h.deviceId, channel: rollup1h.channel, bucketTs: rollup1h.bucketTs, sum: rollup1h.sum, sumSq: rollup1h.sumSq, count: rollup1h.count })
           .from(rollup1h)
           .where(and(inArray(rollup1h.deviceId, hourlyIds), gte(rollup1h.bucketTs, window.startTs), lt(rollup1h.bucketTs, window.endTs)))
       : Promise.resolve([]),
@@ -312,7 +292,7 @@ export async function getWeeklyReport(db: Db, req: WeeklyRequest, nowTs: number)
       .orderBy(asc(alerts.startTs)),
   ]);
 
-  const hourly: HourlyMean[] = hourlyRows.filter((r) => r.count > 0).map((r) => ({ deviceId: r.deviceId, channel: r.channel, bucketTs: r.bucketTs, mean: r.sum / r.count }));
+  const hourly: HourlyMean[] = hourlyRows.filter((r) => r.count > 0).map((r) => ({ deviceId: r.deviceId, channel: r.channel, bucketTs: r.bucketTs, mean: r.sum / r.count, rms: rollupRms(r.count, r.sumSq) }));
   return buildWeekly({
     plantName: plantSettings.name,
     window,

@@ -4,11 +4,12 @@
  * against hall RH and against line speed, with r²). Pure; db/queries/reports.ts loads the inputs.
  *
  * Data: time over limit from 1-minute rollups (each minute's extreme reading, so the figure is
- * "minutes in which any reading was over", an upper bound), the fits from hourly means (rollup_1h)
- * of hours in which the line was running.
+ * "minutes in which any reading was over", an upper bound), the fits from hourly rollups
+ * (rollup_1h) of hours in which the line was running: hall RH and speed as hourly means, charge as
+ * the hourly RMS √(Σv²/n) (CHARGE_FIT_MEASURE).
  */
 import type { DateWindow } from "../plant-time";
-import { chargeLimitAt, rhLowLimitAt, type StoredRule } from "./limits";
+import { chargeLimitAt, rhLowLimitAt, type StoredRule } from "../rules/limits-in-force";
 import { fitLeastSquares, thinPairs, type LineFit, type Pair } from "./regression";
 import { lowestReading, timeOverLimit, worstReading, type Sample } from "./series";
 import type { ReportArea, ReportLine } from "./types";
@@ -33,7 +34,26 @@ export const RULE_KIND_WORDS: Record<string, string> = {
   effect_loss: "Neutralizer losing effect",
 };
 
-export type HourlyMean = { deviceId: number; channel: string; bucketTs: number; mean: number };
+/** One hourly rollup: its mean Σv/n and its root mean square √(Σv²/n). */
+export type HourlyMean = { deviceId: number; channel: string; bucketTs: number; mean: number; rms: number };
+
+/**
+ * The charge figure each hour contributes to the fits: the RMS √(Σv²/n) of the readings, from the
+ * rollup's sum of squares. The mean of signed charge would let opposite polarities cancel (an
+ * hour half at +8 kV and half at −8 kV has mean 0 but RMS 8 kV), and a neutralizer out of
+ * balance swings the web's polarity; the RMS is the charge's typical size whatever its sign, and
+ * weighs the high readings that cause trouble a little more than the mean of |v| would.
+ */
+export const CHARGE_FIT_MEASURE = {
+  key: "rms",
+  words: "hourly RMS of the charge, √(Σv²/n)",
+  why: "the mean of signed readings lets +8 kV and −8 kV cancel to 0; the RMS gives 8 kV for that hour, the charge's size whatever its sign",
+} as const;
+
+/** RMS of a rollup from its count and sum of squares. */
+export function rollupRms(count: number, sumSq: number): number {
+  return count > 0 ? Math.sqrt(Math.max(0, sumSq) / count) : Number.NaN;
+}
 
 export type WeeklyAlertInput = {
   id: number;
@@ -60,7 +80,7 @@ export type WeeklyInput = {
   minuteCharge: ReadonlyMap<number, readonly Sample[]>;
   /** The hall logger's minute minimum RH. */
   minuteRhMin: readonly Sample[];
-  /** Hourly means of the line's devices and the hall logger. */
+  /** Hourly rollups (mean and RMS) of the line's devices and the hall logger. */
   hourly: readonly HourlyMean[];
   /** Alerts raised in the week on the line, its points, and the hall (hall-only alerts have no lineId). */
   alerts: readonly WeeklyAlertInput[];
@@ -111,10 +131,10 @@ export type WeeklyReport = {
   };
 };
 
-function hourMap(hourly: readonly HourlyMean[], deviceId: number | undefined, channel: string): Map<number, number> {
+function hourMap(hourly: readonly HourlyMean[], deviceId: number | undefined, channel: string, measure: "mean" | "rms" = "mean"): Map<number, number> {
   const m = new Map<number, number>();
   if (deviceId === undefined) return m;
-  for (const h of hourly) if (h.deviceId === deviceId && h.channel === channel && Number.isFinite(h.mean)) m.set(h.bucketTs, h.mean);
+  for (const h of hourly) if (h.deviceId === deviceId && h.channel === channel && Number.isFinite(h[measure])) m.set(h.bucketTs, h[measure]);
   return m;
 }
 
@@ -144,13 +164,13 @@ export function buildWeekly(input: WeeklyInput): WeeklyReport {
     const series = point.fieldMeter ? (input.minuteCharge.get(point.fieldMeter.id) ?? []) : [];
     const over = timeOverLimit(series, { kind: "magnitude_above", limit: limit?.value ?? Number.POSITIVE_INFINITY }, span, MINUTE_HOLD_MS);
     const worst = worstReading(series, span);
-    const charge = hourMap(input.hourly, point.fieldMeter?.id, "charge_kv");
+    const charge = hourMap(input.hourly, point.fieldMeter?.id, "charge_kv", CHARGE_FIT_MEASURE.key);
     const rhPairs: Pair[] = [];
     const speedPairs: Pair[] = [];
     for (const [hourTs, kv] of [...charge.entries()].sort((a, b) => a[0] - b[0])) {
       if (!inWeek(hourTs) || !ran(hourTs)) continue;
       hoursSeen.add(hourTs);
-      const y = Math.abs(kv);
+      const y = kv; // RMS: already the size of the charge, never negative
       const x = rh.get(hourTs);
       if (x !== undefined) rhPairs.push([x, y]);
       const v = speed.get(hourTs);
