@@ -31,7 +31,8 @@ const services: Service[] = [
   { name: "mailer", needs: "ingest/mailer.ts", cmd: [...tsx, "ingest/mailer.ts"] },
   {
     name: "app",
-    cmd: [process.execPath, "node_modules/next/dist/bin/next", "start", "-H", "127.0.0.1", "-p", String(num(env.APP_PORT, 3000))],
+    // our own server around Next: it hands the socket address to the sign-in throttle
+    cmd: [process.execPath, "scripts/app-server.mjs", "-H", "127.0.0.1", "-p", String(num(env.APP_PORT, 3000))],
     port: num(env.APP_PORT, 3000),
     readyTimeoutMs: 60_000,
   },

@@ -1,6 +1,7 @@
 // Reading the session once at the edge, and the one permission check used by every page,
 // route handler and server action. Role and "active" are re-read from the database on each
-// request, so a deactivated person or a changed role takes effect at once.
+// request, so a deactivated person or a changed role takes effect at once; a session signed
+// before a password reset, role change or deactivation (session version) is refused.
 import "server-only";
 import { cache } from "react";
 import { getServerSession } from "next-auth";
@@ -15,10 +16,11 @@ export type SessionPerson = { personId: number; role: Role; name: string; email:
 
 export const getSession = cache(async (): Promise<SessionPerson | null> => {
   const session = await getServerSession(authOptions);
-  const personId = (session as { personId?: unknown } | null)?.personId;
+  const { personId, sessionVersion } = (session ?? {}) as { personId?: unknown; sessionVersion?: unknown };
   if (typeof personId !== "number") return null;
   const person = await getPerson(getDb(), personId);
-  if (!person || !person.active) return null;
+  // the jwt callback already refuses a stale version; checked again here on the same row
+  if (!person || !person.active || person.sessionVersion !== sessionVersion) return null;
   return { personId: person.id, role: person.role, name: person.name, email: person.email };
 });
 

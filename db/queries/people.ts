@@ -3,7 +3,7 @@
 import bcrypt from "bcryptjs";
 import { and, asc, eq, sql } from "drizzle-orm";
 import type { Db } from "../client";
-import { people, signInFailures } from "../schema";
+import { people } from "../schema";
 import type { Role } from "../../lib/permissions";
 
 export const publicPersonColumns = {
@@ -14,6 +14,7 @@ export const publicPersonColumns = {
   active: people.active,
   wantsDailyDigest: people.wantsDailyDigest,
   onMaintenanceList: people.onMaintenanceList,
+  sessionVersion: people.sessionVersion,
 };
 
 export type PublicPerson = {
@@ -24,6 +25,8 @@ export type PublicPerson = {
   active: boolean;
   wantsDailyDigest: boolean;
   onMaintenanceList: boolean;
+  /** sessions signed with another version are refused (app/_server/auth.ts) */
+  sessionVersion: number;
 };
 
 export const BCRYPT_ROUNDS = 10;
@@ -82,13 +85,19 @@ export async function updatePerson(
   id: number,
   patch: Partial<{ name: string; role: Role; active: boolean; wantsDailyDigest: boolean; onMaintenanceList: boolean }>,
 ): Promise<void> {
-  await db.update(people).set({ ...patch, updatedAt: Date.now() }).where(eq(people.id, id));
+  // a new role or a deactivation ends the person's open sessions
+  const endsSessions = patch.role !== undefined || patch.active === false;
+  await db
+    .update(people)
+    .set({ ...patch, updatedAt: Date.now(), ...(endsSessions ? { sessionVersion: sql`${people.sessionVersion} + 1` } : {}) })
+    .where(eq(people.id, id));
 }
 
 export async function setPassword(db: Db, id: number, password: string): Promise<void> {
   await db
     .update(people)
-    .set({ passwordHash: await hashPassword(password), updatedAt: Date.now() })
+    // a new password ends every session signed in with the old one
+    .set({ passwordHash: await hashPassword(password), updatedAt: Date.now(), sessionVersion: sql`${people.sessionVersion} + 1` })
     .where(eq(people.id, id));
 }
 
@@ -98,53 +107,4 @@ export async function countActiveAdmins(db: Db): Promise<number> {
     .from(people)
     .where(and(eq(people.role, "admin"), eq(people.active, true)));
   return Number(rows[0]?.n ?? 0);
-}
-
-// ---- sign-in rate limiting -------------------------------------------------------------
-
-export const SIGN_IN_LIMITS = {
-  windowMs: 15 * 60_000,
-  // per account: 5 failures in 15 minutes block that account for 5 minutes
-  account: { maxFailures: 5, blockMs: 5 * 60_000 },
-  // per address: more generous (several people may share one floor PC)
-  address: { maxFailures: 30, blockMs: 5 * 60_000 },
-};
-
-export type LimitKey = { kind: "account" | "address"; value: string };
-
-const keyOf = (k: LimitKey) => `${k.kind}:${k.value.toLowerCase()}`.slice(0, 300);
-
-/** Milliseconds until the first of these keys is unblocked, or 0 when none is blocked. */
-export async function signInBlockedForMs(db: Db, keys: LimitKey[], nowMs = Date.now()): Promise<number> {
-  let wait = 0;
-  for (const k of keys) {
-    const rows = await db
-      .select({ blockedUntil: signInFailures.blockedUntil })
-      .from(signInFailures)
-      .where(eq(signInFailures.key, keyOf(k)))
-      .limit(1);
-    const until = rows[0]?.blockedUntil ?? 0;
-    if (until > nowMs) wait = Math.max(wait, until - nowMs);
-  }
-  return wait;
-}
-
-export async function recordSignInFailure(db: Db, keys: LimitKey[], nowMs = Date.now()): Promise<void> {
-  for (const k of keys) {
-    const limits = SIGN_IN_LIMITS[k.kind];
-    const key = keyOf(k);
-    // one statement: start a new window when the old one has passed, else count up, and
-    // block once the count reaches the limit
-    await db.execute(sql`
-      INSERT INTO sign_in_failures (\`key\`, window_start, failures, blocked_until)
-      VALUES (${key}, ${nowMs}, 1, ${limits.maxFailures <= 1 ? nowMs + limits.blockMs : 0})
-      ON DUPLICATE KEY UPDATE
-        failures = IF(window_start < ${nowMs - SIGN_IN_LIMITS.windowMs}, 1, failures + 1),
-        window_start = IF(window_start < ${nowMs - SIGN_IN_LIMITS.windowMs}, ${nowMs}, window_start),
-        blocked_until = IF(failures >= ${limits.maxFailures}, ${nowMs + limits.blockMs}, blocked_until)`);
-  }
-}
-
-export async function clearSignInFailures(db: Db, key: LimitKey): Promise<void> {
-  await db.delete(signInFailures).where(eq(signInFailures.key, keyOf(key)));
 }

@@ -2,6 +2,7 @@ import type { Metadata } from "next";
 import { redirect } from "next/navigation";
 import { getSession } from "@/app/_server/session";
 import { Wordmark } from "@/components/ui/logo";
+import { safeCallbackPath } from "@/lib/http-security";
 import { SignInForm } from "./sign-in-form";
 
 export const metadata: Metadata = { title: "Sign in" };
@@ -10,9 +11,8 @@ export const dynamic = "force-dynamic";
 export default async function SignInPage({ searchParams }: { searchParams: Promise<Record<string, string | string[] | undefined>> }) {
   if (await getSession()) redirect("/floor");
   const sp = await searchParams;
-  const raw = typeof sp.callbackUrl === "string" ? sp.callbackUrl : "/floor";
-  // only same-site paths: never bounce a person to another host after sign-in
-  const callbackUrl = raw.startsWith("/") && !raw.startsWith("//") ? raw : "/floor";
+  // only paths on this site: never bounce a person to another host after sign-in
+  const callbackUrl = safeCallbackPath(sp.callbackUrl);
   return (
     <div className="flex min-h-screen items-center justify-center bg-paper px-4">
       <div className="w-full max-w-sm">

@@ -2,6 +2,8 @@
 import { signIn } from "next-auth/react";
 import { useRouter } from "next/navigation";
 import { useState } from "react";
+import { safeCallbackPath } from "@/lib/http-security";
+import { signInMessage } from "@/lib/sign-in-errors";
 
 export function SignInForm({ callbackUrl }: { callbackUrl: string }) {
   const router = useRouter();
@@ -20,10 +22,11 @@ export function SignInForm({ callbackUrl }: { callbackUrl: string }) {
     });
     setBusy(false);
     if (!res || res.error) {
-      setError(res?.error && res.error !== "CredentialsSignin" ? res.error : "Wrong e-mail or password.");
+      // the server answers with a code (lib/sign-in-errors.ts); its own text is never shown
+      setError(signInMessage(res?.error));
       return;
     }
-    router.replace(callbackUrl);
+    router.replace(safeCallbackPath(callbackUrl));
     router.refresh();
   }
 
