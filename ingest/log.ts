@@ -1,9 +1,10 @@
 // A small line logger for the ingest processes: one line per event, level and component first,
 // so the stack runner's prefixed output stays readable. Errors are logged, never swallowed.
+import { getSettings } from "../lib/settings";
+
 type Level = "debug" | "info" | "warn" | "error";
 const order: Record<Level, number> = { debug: 10, info: 20, warn: 30, error: 40 };
-const levels: readonly Level[] = ["debug", "info", "warn", "error"];
-const threshold = order[levels.find((l) => l === process.env.LOG_LEVEL) ?? "info"];
+let threshold: number | undefined;
 
 export type Logger = {
   debug(msg: string, extra?: Record<string, unknown>): void;
@@ -19,6 +20,7 @@ export function describeError(err: unknown): string {
 
 export function createLogger(component: string): Logger {
   const write = (level: Level, msg: string, extra?: Record<string, unknown>) => {
+    threshold ??= order[getSettings().LOG_LEVEL];
     if (order[level] < threshold) return;
     const tail = extra && Object.keys(extra).length > 0 ? ` ${JSON.stringify(extra)}` : "";
     const line = `${new Date().toISOString()} ${level.toUpperCase().padEnd(5)} ${component}: ${msg}${tail}\n`;

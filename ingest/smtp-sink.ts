@@ -6,13 +6,16 @@
 // A message whose Message-ID it already holds (a resend by a mailer that crashed between the
 // server's "250 OK" and marking the mail sent) is acknowledged but not stored twice, and is
 // noted in the index with duplicate: true — the way a real mailbox drops a re-delivered
-// message. SMTP_SINK_DELAY_MS (tests) makes it slow to accept each message.
+// message. SMTP_SINK_DELAY_MS (tests) makes it slow to accept each message. With this install's
+// server certificate in DATA_DIR/tls (scripts/tls.sh) it offers STARTTLS, as a plant's mail relay
+// should, and notes in the index whether each message came over TLS.
 import fs from "node:fs";
 import path from "node:path";
 import { simpleParser, type AddressObject } from "mailparser";
 import { SMTPServer } from "smtp-server";
 import { z } from "zod";
 import { getEnv } from "../db/env";
+import { tlsFiles } from "../lib/settings";
 import { createLogger, describeError } from "./log";
 
 const log = createLogger("smtp-sink");
@@ -27,6 +30,8 @@ export const sinkIndexEntrySchema = z.object({
   subject: z.string(),
   receivedTs: z.number(),
   duplicate: z.boolean(),
+  /** the message came after STARTTLS */
+  tls: z.boolean().optional(),
 });
 export type SinkIndexEntry = z.infer<typeof sinkIndexEntrySchema>;
 
@@ -63,9 +68,12 @@ export async function startSmtpSink(opts: { port: number; dataDir: string; delay
   const known = new Set(readSinkIndex(opts.dataDir).map((e) => e.messageId).filter((x): x is string => typeof x === "string"));
   let seq = 0;
 
+  const files = tlsFiles({ DATA_DIR: opts.dataDir });
+  const withTls = fs.existsSync(files.cert) && fs.existsSync(files.key);
   const server = new SMTPServer({
     authOptional: true,
-    disabledCommands: ["AUTH", "STARTTLS"],
+    disabledCommands: withTls ? ["AUTH"] : ["AUTH", "STARTTLS"],
+    ...(withTls ? { key: fs.readFileSync(files.key), cert: fs.readFileSync(files.cert), minVersion: "TLSv1.2" } : {}),
     logger: false,
     banner: "Stillfield local mail sink",
     size: 20 * 1024 * 1024,
@@ -89,6 +97,7 @@ export async function startSmtpSink(opts: { port: number; dataDir: string; delay
             subject: parsed.subject ?? "",
             receivedTs: Date.now(),
             duplicate: messageId !== null && known.has(messageId),
+            tls: session.secure,
           };
           if (!entry.duplicate) {
             const safe = (messageId ?? "no-id").replace(/[^A-Za-z0-9._-]+/g, "_").slice(0, 80);
@@ -119,7 +128,7 @@ export async function startSmtpSink(opts: { port: number; dataDir: string; delay
     server.once("error", reject);
     server.listen(opts.port, "127.0.0.1", () => resolve());
   });
-  log.info(`listening on 127.0.0.1:${opts.port}; mail is written to ${dir} (one .eml per message, index.jsonl lists them)`);
+  log.info(`listening on 127.0.0.1:${opts.port}${withTls ? " (STARTTLS offered)" : ""}; mail is written to ${dir} (one .eml per message, index.jsonl lists them)`);
   return {
     port: opts.port,
     close: () => new Promise<void>((resolve) => server.close(() => resolve())),
@@ -129,8 +138,7 @@ export async function startSmtpSink(opts: { port: number; dataDir: string; delay
 const isMain = process.argv[1] && path.resolve(process.argv[1]) === path.resolve(import.meta.filename);
 if (isMain) {
   const env = getEnv();
-  const delay = Number(process.env.SMTP_SINK_DELAY_MS ?? 0);
-  startSmtpSink({ port: env.SMTP_PORT, dataDir: env.DATA_DIR, delayMs: Number.isFinite(delay) && delay > 0 ? delay : 0 })
+  startSmtpSink({ port: env.SMTP_PORT, dataDir: env.DATA_DIR, delayMs: env.SMTP_SINK_DELAY_MS })
     .then((sink) => {
       const stop = () => {
         log.info("stopping");

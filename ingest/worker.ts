@@ -22,6 +22,7 @@ import {
 } from "../lib/contract/readings-payload";
 import { ALL_DEVICE_READINGS, ALL_DEVICE_STATUS, internalTopics, parseDeviceTopic } from "../lib/contract/topics";
 import type { DeviceStatusChange } from "../lib/live";
+import { SERVICE_ACCOUNTS } from "../lib/settings";
 import { getIngestConfig } from "./config";
 import { DeferredAcks, type AckToken } from "./deferred-acks";
 import { DeviceDirectory } from "./device-directory";
@@ -34,6 +35,8 @@ import { sinkFactories, type CommittedReading, type SinkContext } from "./sinks"
 import { SpillStore } from "./spill";
 import { WorkerCounters } from "./stats";
 import { ReadingWriter } from "./writer";
+import { DeviceClocks } from "./device-clocks";
+import { startSparkplugFromEnv } from "./sparkplug/start";
 
 const log = createLogger("worker");
 const PAYLOAD_KEPT_CHARS = 500;
@@ -87,8 +90,8 @@ export async function startWorker() {
     protocolVersion: 4,
     clientId: cfg.INGEST_CLIENT_ID,
     clean: false,
-    username: env.MQTT_SERVICE_USER,
-    password: env.MQTT_SERVICE_PASSWORD,
+    username: SERVICE_ACCOUNTS.worker,
+    password: env.MQTT_WORKER_PASSWORD,
     keepalive: 30,
     reconnectPeriod: 1000,
     connectTimeout: 10_000,
@@ -113,7 +116,16 @@ export async function startWorker() {
       retryMaxMs: cfg.INGEST_RETRY_MAX_MS,
     },
     {
-      ack: (tokens) => acks.ack(tokens),
+      ack: (tokens) => {
+        // MQTT acknowledgements of the JSON connection, and shares of Sparkplug ones
+        const own: AckToken[] = [];
+        for (const t of tokens) {
+          if (t === null) continue;
+          if ("release" in t) t.release();
+          else own.push(t);
+        }
+        acks.ack(own);
+      },
       committed: (rows, source) => onCommitted(rows, source),
       log,
       counters,
@@ -154,6 +166,17 @@ export async function startWorker() {
   // ---- devices: online/offline and last seen ----
   const lastSeen = new Map<number, number>();
   const pendingOnline = new Map<number, boolean>();
+  const clocks = new DeviceClocks();
+  await clocks.reload(db).catch((err: unknown) => log.warn("could not load device clocks yet", { error: describeError(err) }));
+  function changeOnline(device: IngestDevice, online: boolean, now: number) {
+    if (online) lastSeen.set(device.id, now);
+    if (device.online === online) return;
+    directory.setOnline(device.id, online);
+    pendingOnline.set(device.id, online);
+    const change: DeviceStatusChange = { v: 1, deviceId: device.id, code: device.code, online, ts: now };
+    publish(internalTopics.devices, JSON.stringify(change), 1);
+    void writeOnline();
+  }
   function handleStatus(code: string, payload: Buffer, now: number) {
     const device = directory.get(code);
     if (!device) return;
@@ -169,13 +192,7 @@ export async function startWorker() {
       reject(code, "malformed_json", "status message is not valid JSON", payload, now);
       return;
     }
-    if (online) lastSeen.set(device.id, now);
-    if (device.online === online) return;
-    directory.setOnline(device.id, online);
-    pendingOnline.set(device.id, online);
-    const change: DeviceStatusChange = { v: 1, deviceId: device.id, code, online, ts: now };
-    publish(internalTopics.devices, JSON.stringify(change), 1);
-    void writeOnline();
+    changeOnline(device, online, now);
   }
   async function writeOnline() {
     for (const [id, online] of [...pendingOnline]) {
@@ -202,7 +219,15 @@ export async function startWorker() {
       acks.ack([ack]);
       return;
     }
-    const checked = checkReadingSets(parsed.sets, {
+    // clock skew from the newest reading; shifted onto the server clock where the engineer chose so
+    let newest = -Infinity;
+    for (const set of parsed.sets) newest = Math.max(newest, typeof set.ts === "number" ? set.ts : Date.parse(set.ts));
+    let sets = parsed.sets;
+    if (Number.isFinite(newest)) {
+      const timeOf = clocks.observe(device.id, now, newest);
+      if (clocks.clockOf(device.id).source === "arrival") sets = sets.map((set) => ({ ...set, ts: timeOf(typeof set.ts === "number" ? set.ts : Date.parse(set.ts)) }));
+    }
+    const checked = checkReadingSets(sets, {
       deviceKind: device.kind,
       nowMs: now,
       oldestAcceptedMs: oldestAcceptedMs(now, env.RAW_RETENTION_DAYS),
@@ -338,6 +363,7 @@ export async function startWorker() {
         throw err;
       }
       await writeOnline();
+      await clocks.flush(db, Date.now());
       await upsertIngestStatus(db, cfg.INGEST_CLIENT_ID, Date.now(), snapshot());
       if (rejectionsSinceTrim > 0) {
         rejectionsSinceTrim = 0;
@@ -353,6 +379,7 @@ export async function startWorker() {
 
   const refreshTimer = setInterval(async () => {
     if (await directory.reload()) for (const [id, online] of pendingOnline) directory.setOnline(id, online);
+    await clocks.reload(db).catch((err: unknown) => log.debug("could not reload device clocks", { error: describeError(err) }));
   }, cfg.INGEST_DEVICE_REFRESH_MS);
 
   const maintenanceTimer = setInterval(() => {
@@ -362,6 +389,30 @@ export async function startWorker() {
       })
       .catch((err: unknown) => log.warn("partition maintenance failed", { error: describeError(err) }));
   }, cfg.INGEST_MAINTENANCE_INTERVAL_MS);
+
+  // ---- Sparkplug B host application (its own connection; same writer, clocks and devices) ----
+  const sparkplug = await startSparkplugFromEnv({
+    env,
+    db,
+    log: createLogger("sparkplug"),
+    writer,
+    ingestClientId: cfg.INGEST_CLIENT_ID,
+    // the same service account as the JSON connection
+    username: String(mqttClient.options.username ?? ""),
+    password: String(mqttClient.options.password ?? ""),
+    maxPayloadBytes: cfg.MQTT_MAX_PAYLOAD_BYTES,
+    refreshMs: cfg.INGEST_DEVICE_REFRESH_MS,
+    clocks,
+    oldestAcceptedMs: (now) => oldestAcceptedMs(now, env.RAW_RETENTION_DAYS),
+    setDeviceOnline(deviceId, online, now) {
+      const d = directory.getById(deviceId);
+      if (d) changeOnline(d, online, now);
+    },
+    countReadings(code, n, now, deviceIds) {
+      counters.countMessage(code, n, now);
+      for (const id of deviceIds) lastSeen.set(id, now);
+    },
+  });
 
   // spill files left by an earlier run
   if (spill.list().length > 0) void writer.replay();
@@ -380,6 +431,7 @@ export async function startWorker() {
     clearInterval(statusTimer);
     clearInterval(refreshTimer);
     clearInterval(maintenanceTimer);
+    await sparkplug?.stop();
     await writer.drain(5000);
     for (const { topic, snapshot: s } of live.take(Date.now())) publish(topic, JSON.stringify(s));
     await Promise.race([Promise.all([flushRejections(), writeStatus()]), new Promise((r) => setTimeout(r, 1000).unref())]);

@@ -20,6 +20,7 @@ import { z } from "zod";
 import { createTestDatabase } from "../tests/helpers/test-db";
 import { hashDeviceSecret } from "../lib/device-secrets";
 import { deviceTopics } from "../lib/contract/topics";
+import { SERVICE_ACCOUNTS } from "../lib/settings";
 import {
   connectClient,
   spawnTs,
@@ -174,7 +175,7 @@ async function main(): Promise<void> {
     // (a) bare broker
     const sub: Proc = spawnTs("bench-sub", "scripts/bench-ingest.ts", [
       "--role", "subscriber", "--port", String(stack.mqttPort), "--count", String(opts.bareMessages),
-      "--user", env.MQTT_SERVICE_USER, "--password", env.MQTT_SERVICE_PASSWORD,
+      "--user", SERVICE_ACCOUNTS.worker, "--password", env.MQTT_WORKER_PASSWORD,
     ], {});
     await waitFor("the bench subscriber", async () => sub.output().includes("ready"), 30_000);
     const pubA = await connect(devices[0]);

@@ -31,6 +31,7 @@ import {
   type ReadingRow,
 } from "../db/queries/readings-write";
 import { CHANNELS } from "../lib/contract/readings-payload";
+import { getSettings } from "../lib/settings";
 import { PlantModel, SAMPLE_PERIOD_MS, type SimDevice } from "./plant-model";
 
 const RAW_CHUNK_MS = 10 * MINUTE_MS;
@@ -211,7 +212,7 @@ async function main(): Promise<void> {
     },
     strict: true,
   });
-  const e = process.env;
+  const e = getSettings();
   const parsed = historyOptionsSchema.safeParse({
     days: values.days ?? e.SIM_BACKFILL_DAYS,
     thin: values.thin ?? e.SIM_BACKFILL_THIN,

@@ -30,6 +30,7 @@ import { readDeviceSecrets } from "../db/seed";
 import type { ReadingSetInput } from "../lib/contract/readings-payload";
 import { MAX_BATCH_LENGTH } from "../lib/contract/readings-payload";
 import { deviceTopics } from "../lib/contract/topics";
+import { getSettings } from "../lib/settings";
 import { resolveAnchor, writeHistory } from "./backfill";
 import { PlantModel, SAMPLE_PERIOD_MS, type SimDevice } from "./plant-model";
 
@@ -81,7 +82,7 @@ function readOptions(): PlantOptions {
     },
     strict: true,
   });
-  const env = process.env;
+  const env = getSettings();
   const parsed = optionsSchema.safeParse({
     seed: values.seed ?? env.SIM_SEED,
     anchor: values.anchor ?? env.SIM_ANCHOR_MS,

@@ -10,6 +10,7 @@ import { z } from "zod";
 import { getEnv } from "@/db/env";
 import { internalTopics } from "@/lib/contract/topics";
 import { parseLiveSnapshot, type LiveSnapshot } from "@/lib/live";
+import { SERVICE_ACCOUNTS } from "@/lib/settings";
 
 /** Alert changes published by the alerts engine; streams forward them so pages refetch alerts. */
 export const alertChangeSchema = z.object({
@@ -88,7 +89,7 @@ export class LiveHub {
   private ensureClient() {
     if (this.client) return;
     const env = this.account ? null : getEnv();
-    const account = this.account ?? { host: env!.MQTT_HOST, port: env!.MQTT_PORT, username: env!.MQTT_SERVICE_USER, password: env!.MQTT_SERVICE_PASSWORD };
+    const account = this.account ?? { host: env!.MQTT_HOST, port: env!.MQTT_PORT, username: SERVICE_ACCOUNTS.app, password: env!.MQTT_APP_PASSWORD };
     const client = mqtt.connect({
       host: account.host,
       port: account.port,

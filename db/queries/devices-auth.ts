@@ -47,6 +47,21 @@ export async function listDeviceCredentials(db: Db): Promise<DeviceCredential[]>
     .from(devices);
 }
 
+/**
+ * A cheap signature of every device's sign-in data (count and a sum of checksums, computed by the
+ * database): the broker polls it each second and reloads credentials only when it changes, so a
+ * disabled or re-keyed device is cut off at once.
+ */
+export async function deviceCredentialsSignature(db: Db): Promise<string> {
+  const rows = await db
+    .select({
+      n: sql<number>`COUNT(*)`,
+      sum: sql<string>`COALESCE(SUM(CRC32(CONCAT_WS('|', ${devices.code}, ${devices.enabled}, ${devices.secretHash}))), 0)`,
+    })
+    .from(devices);
+  return `${rows[0]?.n ?? 0}:${rows[0]?.sum ?? 0}`;
+}
+
 export async function findDeviceCredential(db: Db, code: string): Promise<DeviceCredential | null> {
   const rows = await db
     .select({ id: devices.id, code: devices.code, kind: devices.kind, enabled: devices.enabled, secretHash: devices.secretHash })

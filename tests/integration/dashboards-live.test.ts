@@ -9,7 +9,7 @@ import { createTestDatabase, type TestDatabase } from "../helpers/test-db";
 import { readDeviceSecrets } from "../../db/seed";
 import { getPlantLayout } from "../../db/queries/plant";
 import { internalTopics, deviceTopics } from "../../lib/contract/topics";
-import { connectDevice, connectService, endClient, publishAsync, startIngestStack, waitFor, type IngestStack } from "./ingest-support/processes";
+import { connectDevice, connectService, endClient, publishAsync, serviceAccount, startIngestStack, waitFor, type IngestStack } from "./ingest-support/processes";
 import type { HubEvent } from "../../app/_server/live-hub";
 
 let tdb: TestDatabase;
@@ -29,7 +29,7 @@ beforeAll(async () => {
   stack = await startIngestStack("dashboards_live", tdb.env, { env: { INGEST_LIVE_INTERVAL_MS: "1000" } });
   hubModule = await import("../../app/_server/live-hub");
   // the app's hub takes its broker from the environment; this one is pointed at the test broker
-  hub = new hubModule.LiveHub({ host: "127.0.0.1", port: stack.mqttPort, username: stack.env.MQTT_SERVICE_USER, password: stack.env.MQTT_SERVICE_PASSWORD });
+  hub = new hubModule.LiveHub({ host: "127.0.0.1", port: stack.mqttPort, ...serviceAccount(stack, "app") });
   const layout = await getPlantLayout(tdb.db);
   const line = layout[0].lines[0];
   fm = { id: line.points[0].fieldMeter!.id, code: line.points[0].fieldMeter!.code, lineId: line.id };

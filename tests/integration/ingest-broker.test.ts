@@ -12,6 +12,7 @@ import {
   connectDevice,
   connectService,
   endClient,
+  serviceAccount,
   startIngestStack,
   waitFor,
   type IngestStack,
@@ -67,7 +68,7 @@ describe("broker sign-in", () => {
       { clientId: A, username: A, password: secrets[B] }, // another device's secret
       { clientId: "fm-nowhere", username: "fm-nowhere", password: "x" },
       { clientId: "someone", username: A, password: secrets[A] }, // client id is not the device code
-      { clientId: "svc-x", username: stack.env.MQTT_SERVICE_USER, password: "wrong-service-password" },
+      { clientId: "svc-x", username: serviceAccount(stack, "worker").username, password: "wrong-service-password" },
       { clientId: A },
     ];
     for (const opts of attempts) {
@@ -85,10 +86,14 @@ describe("broker sign-in", () => {
 
 describe("broker topic rules", () => {
   it("closes a device that publishes to another device's topic or an internal topic; nothing is delivered", async () => {
+    // the worker's account watches device topics, the app's internal ones
     const svc = await connectService(stack, "svc-watch");
+    const svcApp = await connectService(stack, "svc-watch-app", "app");
     const received: string[] = [];
     svc.on("message", (topic) => received.push(topic));
-    await subscribeGranted(svc, "stillfield/#");
+    svcApp.on("message", (topic) => received.push(topic));
+    await subscribeGranted(svc, "stillfield/d/#");
+    await subscribeGranted(svcApp, "stillfield/internal/#");
     const before = (await stack.brokerStats()).refused.publish;
 
     for (const topic of [deviceTopics.readings(B), internalTopics.liveLine(1), internalTopics.alerts, deviceTopics.command(A)]) {
@@ -106,6 +111,7 @@ describe("broker topic rules", () => {
     expect((await stack.brokerStats()).refused.publish - before).toBe(4);
     await endClient(dev);
     await endClient(svc);
+    await endClient(svcApp);
   });
 
   it("refuses a device's subscriptions to internal topics, other devices and wildcards, and delivers nothing from them", async () => {

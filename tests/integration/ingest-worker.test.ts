@@ -49,7 +49,7 @@ beforeAll(async () => {
   stack = await startIngestStack("worker", tdb.env, {
     env: { INGEST_DEVICE_REFRESH_MS: "300", INGEST_LIVE_INTERVAL_MS: "300", RAW_RETENTION_DAYS: "14" },
   });
-  svc = await connectService(stack, "svc-worker-test");
+  svc = await connectService(stack, "svc-worker-test", "app");
   svc.on("message", (topic, msg) => {
     if (topic === internalTopics.devices) deviceChanges.push(JSON.parse(msg.toString()));
     else {

@@ -7,9 +7,11 @@ import mqtt, { type MqttClient } from "mqtt";
 import { z } from "zod";
 import { getDb } from "@/db/client";
 import { getEnv } from "@/db/env";
-import { respondToAlert, type AlertChange } from "@/db/queries/alerts";
+import { respondToAlert } from "@/db/queries/alert-actions";
+import type { AlertChange } from "@/lib/views/alerts";
 import { internalTopics } from "@/lib/contract/topics";
 import { MAX_SHELVE_MS, MAX_SHELVE_REASON_LENGTH } from "@/lib/rules";
+import { SERVICE_ACCOUNTS } from "@/lib/settings";
 import { defineAction } from "../action";
 
 // ---- announcing changes (one service-account connection per app process) ----
@@ -22,8 +24,8 @@ function publisher(): MqttClient {
     const client = mqtt.connect({
       host: env.MQTT_HOST,
       port: env.MQTT_PORT,
-      username: env.MQTT_SERVICE_USER,
-      password: env.MQTT_SERVICE_PASSWORD,
+      username: SERVICE_ACCOUNTS.app,
+      password: env.MQTT_APP_PASSWORD,
       clientId: `stillfield-app-alerts-${process.pid}-${Math.random().toString(36).slice(2, 8)}`,
       clean: true,
       reconnectPeriod: 5_000,

@@ -4,7 +4,6 @@
 import "server-only";
 import { z } from "zod";
 import { getDb } from "@/db/client";
-import { getEnv } from "@/db/env";
 import { writeAudit } from "@/db/queries/audit";
 import { createDevice, deviceCodeTaken, getDevice, resolvePlacement, rotateDeviceSecret, setDeviceEnabled, updateDevice } from "@/db/queries/equipment";
 import { DEVICE_KINDS } from "@/db/schema/plant";
@@ -12,6 +11,7 @@ import { DEVICE_CODE_PATTERN } from "@/lib/contract/topics";
 import { generateDeviceSecret, hashDeviceSecret } from "@/lib/device-secrets";
 import { AppError, badInput, notFound } from "@/lib/errors";
 import { deviceWarnings } from "@/lib/equipment-warnings";
+import { isReservedAccountName, SERVICE_ACCOUNT_PREFIX } from "@/lib/settings";
 import { defineAction } from "../action";
 import { idField, optionalDate, optionalNumber } from "./equipment";
 
@@ -41,13 +41,13 @@ export const createDeviceAction = defineAction(
     code: z
       .string()
       .trim()
-      .regex(DEVICE_CODE_PATTERN, "Letters, digits and - _ . only, starting with a letter or digit (at most 64)"),
+      .regex(DEVICE_CODE_PATTERN, "Letters, digits and - _ . only, starting with a letter or digit (at most 64)")
+      .refine((code) => !isReservedAccountName(code), `Names starting with "${SERVICE_ACCOUNT_PREFIX}" are reserved for Stillfield's own services`),
     kind: z.enum(DEVICE_KINDS, { message: "Choose a kind" }),
     ...placementAndData,
   }),
   async (input, session) => {
     const db = getDb();
-    if (input.code === getEnv().MQTT_SERVICE_USER) throw badInput("Please correct the marked fields.", { code: ["This name is reserved for Stillfield itself"] });
     if (await deviceCodeTaken(db, input.code)) throw new AppError("conflict", "A device with this code exists already.", { code: ["This code is taken"] });
     const place = await placement(input);
     const secret = generateDeviceSecret();

@@ -7,6 +7,7 @@ import net from "node:net";
 import path from "node:path";
 import mqtt, { type IClientOptions, type MqttClient } from "mqtt";
 import { workerStatsSchema, type WorkerStats } from "../../../db/queries/ingest-diagnostics";
+import { SERVICE_ACCOUNTS, type ServiceRole } from "../../../lib/settings";
 
 export const ROOT = path.resolve(import.meta.dirname, "../../..");
 
@@ -101,7 +102,7 @@ export type IngestStack = {
   worker: Proc | null;
   startWorker(extraEnv?: Record<string, string>, nodeArgs?: string[]): Promise<Proc>;
   workerStats(sinceMs?: number): Promise<WorkerStats>;
-  brokerStats(): Promise<{ refused: { auth: number; publish: number; subscribe: number; oversized: number }; kicked: number; messagesIn: number }>;
+  brokerStats(): Promise<{ refused: { auth: number; publish: number; subscribe: number; oversized: number; connections: number }; kicked: number; messagesIn: number }>;
   stop(): Promise<void>;
 };
 
@@ -124,13 +125,15 @@ export async function startIngestStack(
     MQTT_PORT: String(mqttPort),
     WORKER_HEALTH_PORT: String(workerHealthPort),
     BROKER_HEALTH_PORT: String(brokerHealthPort),
-    MQTT_SERVICE_USER: "stillfield-service",
-    MQTT_SERVICE_PASSWORD: `svc-${name}-secret`,
+    MQTT_WORKER_PASSWORD: `worker-${name}-secret`,
+    MQTT_APP_PASSWORD: `app-${name}-secret`,
     DATA_DIR: dataDir,
     INGEST_CLIENT_ID: `ingest-test-${name}`,
     BROKER_ID: `broker-test-${name}`,
     INGEST_STATUS_INTERVAL_MS: "500",
     DB_POOL_SIZE: "6",
+    // no TLS listener unless a test asks for one (the stack's own port is another's)
+    MQTT_TLS_PORT: "0",
     ...opts.env,
   };
   const broker = spawnTs("broker", "ingest/broker.ts", [], env, opts.brokerNodeArgs ?? []);
@@ -178,7 +181,7 @@ function brokerStatsShape(raw: unknown) {
   const r = obj(raw);
   const refused = obj(r.refused);
   return {
-    refused: { auth: num(refused.auth), publish: num(refused.publish), subscribe: num(refused.subscribe), oversized: num(refused.oversized) },
+    refused: { auth: num(refused.auth), publish: num(refused.publish), subscribe: num(refused.subscribe), oversized: num(refused.oversized), connections: num(refused.connections) },
     kicked: num(r.kicked),
     messagesIn: num(r.messagesIn),
   };
@@ -206,13 +209,14 @@ export function connectDevice(stack: IngestStack, code: string, secret: string, 
   return connectClient(stack.mqttPort, { clientId: code, username: code, password: secret, clean: true, ...extra });
 }
 
-export function connectService(stack: IngestStack, clientId: string): Promise<MqttClient> {
-  return connectClient(stack.mqttPort, {
-    clientId,
-    username: stack.env.MQTT_SERVICE_USER,
-    password: stack.env.MQTT_SERVICE_PASSWORD,
-    clean: true,
-  });
+/** User name and password of one of the two service accounts (lib/settings.ts, ingest/broker-acl.ts). */
+export function serviceAccount(stack: IngestStack, role: ServiceRole): { username: string; password: string } {
+  return { username: SERVICE_ACCOUNTS[role], password: role === "worker" ? stack.env.MQTT_WORKER_PASSWORD : stack.env.MQTT_APP_PASSWORD };
+}
+
+/** A client signed in as the worker's account (reads device topics, writes internal ones) or the app's. */
+export function connectService(stack: IngestStack, clientId: string, role: ServiceRole = "worker"): Promise<MqttClient> {
+  return connectClient(stack.mqttPort, { clientId, ...serviceAccount(stack, role), clean: true });
 }
 
 export function publishAsync(c: MqttClient, topic: string, payload: string | Buffer, qos: 0 | 1 = 1): Promise<void> {

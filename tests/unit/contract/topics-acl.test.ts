@@ -6,7 +6,8 @@ import { deviceTopics, internalTopics, parseDeviceTopic } from "@/lib/contract/t
 import { mayPublish, maySubscribe } from "@/ingest/broker-acl";
 
 const dev = { kind: "device" as const, code: "fm-gravure-1-unwind" };
-const svc = { kind: "service" as const };
+const worker = { kind: "service" as const, role: "worker" as const };
+const app = { kind: "service" as const, role: "app" as const };
 
 describe("device topics", () => {
   it("round-trips a device topic", () => {
@@ -36,11 +37,25 @@ describe("broker access rules", () => {
       expect(maySubscribe(dev, f)).toBe(false);
     }
   });
-  it("lets the service account use every topic under stillfield/ and nothing else", () => {
-    expect(mayPublish(svc, internalTopics.alerts)).toBe(true);
-    expect(maySubscribe(svc, "stillfield/internal/live/#")).toBe(true);
-    expect(maySubscribe(svc, "stillfield/d/+/readings")).toBe(true);
-    expect(maySubscribe(svc, "#")).toBe(false);
-    expect(mayPublish(svc, "$SYS/x")).toBe(false);
+  it("gives the worker's account device topics to read and internal topics (and commands) to write", () => {
+    expect(maySubscribe(worker, "stillfield/d/+/readings")).toBe(true);
+    expect(maySubscribe(worker, "stillfield/d/+/status")).toBe(true);
+    expect(mayPublish(worker, internalTopics.liveLine(1))).toBe(true);
+    expect(mayPublish(worker, internalTopics.alerts)).toBe(true);
+    expect(mayPublish(worker, deviceTopics.command(dev.code))).toBe(true);
+    expect(mayPublish(worker, deviceTopics.readings(dev.code))).toBe(false);
+    expect(mayPublish(worker, deviceTopics.status(dev.code))).toBe(false);
+    expect(maySubscribe(worker, "stillfield/internal/#")).toBe(false);
+    expect(maySubscribe(worker, "#")).toBe(false);
+    expect(mayPublish(worker, "$SYS/x")).toBe(false);
+  });
+  it("lets the app's account read internal topics and write alert changes only", () => {
+    expect(maySubscribe(app, "stillfield/internal/live/#")).toBe(true);
+    expect(maySubscribe(app, internalTopics.alerts)).toBe(true);
+    expect(mayPublish(app, internalTopics.alerts)).toBe(true);
+    for (const t of [deviceTopics.readings(dev.code), deviceTopics.status(dev.code), deviceTopics.command(dev.code), internalTopics.liveLine(1), internalTopics.liveArea(1), internalTopics.devices]) {
+      expect(mayPublish(app, t)).toBe(false);
+    }
+    for (const f of ["stillfield/d/+/readings", "stillfield/#", "#"]) expect(maySubscribe(app, f)).toBe(false);
   });
 });

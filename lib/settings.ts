@@ -1,0 +1,185 @@
+// Stillfield's settings: the one place that reads the process environment (process.env), for
+// every process — the app, the broker, the ingest worker, the mailer, the mail sink, the
+// simulators and the scripts. Validated with zod on first use; every process calls
+// getSettings() at start (the app in instrumentation.ts), so a bad value stops it with a list
+// of what is wrong rather than failing later.
+//
+// Modes (STILLFIELD_MODE): "demo" and "test" (set by scripts/demo.sh and scripts/test.sh; Vitest
+// sets NODE_ENV=test) accept the fixed demo secrets below when none is given; any other mode
+// ("production", the default) refuses to start while a secret is missing, short or one of those
+// fixed values. scripts/stack-env.sh generates random per-install secrets in DATA_DIR (mode 600)
+// and passes them in, so `npm run demo`, `npm test`, `npm run dev` and `npm start` never use the
+// fixed ones. Reading the environment is this module's only impure act; it does no other I/O.
+import { z } from "zod";
+import { MAX_PAYLOAD_BYTES } from "./contract/readings-payload";
+
+/** Broker user names of the two service accounts; no device code may start with the prefix. */
+export const SERVICE_ACCOUNT_PREFIX = "svc-";
+export const SERVICE_ACCOUNTS = { worker: "svc-worker", app: "svc-app" } as const;
+export type ServiceRole = keyof typeof SERVICE_ACCOUNTS;
+
+/** True for a name a device may not take (the service accounts' prefix, any letter case). */
+export function isReservedAccountName(name: string): boolean {
+  return name.toLowerCase().startsWith(SERVICE_ACCOUNT_PREFIX);
+}
+
+const SECRET_KEYS = ["NEXTAUTH_SECRET", "DB_PASSWORD", "MQTT_WORKER_PASSWORD", "MQTT_APP_PASSWORD"] as const;
+type SecretKey = (typeof SECRET_KEYS)[number];
+
+/** The fixed secrets demo and test runs may fall back to; refused in any other mode. */
+export const DEMO_SECRETS: Readonly<Record<SecretKey, string>> = {
+  NEXTAUTH_SECRET: "demo-only-auth-secret-not-for-plants",
+  DB_PASSWORD: "stillfield-local",
+  MQTT_WORKER_PASSWORD: "demo-only-worker-secret",
+  MQTT_APP_PASSWORD: "demo-only-app-secret",
+};
+/** Values from earlier versions that must not pass as real secrets either. */
+const KNOWN_WEAK = new Set<string>([...Object.values(DEMO_SECRETS), "service-local-secret", "secret", "changeme", "password"]);
+const MIN_SECRET_LENGTH = 16;
+
+const port = (d: number) => z.coerce.number().int().min(1).max(65535).default(d);
+const portOrOff = (d: number) => z.coerce.number().int().min(0).max(65535).default(d);
+const int = (d: number, min = 0) => z.coerce.number().int().min(min).default(d);
+const optionalText = z.string().optional();
+
+const schema = z.object({
+  STILLFIELD_MODE: z.enum(["demo", "test", "production"]).optional(),
+  NODE_ENV: optionalText,
+  NEXT_PHASE: optionalText,
+  LOG_LEVEL: z.enum(["debug", "info", "warn", "error"]).default("info"),
+  DATA_DIR: z.string().min(1).default(".data"),
+  // secrets (checked by mode below)
+  NEXTAUTH_SECRET: optionalText,
+  DB_PASSWORD: optionalText,
+  MQTT_WORKER_PASSWORD: optionalText,
+  MQTT_APP_PASSWORD: optionalText,
+  // database
+  DB_HOST: z.string().default("127.0.0.1"),
+  DB_PORT: port(3407),
+  DB_USER: z.string().min(1).default("stillfield"),
+  DB_NAME: z.string().regex(/^[A-Za-z0-9_]+$/, "DB_NAME may hold letters, digits and _ only").default("stillfield"),
+  DB_POOL_SIZE: z.coerce.number().int().min(1).max(100).default(10),
+  RAW_RETENTION_DAYS: z.coerce.number().int().min(1).max(3650).default(14),
+  // broker: plain MQTT on loopback only (local services), MQTT over TLS for devices
+  MQTT_HOST: z.string().default("127.0.0.1"),
+  MQTT_PORT: port(1884),
+  /** 0 = no TLS listener */
+  MQTT_TLS_PORT: portOrOff(0),
+  /** address of the TLS listener; a plant sets its plant-network address (or 0.0.0.0) */
+  MQTT_TLS_HOST: z.string().default("127.0.0.1"),
+  /** server certificate and key of the TLS listener; default DATA_DIR/tls/server.{crt,key} */
+  MQTT_TLS_CERT_FILE: optionalText,
+  MQTT_TLS_KEY_FILE: optionalText,
+  /** CA that clients of ours (simulators, mailer) trust; default DATA_DIR/tls/ca.crt */
+  TLS_CA_FILE: optionalText,
+  MQTT_MAX_CONNECTIONS: int(2000, 1),
+  /** unknown device codes remembered (to look each up at most once per 5 s); oldest forgotten first */
+  BROKER_UNKNOWN_CODES_KEPT: int(10_000, 1),
+  MQTT_MAX_PAYLOAD_BYTES: int(MAX_PAYLOAD_BYTES, 256),
+  BROKER_HEALTH_PORT: port(9465),
+  /** how often the broker checks the devices table for a change (a disabled device is out within this) */
+  BROKER_DEVICE_CHECK_MS: int(1000, 100),
+  /** full reload of device credentials even without a visible change */
+  BROKER_DEVICE_REFRESH_MS: int(60_000, 100),
+  BROKER_ID: optionalText,
+  // worker
+  WORKER_HEALTH_PORT: port(9464),
+  INGEST_CLIENT_ID: z.string().min(1).max(64).default("stillfield-ingest-1"),
+  INGEST_FLUSH_MS: int(250, 5),
+  INGEST_FLUSH_ROWS: int(5000, 1),
+  /** parallel writers; a device always goes to the same one, so its readings stay in order */
+  INGEST_LANES: int(2, 1),
+  /** readings held in memory (unacknowledged) before they are spilled to a file */
+  INGEST_MEMORY_MAX_READINGS: int(100_000, 10),
+  /** unacknowledged messages before a spill (keeps MQTT message ids far from wrapping) */
+  INGEST_MAX_UNACKED: int(20_000, 10),
+  INGEST_STATUS_INTERVAL_MS: int(5000, 100),
+  INGEST_DEVICE_REFRESH_MS: int(20_000, 100),
+  INGEST_LIVE_INTERVAL_MS: int(1000, 50),
+  INGEST_MAINTENANCE_INTERVAL_MS: int(3_600_000, 1000),
+  INGEST_RETRY_MAX_MS: int(5000, 50),
+  ALERTS_RUNNER: z.enum(["on", "off"]).default("on"),
+  ALERTS_RULES_POLL_MS: int(3000, 1),
+  ALERTS_ESCALATE_EVERY_MS: int(5000, 1),
+  ALERTS_SNAPSHOT_EVERY_MS: int(30_000, 1),
+  // mail
+  SMTP_HOST: z.string().default("127.0.0.1"),
+  SMTP_PORT: port(2525),
+  /** refuse to send unless the server takes STARTTLS (a plant's relay should) */
+  SMTP_REQUIRE_TLS: z.enum(["0", "1"]).default("0").transform((v) => v === "1"),
+  MAIL_FROM: z.string().default("Stillfield <alerts@stillfield.invalid>"),
+  SMTP_SINK_DELAY_MS: int(0, 0),
+  MAILER_POLL_MS: int(1000),
+  MAILER_LEASE_MS: int(60_000),
+  MAILER_BACKOFF_BASE_MS: int(5_000),
+  MAILER_BACKOFF_MAX_MS: int(300_000),
+  MAILER_MAX_PERMANENT: int(3),
+  MAILER_SCHEDULE_EVERY_MS: int(60_000),
+  MAILER_BATCH: int(20),
+  // app
+  APP_URL: z.string().url().default("http://127.0.0.1:3000"),
+  /** how many proxies in front of the app add X-Forwarded-For (0: trust none) */
+  TRUSTED_PROXIES: optionalText,
+  /** header name, random per process, in which the app's server passes the socket's address */
+  STILLFIELD_PEER_HEADER: optionalText,
+  PLANT_TIME_ZONE: z.string().default("Europe/London"),
+  // simulators (their command-line flags win)
+  SIM_SEED: optionalText,
+  SIM_ANCHOR_MS: optionalText,
+  SIM_BACKFILL_DAYS: optionalText,
+  SIM_BACKFILL_THIN: optionalText,
+  SIM_FULL_RATE_HOURS: optionalText,
+  SIM_MALFORMED_EVERY_S: optionalText,
+});
+
+type Parsed = z.infer<typeof schema>;
+export type Settings = Omit<Parsed, SecretKey | "STILLFIELD_MODE"> &
+  Record<SecretKey, string> & { STILLFIELD_MODE: "demo" | "test" | "production" };
+
+export class SettingsError extends Error {
+  constructor(readonly problems: string[]) {
+    super(`Stillfield will not start; fix these settings:\n${problems.map((p) => `  - ${p}`).join("\n")}`);
+    this.name = "SettingsError";
+  }
+}
+
+/** Validates an environment (pure: tests pass their own). Throws SettingsError listing every problem. */
+export function parseSettings(env: Record<string, string | undefined>): Settings {
+  const parsed = schema.safeParse(env);
+  if (!parsed.success) throw new SettingsError(parsed.error.issues.map((i) => `${i.path.join(".")}: ${i.message}`));
+  const s = parsed.data;
+  const mode = s.STILLFIELD_MODE ?? (s.NODE_ENV === "test" ? "test" : "production");
+  // `next build` imports server modules without running them; secrets are checked when it runs
+  const building = s.NEXT_PHASE === "phase-production-build";
+  const problems: string[] = [];
+  const secrets = {} as Record<SecretKey, string>;
+  for (const key of SECRET_KEYS) {
+    const value = s[key] ?? "";
+    if (mode === "production" && !building) {
+      if (!value) problems.push(`${key} is not set (outside the demo and the tests every secret must be given; scripts/stack-env.sh makes random ones in DATA_DIR)`);
+      else if (KNOWN_WEAK.has(value)) problems.push(`${key} is a published default; give a random secret (e.g. openssl rand -base64 32)`);
+      else if (value.length < MIN_SECRET_LENGTH) problems.push(`${key} is shorter than ${MIN_SECRET_LENGTH} characters`);
+    }
+    secrets[key] = value || DEMO_SECRETS[key];
+  }
+  if (problems.length) throw new SettingsError(problems);
+  return { ...s, ...secrets, STILLFIELD_MODE: mode };
+}
+
+let cached: Settings | undefined;
+
+/** This process's settings, parsed once. */
+export function getSettings(): Settings {
+  cached ??= parseSettings(process.env);
+  return cached;
+}
+
+/** File locations under DATA_DIR that several processes agree on (paths only; no I/O here). */
+export function tlsFiles(s: Pick<Settings, "DATA_DIR"> & Partial<Pick<Settings, "MQTT_TLS_CERT_FILE" | "MQTT_TLS_KEY_FILE" | "TLS_CA_FILE">>) {
+  const dir = `${s.DATA_DIR.replace(/\/+$/, "")}/tls`;
+  return {
+    cert: s.MQTT_TLS_CERT_FILE ?? `${dir}/server.crt`,
+    key: s.MQTT_TLS_KEY_FILE ?? `${dir}/server.key`,
+    ca: s.TLS_CA_FILE ?? `${dir}/ca.crt`,
+  };
+}
