@@ -8,7 +8,7 @@
 import { and, eq } from "drizzle-orm";
 import type { Db } from "../db/client";
 import { alertEvents, alerts } from "../db/schema";
-import { listNotifyCandidates, type NotifyCandidate } from "../db/queries/alerts";
+import { listNotifyCandidates, type NotifyCandidate } from "../db/queries/alert-notify-candidates";
 import { getAlertingSettings, listOnCallAt, type AlertingSettings, type RosterShift } from "../db/queries/oncall";
 import { enqueueMail } from "../db/queries/outbox";
 import type { AlertSubject } from "../db/queries/topology";

@@ -18,7 +18,8 @@
 import { eq } from "drizzle-orm";
 import { ZodError } from "zod";
 import { settings } from "../db/schema";
-import { applyClearTransition, applyUpdateTransition, expireShelving, insertRaisedAlert, listUnclearedAlerts, type AlertChange } from "../db/queries/alerts";
+import { applyClearTransition, applyUpdateTransition, expireShelving, insertRaisedAlert, listUnclearedAlerts } from "../db/queries/alert-transitions";
+import type { AlertChange } from "../lib/views/alerts";
 import { loadRuleDefinitions, readRulesSignature } from "../db/queries/rules";
 import { loadPlantTopology, readTopologySignature, type PlantTopology } from "../db/queries/topology";
 import { getPlantSettings } from "../db/queries/equipment";

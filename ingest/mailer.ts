@@ -23,7 +23,7 @@ import { and, eq, inArray } from "drizzle-orm";
 import { closeDb, getDb, type Db } from "../db/client";
 import { getEnv } from "../db/env";
 import { outbox, people } from "../db/schema";
-import { listAlertsForDigest } from "../db/queries/alerts";
+import { listAlertsForDigest } from "../db/queries/alert-list";
 import { queueWeeklyDueListEmail } from "../db/queries/due-list";
 import { getPlantSettings } from "../db/queries/equipment";
 import { getAlertingSettings } from "../db/queries/oncall";

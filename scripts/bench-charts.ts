@@ -13,7 +13,8 @@ import { migrate } from "drizzle-orm/mysql2/migrator";
 import * as schema from "../db/schema";
 import type { Db } from "../db/client";
 import { maintainPartitions } from "../db/partitions";
-import { getHistory, type HistorySource } from "../db/queries/history";
+import { getHistory } from "../db/queries/history";
+import type { HistorySource } from "../lib/views/history";
 
 const DB_NAME = "stillfield_bench_charts";
 const DAY = 86_400_000;

@@ -11,7 +11,7 @@ import { ActionForm, Field, inputClass, SubmitButton, type FormResult } from "@/
 import { useNow } from "@/components/live/use-now";
 import { EmptyState } from "@/components/ui/page";
 import { formatPlantTime } from "@/lib/plant-time";
-import type { AlertListItem } from "@/db/queries/alerts";
+import type { AlertListItem } from "@/lib/views/alerts";
 import { AlertCode, SeverityTag } from "./alert-bits";
 import { formatAlertValue, formatDuration } from "@/lib/vocabulary";
 import { ALERT_STATE_WORDS, ALERT_STATE_SHORT, RULE_KIND_WORDS, type AlertState } from "@/lib/vocabulary";

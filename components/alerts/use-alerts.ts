@@ -4,7 +4,7 @@
 // the list polls every 5 s instead; while it is up, every 60 s as a safety net.
 import { keepPreviousData, useQuery, useQueryClient } from "@tanstack/react-query";
 import { useMemo, useRef } from "react";
-import type { AlertDetail, AlertListItem } from "@/db/queries/alerts";
+import type { AlertDetail, AlertListItem } from "@/lib/views/alerts";
 import { LiveStore } from "@/components/live/live-store";
 import { useLiveStream, type StreamStatus } from "@/components/live/use-live-stream";
 import type { AlertState } from "@/lib/vocabulary";

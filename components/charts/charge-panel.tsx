@@ -2,8 +2,8 @@
 // One measuring point's charge over time on the line page: signed charge with its ± limit lines,
 // the live value and state, the limit's source and the neutralizer that serves the point.
 import { useMemo } from "react";
-import type { FloorPoint } from "@/db/queries/floor";
-import type { HistoryResult } from "@/db/queries/history";
+import type { FloorPoint } from "@/lib/views/floor";
+import type { HistoryResult } from "@/lib/views/history";
 import { useUnits } from "@/components/live/units";
 import { ChargeValue, PointStateMark } from "@/components/floor/bits";
 import type { PointView } from "@/components/floor/view-model";

@@ -2,7 +2,7 @@
 // The line page's side column: the line's open alerts (first three), and the notes in the range
 // shown, numbered like their markers on the charts.
 import Link from "next/link";
-import type { FloorLine } from "@/db/queries/floor";
+import type { FloorLine } from "@/lib/views/floor";
 import { StateBadge } from "@/components/ui/state-badge";
 import { formatPlantSince, formatPlantTime } from "@/lib/plant-time";
 import type { LineEvents } from "./use-history";

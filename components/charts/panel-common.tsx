@@ -3,7 +3,7 @@
 // takes, the "no readings" overlay, the hover read-out text and the legend swatch.
 import clsx from "clsx";
 import { formatPlantSince, formatPlantTime } from "@/lib/plant-time";
-import type { HistoryResult } from "@/db/queries/history";
+import type { HistoryResult } from "@/lib/views/history";
 import type { Span, VMarker } from "./time-chart";
 import type { Bucket } from "./series-data";
 

@@ -3,7 +3,7 @@
 // the window shown, a reset for a zoom, and which history source the charts are drawn from.
 import { useState } from "react";
 import clsx from "clsx";
-import type { HistoryResult } from "@/db/queries/history";
+import type { HistoryResult } from "@/lib/views/history";
 import { formatPlantTime, fromPlantLocalInput, toPlantLocalInput } from "@/lib/plant-time";
 import { RANGE_KINDS, RANGE_LABELS, type RangeState } from "./ranges";
 

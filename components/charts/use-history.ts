@@ -3,8 +3,8 @@
 // Earlier data stay on screen while a new range loads. (The charts' history is fetched with
 // useQueries in line-dashboard.tsx, one query per sensor channel.)
 import { keepPreviousData, useQuery } from "@tanstack/react-query";
-import type { LineNote } from "@/db/queries/notes";
-import type { TimelineAlert } from "@/db/queries/floor";
+import type { LineNote } from "@/lib/views/notes";
+import type { TimelineAlert } from "@/lib/views/floor";
 
 async function getJson<T>(url: string): Promise<T> {
   const res = await fetch(url, { cache: "no-store" });

@@ -5,7 +5,7 @@
 import { SparkMargin } from "./spark-margin";
 import Link from "next/link";
 import clsx from "clsx";
-import type { FloorSnapshot } from "@/db/queries/floor";
+import type { FloorSnapshot } from "@/lib/views/floor";
 import { Sparkline } from "@/components/charts/sparkline";
 import { StateBadge } from "@/components/ui/state-badge";
 import { UnitsProvider, UnitsToggle, useUnits } from "@/components/live/units";

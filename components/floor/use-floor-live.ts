@@ -4,7 +4,7 @@
 // the snapshot (debounced); a "reset" from the stream (too long a gap) reseeds the store.
 import { useQuery, useQueryClient } from "@tanstack/react-query";
 import { useCallback, useEffect, useMemo, useRef, useSyncExternalStore } from "react";
-import type { FloorSnapshot } from "@/db/queries/floor";
+import type { FloorSnapshot } from "@/lib/views/floor";
 import { LiveStore } from "@/components/live/live-store";
 import { useLiveStream, type LiveStreamState } from "@/components/live/use-live-stream";
 import { useNow } from "@/components/live/use-now";

@@ -1,6 +1,6 @@
 // What the Floor and the wallboard show for a hall, a line and a point, computed from the
 // snapshot's structure and the live store: current value, state against the limit, trend.
-import type { FloorArea, FloorLine, FloorPoint } from "@/db/queries/floor";
+import type { FloorArea, FloorLine, FloorPoint } from "@/lib/views/floor";
 import type { LiveStore, Sample } from "@/components/live/live-store";
 import { absoluteHumidityGPerM3, dewPointC } from "@/lib/physics/psychrometrics";
 import { pointState } from "@/lib/point-state";

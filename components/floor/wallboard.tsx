@@ -6,7 +6,7 @@
 // next-auth for it every 20 minutes, which re-issues the cookie.
 import { useEffect, useMemo, useState } from "react";
 import clsx from "clsx";
-import type { FloorSnapshot } from "@/db/queries/floor";
+import type { FloorSnapshot } from "@/lib/views/floor";
 import { Sparkline } from "@/components/charts/sparkline";
 import { lighten, tokenColors } from "@/components/charts/token-colors";
 import { StateShape } from "@/components/ui/state-badge";

@@ -4,62 +4,14 @@
 import { and, desc, eq, gte, isNull, lte, ne, or } from "drizzle-orm";
 import type { Db } from "../client";
 import { alerts, devices } from "../schema";
-import type { PlantSettings } from "../../lib/plant-settings";
+import type { FloorArea, FloorSnapshot, TimelineAlert } from "../../lib/views/floor";
 import { getPlantLayout, type PlantArea } from "./plant";
-import { getRecentTrends, type RecentSeries } from "./history";
-import { listLimitRules, resolveChargeLimit, resolveRhLimit, type ChargeLimit, type RhLimit } from "./limits";
+import { getRecentTrends } from "./history";
+import { listLimitRules } from "./limits";
+import { chartChargeLimit, chartRhLimit } from "../../lib/rules/limits-in-force";
 
 import { getPlantSettings } from "./plant-settings";
 export { getPlantSettings };
-
-export type FloorPoint = {
-  id: number;
-  name: string;
-  position: number;
-  fieldMeter: { deviceId: number; code: string; enabled: boolean; lastSeenTs: number | null } | null;
-  neutralizer: { id: number; tag: string; kind: string; state: string } | null;
-  limit: ChargeLimit | null;
-  openAlerts: number;
-  shelved: boolean;
-};
-
-export type FloorLine = {
-  id: number;
-  areaId: number;
-  name: string;
-  kind: string;
-  nominalSpeedMpm: number;
-  material: string | null;
-  solventName: string | null;
-  solventMieMj: number | null;
-  conductorCapacitancePf: number | null;
-  speedGateway: { deviceId: number; lastSeenTs: number | null } | null;
-  openAlerts: number;
-  points: FloorPoint[];
-};
-
-export type FloorArea = {
-  id: number;
-  slug: string;
-  name: string;
-  rhMinPct: number;
-  rhMaxPct: number;
-  tempSetpointC: number;
-  rhLimit: RhLimit;
-  logger: { deviceId: number; code: string; lastSeenTs: number | null } | null;
-  /** open alerts of the hall itself (humidity), not of its lines */
-  openAlerts: number;
-  lines: FloorLine[];
-};
-
-export type FloorSnapshot = {
-  nowTs: number;
-  settings: PlantSettings;
-  areas: FloorArea[];
-  /** last `trendMs` of every sensor: bucket means plus the exact newest reading */
-  series: RecentSeries[];
-  trendMs: number;
-};
 
 export const FLOOR_TREND_MS = 15 * 60_000;
 export const FLOOR_TREND_BUCKET_MS = 10_000;
@@ -92,7 +44,7 @@ export async function getFloorStructure(db: Db, opts: { nowMs?: number; areaId?:
     rhMinPct: a.rhMinPct,
     rhMaxPct: a.rhMaxPct,
     tempSetpointC: a.tempSetpointC,
-    rhLimit: resolveRhLimit({ areaId: a.id, rhMinPct: a.rhMinPct }, limitRules),
+    rhLimit: chartRhLimit({ areaId: a.id, rhMinPct: a.rhMinPct }, limitRules),
     logger: a.logger ? { deviceId: a.logger.id, code: a.logger.code, lastSeenTs: seen.get(a.logger.id) ?? null } : null,
     openAlerts: open.filter((x) => x.areaId === a.id && x.lineId === null).length,
     lines: a.lines.map((l) => ({
@@ -115,7 +67,7 @@ export async function getFloorStructure(db: Db, opts: { nowMs?: number; areaId?:
           ? { deviceId: p.fieldMeter.id, code: p.fieldMeter.code, enabled: p.fieldMeter.enabled, lastSeenTs: seen.get(p.fieldMeter.id) ?? null }
           : null,
         neutralizer: p.neutralizer,
-        limit: resolveChargeLimit({ pointId: p.id, lineId: l.id, areaId: a.id }, limitRules),
+        limit: chartChargeLimit({ pointId: p.id, lineId: l.id, areaId: a.id }, limitRules),
         openAlerts: open.filter((x) => x.pointId === p.id).length,
         shelved: open.some((x) => x.pointId === p.id && x.shelvedUntilTs !== null && x.shelvedUntilTs > nowMs),
       })),
@@ -144,21 +96,6 @@ export async function getFloorSnapshot(db: Db, opts: { nowMs?: number; areaId?: 
   const series = await getRecentTrends(db, deviceIdsOf(areas), fromTs, nowTs, FLOOR_TREND_BUCKET_MS);
   return { nowTs, settings: plantSettings, areas, series, trendMs: FLOOR_TREND_MS };
 }
-
-export type TimelineAlert = {
-  id: number;
-  kind: string;
-  severity: string;
-  state: string;
-  message: string;
-  startTs: number;
-  endTs: number | null;
-  pointId: number | null;
-  lineId: number | null;
-  areaId: number | null;
-  peakValue: number | null;
-  shelvedUntilTs: number | null;
-};
 
 /** Alerts of a line (and its hall's own humidity alerts) that overlap [fromTs, toTs]. */
 export async function listLineAlerts(db: Db, q: { lineId: number; areaId: number; fromTs: number; toTs: number; limit?: number }): Promise<TimelineAlert[]> {

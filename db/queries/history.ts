@@ -11,8 +11,8 @@ import { and, eq, sql } from "drizzle-orm";
 import type { Db } from "../client";
 import { devices } from "../schema";
 
-export const HISTORY_SOURCES = ["raw", "1m", "1h"] as const;
-export type HistorySource = (typeof HISTORY_SOURCES)[number];
+import type { HistoryPoint, HistoryResult, HistorySource } from "../../lib/views/history";
+import type { RecentSeries } from "../../lib/views/floor";
 
 /** Native spacing of each source (raw: devices send about 1 Hz). */
 export const SOURCE_RESOLUTION_MS: Record<HistorySource, number> = { raw: 1_000, "1m": 60_000, "1h": 3_600_000 };
@@ -26,9 +26,6 @@ export const MAX_HISTORY_POINTS = 5_000;
 /** How far back the right edge of a rollup answer may be filled from raw readings. */
 export const RAW_TAIL_MAX_MS = 2 * 3_600_000;
 
-/** [bucket time (epoch ms), min, mean, max] */
-export type HistoryPoint = [number, number, number, number];
-
 export type HistoryRequest = {
   deviceId: number;
   channel: string;
@@ -40,18 +37,6 @@ export type HistoryRequest = {
   /** the raw retention; raw is not chosen for ranges reaching back past it */
   rawRetentionMs?: number;
   nowMs?: number;
-};
-
-export type HistoryResult = {
-  deviceId: number;
-  channel: string;
-  fromTs: number;
-  toTs: number;
-  source: HistorySource;
-  bucketMs: number;
-  points: HistoryPoint[];
-  /** newest reading time at or before toTs when the range holds no data (for "no readings since …") */
-  lastTs: number | null;
 };
 
 /** Picks the source for a range: raw for short, 1-minute rollups for medium, 1-hour for long. */
@@ -183,8 +168,6 @@ export function mergeBuckets(a: BucketRow[], b: BucketRow[]): BucketRow[] {
   }
   return [...byIndex.values()].sort((x, y) => x.b - y.b);
 }
-
-export type RecentSeries = { deviceId: number; channel: string; samples: Array<[number, number]> };
 
 /**
  * Raw readings of several devices newer than `sinceTs` (oldest first), for the live stream's

@@ -3,18 +3,7 @@
 import { and, asc, eq, gte, lte } from "drizzle-orm";
 import type { Db } from "../client";
 import { lineNotes, people, points } from "../schema";
-
-export type LineNote = {
-  id: number;
-  lineId: number;
-  pointId: number | null;
-  ts: number;
-  text: string;
-  personName: string;
-  createdTs: number;
-};
-
-export const NOTE_MAX_LENGTH = 500;
+import { NOTE_MAX_LENGTH, type LineNote } from "../../lib/views/notes";
 
 export async function listLineNotes(db: Db, q: { lineId: number; fromTs: number; toTs: number; limit?: number }): Promise<LineNote[]> {
   return db

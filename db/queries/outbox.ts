@@ -11,7 +11,7 @@
 import { and, desc, eq, inArray, lte, or, sql } from "drizzle-orm";
 import type { Db } from "../client";
 import { outbox } from "../schema";
-import type { DbWriter } from "./alerts";
+import type { DbWriter } from "./alert-rows";
 
 export type NewMail = { dedupeKey: string; toAddress: string; subject: string; bodyText: string; bodyHtml?: string | null };
 

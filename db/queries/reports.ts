@@ -15,7 +15,6 @@ import {
   people,
   rollup1h,
   rollup1m,
-  ruleVersions,
   rules,
   readings,
 } from "../schema";

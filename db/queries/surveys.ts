@@ -3,7 +3,8 @@
 import { and, asc, desc, eq, inArray, isNotNull } from "drizzle-orm";
 import type { Db } from "../client";
 import { areas, devices, lines, neutralizers, points, surveyPlans, surveyPlanVersions, surveyReadings, surveys } from "../schema";
-import { listLimitRules, resolveChargeLimit } from "./limits";
+import { listLimitRules } from "./limits";
+import { chartChargeLimit } from "../../lib/rules/limits-in-force";
 import { AppError, notFound } from "../../lib/errors";
 import type { PlanSpot } from "../../lib/surveys/schemas";
 import type { RoundPlan, SurveyLineOption, SurveyPlanSummary } from "../../lib/surveys/types";
@@ -163,7 +164,7 @@ export async function getRoundPlan(db: Db, planId: number, version?: number): Pr
       return {
         ...s,
         position: i + 1,
-        limitKv: resolveChargeLimit({ pointId: s.pointId ?? -1, lineId: line.id, areaId: line.areaId }, rules)?.limitKv ?? null,
+        limitKv: chartChargeLimit({ pointId: s.pointId ?? -1, lineId: line.id, areaId: line.areaId }, rules)?.limitKv ?? null,
         last: lr ? { equivalentKv: lr.equivalentKv, ts: lr.ts } : null,
         fixedMeter: m ? { deviceId: m.id, code: m.code } : null,
       };

@@ -8,7 +8,7 @@
  */
 import type { ShiftWindow } from "../plant-time";
 import { ACTIVE_ALERT_STATES, ALERT_STATE_WORDS, DAY_MS, alertStateCodeAt, type AlertState, type RuleKind, type Severity } from "../vocabulary";
-import { chargeLimitAt, rhLowLimitAt, type StoredRule } from "./limits";
+import { chargeLimitAt, rhLowLimitAt, type StoredRule } from "../rules/limits-in-force";
 import { lowestReading, timeOverLimit, worstReading, type Sample } from "./series";
 import { buildPlaceIndex, type ReportArea, type Where } from "./types";
 import type { PointState } from "../vocabulary";

@@ -15,7 +15,7 @@
  * of the point after it; a sensor the location of what it measures (field meter: its point;
  * running or speed gateway: its line; climate logger: its area).
  */
-import type { ChargeHighRule, RuleDefinition, RuleKind, RuleOfKind, RuleScope, Severity } from "./types";
+import type { ChargeHighRule, RuleDefinition, RuleKind, RuleOfKind, RuleScope } from "./types";
 
 export type SubjectLocation = { pointId?: number; lineId?: number; areaId?: number };
 
@@ -39,6 +39,51 @@ export function matchesScope(scope: RuleScope, location: SubjectLocation): boole
 
 export type ResolvedRule<R extends RuleDefinition = RuleDefinition> = { rule: R; level: ScopeLevel };
 
+/** A stored rule's scope columns (null: not scoped at that level) as a rule scope. */
+export function scopeOfColumns(r: { pointId: number | null; lineId: number | null; areaId: number | null }): RuleScope {
+  const scope: RuleScope = {};
+  if (r.pointId !== null) scope.pointId = r.pointId;
+  if (r.lineId !== null) scope.lineId = r.lineId;
+  if (r.areaId !== null) scope.areaId = r.areaId;
+  return scope;
+}
+
+/**
+ * The one precedence rule, for every shape of rule (the engine's definitions, stored rows, the
+ * editor's rows): of the rules of `kind` matching `location`, per severity, those at the most
+ * specific matching level — disabled ones included, because a disabled rule takes its level and
+ * so exempts the place from the less specific ones. Callers that want what alerts (and what a
+ * chart draws) keep only the enabled ones: see rulesInForce.
+ */
+export function rulesAtMostSpecificLevel<R extends { kind: string; severity: string }>(
+  kind: string,
+  location: SubjectLocation,
+  rules: readonly R[],
+  scopeOf: (rule: R) => RuleScope,
+): { rule: R; level: ScopeLevel }[] {
+  const bestRank = new Map<string, number>();
+  const candidates: { rule: R; level: ScopeLevel }[] = [];
+  for (const rule of rules) {
+    if (rule.kind !== kind) continue;
+    const scope = scopeOf(rule);
+    if (!matchesScope(scope, location)) continue;
+    const level = getScopeLevel(scope);
+    candidates.push({ rule, level });
+    if ((bestRank.get(rule.severity) ?? -1) < LEVEL_RANK[level]) bestRank.set(rule.severity, LEVEL_RANK[level]);
+  }
+  return candidates.filter((c) => LEVEL_RANK[c.level] === bestRank.get(c.rule.severity));
+}
+
+/** The enabled rules in force at `location`: rulesAtMostSpecificLevel without the exemptions. */
+export function rulesInForce<R extends { kind: string; severity: string; enabled: boolean }>(
+  kind: string,
+  location: SubjectLocation,
+  rules: readonly R[],
+  scopeOf: (rule: R) => RuleScope,
+): { rule: R; level: ScopeLevel }[] {
+  return rulesAtMostSpecificLevel(kind, location, rules, scopeOf).filter((c) => c.rule.enabled);
+}
+
 /**
  * The enabled rules of `kind` that apply at `location`, most specific level per severity,
  * ordered by rule id.
@@ -48,18 +93,8 @@ export function resolveRulesForLocation<K extends RuleKind>(
   location: SubjectLocation,
   rules: readonly RuleDefinition[],
 ): ResolvedRule<RuleOfKind<K>>[] {
-  const bestRank = new Map<Severity, number>();
-  const candidates: ResolvedRule<RuleOfKind<K>>[] = [];
-  for (const rule of rules) {
-    if (!isKind(rule, kind) || !matchesScope(rule.scope, location)) continue;
-    const level = getScopeLevel(rule.scope);
-    candidates.push({ rule, level });
-    const rank = LEVEL_RANK[level];
-    if ((bestRank.get(rule.severity) ?? -1) < rank) bestRank.set(rule.severity, rank);
-  }
-  return candidates
-    .filter((c) => c.rule.enabled && LEVEL_RANK[c.level] === bestRank.get(c.rule.severity))
-    .sort((a, b) => a.rule.id - b.rule.id);
+  const ofKind = rules.filter((r): r is RuleOfKind<K> => isKind(r, kind));
+  return rulesInForce(kind, location, ofKind, (r) => r.scope).sort((a, b) => a.rule.id - b.rule.id);
 }
 
 function isKind<K extends RuleKind>(rule: RuleDefinition, kind: K): rule is RuleOfKind<K> {

@@ -11,7 +11,8 @@ import { ackAlertAction, closeAlertPublisher, commentAlertAction, shelveAlertAct
 import { replayRuleAction, saveRuleAction } from "@/app/_server/actions/rules";
 import { addShiftAction, removeShiftAction, saveAlertingSettingsAction } from "@/app/_server/actions/oncall";
 import type { SessionPerson } from "@/app/_server/session";
-import { applyClearTransition, expireShelving, getAlertDetail, insertRaisedAlert } from "@/db/queries/alerts";
+import { applyClearTransition, expireShelving, insertRaisedAlert } from "@/db/queries/alert-transitions";
+import { getAlertDetail } from "@/db/queries/alert-list";
 import { getAlertingSettings } from "@/db/queries/oncall";
 import { loadPlantTopology } from "@/db/queries/topology";
 import { DEMO_PEOPLE } from "@/lib/demo-plant";

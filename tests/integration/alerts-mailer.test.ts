@@ -9,7 +9,7 @@ import { eq, like } from "drizzle-orm";
 import { createTestDatabase, type TestDatabase } from "../helpers/test-db";
 import { freePort, ROOT, spawnTs, waitFor, type Proc } from "./ingest-support/processes";
 import { outbox, people } from "@/db/schema";
-import { insertRaisedAlert } from "@/db/queries/alerts";
+import { insertRaisedAlert } from "@/db/queries/alert-transitions";
 import { enqueueMail } from "@/db/queries/outbox";
 import { loadPlantTopology } from "@/db/queries/topology";
 import { queueDailyDigests } from "@/ingest/mailer";

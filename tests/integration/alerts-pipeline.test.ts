@@ -20,7 +20,7 @@ import type { MqttClient } from "mqtt";
 import { createTestDatabase, type TestDatabase } from "../helpers/test-db";
 import { connectDevice, endClient, freePort, publishAsync, ROOT, spawnTs, startIngestStack, waitFor, type IngestStack, type Proc } from "./ingest-support/processes";
 import { alerts, devices, lines, neutralizers, outbox, people } from "@/db/schema";
-import { respondToAlert } from "@/db/queries/alerts";
+import { respondToAlert } from "@/db/queries/alert-actions";
 import { saveAlertingSettings } from "@/db/queries/oncall";
 import { listRuleRows, replayRuleProposal, saveRuleVersion } from "@/db/queries/rules";
 import { readDeviceSecrets } from "@/db/seed";

@@ -11,9 +11,9 @@ import {
   BENCHMARK_FLOOD_TIME_FRACTION,
   BENCHMARK_MANAGEABLE_PER_10_MIN,
   FLOOD_PER_10_MIN,
-  getAlertLoad,
   type AlertLoad,
-} from "@/db/queries/alerts";
+} from "@/lib/alert-load";
+import { getAlertLoad } from "@/db/queries/alert-load";
 import { getPlantSettings } from "@/db/queries/equipment";
 import { loadPlantTopology } from "@/db/queries/topology";
 import { RULE_KIND_WORDS } from "@/lib/vocabulary";
@@ -64,7 +64,7 @@ export default async function AlertLoadPage({ searchParams }: { searchParams: Pr
     <div>
       <PageHeader
         title="Alert load"
-        subtitle="How many alerts Stillfield raises, against the published figures of alarm management (EEMUA 191, ANSI/ISA-18.2)."
+        subtitle="How many alerts Stillfield raises, against the published figures of alarm management (EEMUA 191 3rd edition 2013, ANSI/ISA-18.2-2016, IEC 62682:2022)."
         actions={
           <nav className="flex gap-1 text-sm" aria-label="Span">
             {SPANS.map((s) => (
@@ -184,7 +184,7 @@ export default async function AlertLoadPage({ searchParams }: { searchParams: Pr
       </div>
 
       <p className="mt-5 text-xs leading-relaxed text-ink-faint">
-        Benchmarks, as published for operators of process plants (EEMUA Publication 191 and ANSI/ISA-18.2, quoted from memory): an average of about 1 alarm per 10 minutes is
+        Benchmarks, as published for operators of process plants (EEMUA Publication 191, 3rd edition, 2013; ANSI/ISA-18.2-2016 and its international counterpart IEC 62682:2022; quoted from memory): an average of about 1 alarm per 10 minutes is
         &ldquo;very likely acceptable&rdquo; and about 2 &ldquo;manageable&rdquo;; more than 10 alarms in 10 minutes is a flood, and a plant should be in flood less than 1 %
         of the time; chattering alarms should be none, and the ten most frequent alarms should make up only a small share of the total. Stillfield&apos;s alerts are counted
         the same way (every raise counts once).

@@ -3,7 +3,7 @@
 import type { Metadata } from "next";
 import { requirePagePermission } from "@/app/_server/session";
 import { getDb } from "@/db/client";
-import { countOpenAlerts, listAlerts } from "@/db/queries/alerts";
+import { countOpenAlerts, listAlerts } from "@/db/queries/alert-list";
 import { getPlantSettings } from "@/db/queries/equipment";
 import { getPlantLayout } from "@/db/queries/plant";
 import { AlertsBoard } from "@/components/alerts/alerts-board";

@@ -3,7 +3,8 @@
 import "server-only";
 import { z } from "zod";
 import { getDb } from "@/db/client";
-import { addLineNote, NOTE_MAX_LENGTH, pointIsOnLine } from "@/db/queries/notes";
+import { addLineNote, pointIsOnLine } from "@/db/queries/notes";
+import { NOTE_MAX_LENGTH } from "@/lib/views/notes";
 import { getPlantLayout } from "@/db/queries/plant";
 import { AppError } from "@/lib/errors";
 import { defineAction } from "../action";

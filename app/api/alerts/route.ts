@@ -4,7 +4,8 @@ import { NextResponse } from "next/server";
 import { z } from "zod";
 import { parseOrThrow, queryObject, route } from "@/app/_server/route";
 import { getDb } from "@/db/client";
-import { ALERT_STATE_NAMES, countOpenAlerts, listAlerts } from "@/db/queries/alerts";
+import { countOpenAlerts, listAlerts } from "@/db/queries/alert-list";
+import { ALERT_STATES, SEVERITIES } from "@/lib/vocabulary";
 
 export const dynamic = "force-dynamic";
 
@@ -13,8 +14,8 @@ const many = <T extends z.ZodType>(s: T) => z.union([s, z.array(s)]).optional().
 const querySchema = z.object({
   area: z.coerce.number().int().positive().optional(),
   line: z.coerce.number().int().positive().optional(),
-  state: many(z.enum(ALERT_STATE_NAMES)),
-  severity: many(z.enum(["low", "medium", "high"])),
+  state: many(z.enum(ALERT_STATES)),
+  severity: many(z.enum(SEVERITIES)),
   open: z.enum(["1", "0", "true", "false"]).optional(),
   from: z.coerce.number().int().min(0).optional(),
   to: z.coerce.number().int().min(0).optional(),

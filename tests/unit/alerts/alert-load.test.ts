@@ -1,4 +1,4 @@
-// Alert-load figures (db/queries/alerts.ts computeAlertLoad) on hand-built alert lists. The
+// Alert-load figures (lib/alert-load.ts computeAlertLoad) on hand-built alert lists. The
 // thresholds are the published alarm-management benchmarks (EEMUA 191 / ANSI/ISA-18.2, from
 // memory): flood = more than 10 alarms in 10 minutes; ~1 per 10 min "very likely acceptable",
 // ~2 "manageable"; under 1 % of the time in flood; stale = standing more than 24 h.
@@ -10,7 +10,7 @@ import {
   computeAlertLoad,
   FLOOD_PER_10_MIN,
   type LoadAlert,
-} from "../../../db/queries/alerts";
+} from "../../../lib/alert-load";
 
 const MIN = 60_000;
 const T0 = Date.UTC(2026, 0, 12, 0, 0);

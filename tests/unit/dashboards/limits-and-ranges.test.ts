@@ -1,12 +1,17 @@
-// Which limit a chart draws (db/queries/limits.ts, pure resolvers) and the line page's ranges.
+// Which limit a chart draws (lib/rules/limits-in-force.ts, the one resolver) and the line page's ranges.
 import { describe, expect, it } from "vitest";
-import { resolveChargeLimit, resolveRhLimit, type LimitRule } from "@/db/queries/limits";
+import { chartChargeLimit as resolveChargeLimit, chartRhLimit as resolveRhLimit, type StoredRule } from "@/lib/rules/limits-in-force";
+import { resolveRulesForLocation } from "@/lib/rules/scope";
+import { ruleDefinitionSchema } from "@/lib/rules";
 import { parseRangeParams, rangeToQuery, resolveRange } from "@/components/charts/ranges";
 import { DEFAULT_PLANT_SETTINGS } from "@/lib/plant-settings";
 
-const rule = (ruleId: number, kind: LimitRule["kind"], scope: Partial<LimitRule>, params: unknown): LimitRule => ({
+const rule = (ruleId: number, kind: "charge_high" | "rh_low", scope: Partial<StoredRule>, params: unknown): StoredRule => ({
   ruleId,
   kind,
+  name: `rule ${ruleId}`,
+  enabled: true,
+  severity: "medium",
   pointId: null,
   lineId: null,
   areaId: null,
@@ -38,9 +43,44 @@ describe("charge limit", () => {
     expect(resolveChargeLimit(at, [])).toBeNull();
   });
   it("draws the lower of two limits at the same level (the first a rising value meets)", () => {
-    const high = rule(9, "charge_high", { lineId: 2 }, { limitKv: 20, clearKv: 18 });
+    const high = rule(9, "charge_high", { lineId: 2, severity: "high" }, { limitKv: 20, clearKv: 18 });
     const medium = rule(10, "charge_high", { lineId: 2 }, { limitKv: 12, clearKv: 10 });
     expect(resolveChargeLimit(at, [high, medium])).toMatchObject({ limitKv: 12, ruleId: 10 });
+  });
+});
+
+describe("a disabled point rule", () => {
+  // The chart and the engine must agree: a disabled rule at a point takes the point's level and
+  // applies nothing, so the line default neither alerts there nor is drawn there.
+  const lineRule = rule(1, "charge_high", { lineId: 2 }, { limitKv: 12, clearKv: 10 });
+  const exemption = rule(2, "charge_high", { pointId: 11, lineId: 2, areaId: 1 }, { limitKv: 30, clearKv: 25 });
+  exemption.enabled = false;
+  const asDefinition = (r: StoredRule) =>
+    ruleDefinitionSchema.parse({
+      id: r.ruleId,
+      version: 1,
+      kind: r.kind,
+      severity: r.severity,
+      scope: { ...(r.pointId !== null ? { pointId: r.pointId } : {}), ...(r.lineId !== null ? { lineId: r.lineId } : {}), ...(r.areaId !== null ? { areaId: r.areaId } : {}) },
+      onDelayS: 10,
+      offDelayS: 10,
+      onlyWhileRunning: true,
+      enabled: r.enabled,
+      params: r.params,
+    });
+  it("is an exemption: no limit drawn and no rule for the engine to alert on", () => {
+    expect(resolveChargeLimit(at, [lineRule, exemption])).toBeNull();
+    expect(resolveRulesForLocation("charge_high", at, [lineRule, exemption].map(asDefinition))).toEqual([]);
+  });
+  it("leaves the other points of the line on the line's limit, for both", () => {
+    const other = { pointId: 12, lineId: 2, areaId: 1 };
+    expect(resolveChargeLimit(other, [lineRule, exemption])).toMatchObject({ limitKv: 12, ruleId: 1, level: "line" });
+    expect(resolveRulesForLocation("charge_high", other, [lineRule, exemption].map(asDefinition)).map((r) => r.rule.id)).toEqual([1]);
+  });
+  it("exempts only its own severity", () => {
+    const highLine = rule(3, "charge_high", { lineId: 2, severity: "high" }, { limitKv: 20, clearKv: 18 });
+    expect(resolveChargeLimit(at, [lineRule, exemption, highLine])).toMatchObject({ limitKv: 20, ruleId: 3 });
+    expect(resolveRulesForLocation("charge_high", at, [lineRule, exemption, highLine].map(asDefinition)).map((r) => r.rule.id)).toEqual([3]);
   });
 });
 

@@ -1,7 +1,7 @@
 // Pure parts of the report builders: limits precedence, alert codes, why a neutralizer needs
 // attention, due dates, report parameters.
 import { describe, expect, it } from "vitest";
-import { chargeLimitAt, rhLowLimitAt, type StoredRule } from "@/lib/reports/limits";
+import { chargeLimitAt, rhLowLimitAt, type StoredRule } from "@/lib/rules/limits-in-force";
 import { neutralizerAttention, type HandoverNeutralizerInput } from "@/lib/reports/handover";
 import { DAY_MS, alertStateCodeAt } from "@/lib/vocabulary";
 import { calibrationStatus, dueSoonWindowMs, dueStatus } from "@/lib/reports/compliance";

@@ -1,7 +1,7 @@
 // Server-rendered charts of the alert-load page: alerts per 10 minutes against the benchmark
 // lines, and alerts per day. Plain SVG (no script needed to read them, and they print).
 import { formatPlantTime } from "@/lib/plant-time";
-import { BENCHMARK_ACCEPTABLE_PER_10_MIN, BENCHMARK_MANAGEABLE_PER_10_MIN, FLOOD_PER_10_MIN, TEN_MIN_MS, type AlertLoad } from "@/db/queries/alerts";
+import { BENCHMARK_ACCEPTABLE_PER_10_MIN, BENCHMARK_MANAGEABLE_PER_10_MIN, FLOOD_PER_10_MIN, TEN_MIN_MS, type AlertLoad } from "@/lib/alert-load";
 
 export function Per10MinChart({ load, timeZone }: { load: AlertLoad; timeZone: string }) {
   const W = 1000;

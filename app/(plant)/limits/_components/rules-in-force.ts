@@ -1,6 +1,7 @@
 // Which limit rules apply at a place in the editor's tree (plant, hall, line, point): per kind and
 // severity, the most specific level wins. The rule rows the editor gets, and the place words.
-import { RULE_KIND_WORDS, type RuleKind, type Severity } from "@/lib/vocabulary";
+import { RULE_KIND_WORDS, SEVERITY_RANK, type RuleKind, type Severity } from "@/lib/vocabulary";
+import { rulesAtMostSpecificLevel, scopeOfColumns } from "@/lib/rules/scope";
 
 export type RuleInfo = {
   id: number;
@@ -25,7 +26,6 @@ export type PlantTree = Array<{ id: number; name: string; lines: Array<{ id: num
 export type Level = "plant" | "area" | "line" | "point";
 export type Place = { level: Level; areaId: number | null; lineId: number | null; pointId: number | null; label: string };
 
-const LEVEL_RANK: Record<Level, number> = { plant: 0, area: 1, line: 2, point: 3 };
 export const LEVEL_WORDS: Record<Level, string> = { plant: "plant-wide", area: "hall", line: "line", point: "point" };
 export const KINDS = Object.keys(RULE_KIND_WORDS).filter((k): k is RuleKind => k in RULE_KIND_WORDS);
 
@@ -42,11 +42,10 @@ export function matches(r: RuleInfo, p: Place): boolean {
 }
 
 /** Per kind and severity, the rules at the most specific level matching the place (as the engine resolves them). */
+// Disabled rules are kept: they take their level (an exemption), and the editor shows them.
 export function rulesInForce(rules: RuleInfo[], p: Place, kind: RuleKind): RuleInfo[] {
-  const candidates = rules.filter((r) => r.kind === kind && matches(r, p));
-  const best = new Map<Severity, number>();
-  for (const r of candidates) best.set(r.severity, Math.max(best.get(r.severity) ?? -1, LEVEL_RANK[levelOf(r)]));
-  return candidates
-    .filter((r) => LEVEL_RANK[levelOf(r)] === best.get(r.severity))
-    .sort((a, b) => ["high", "medium", "low"].indexOf(a.severity) - ["high", "medium", "low"].indexOf(b.severity) || a.id - b.id);
+  const location = { pointId: p.pointId ?? undefined, lineId: p.lineId ?? undefined, areaId: p.areaId ?? undefined };
+  return rulesAtMostSpecificLevel(kind, location, rules.filter((r) => !r.scopedElsewhere), scopeOfColumns)
+    .map((c) => c.rule)
+    .sort((a, b) => SEVERITY_RANK[b.severity] - SEVERITY_RANK[a.severity] || a.id - b.id);
 }

@@ -2,7 +2,7 @@
 import { NextResponse } from "next/server";
 import { route } from "@/app/_server/route";
 import { getDb } from "@/db/client";
-import { getAlertDetail } from "@/db/queries/alerts";
+import { getAlertDetail } from "@/db/queries/alert-list";
 import { notFound } from "@/lib/errors";
 import { alertIdOf } from "../_respond";
 

@@ -5,7 +5,7 @@ import { NextResponse } from "next/server";
 import { z } from "zod";
 import { parseOrThrow, queryObject, route } from "@/app/_server/route";
 import { getDb } from "@/db/client";
-import { getAlertLoad } from "@/db/queries/alerts";
+import { getAlertLoad } from "@/db/queries/alert-load";
 
 export const dynamic = "force-dynamic";
 

@@ -1,0 +1,61 @@
+// Alerts that may need an e-mail to the on-call person (ingest/alerts-escalation.ts).
+import { and, asc, eq, inArray, isNull, lte, or } from "drizzle-orm";
+import type { Db } from "../client";
+import { alerts, areas, lines, points } from "../schema";
+import type { RuleKind, Severity } from "../../lib/vocabulary";
+
+export type NotifyCandidate = {
+  id: number;
+  ruleId: number;
+  kind: RuleKind;
+  severity: Severity;
+  subjectKey: string;
+  areaId: number | null;
+  lineId: number | null;
+  pointId: number | null;
+  message: string;
+  startTs: number;
+  peakValue: number | null;
+  expectedCrossingTs: number | null;
+  notifiedLevel: number;
+  areaName: string | null;
+  lineName: string | null;
+  pointName: string | null;
+};
+
+/** Active, unacknowledged, unshelved alerts at or above a severity, raised at or before `startedBy`. */
+export async function listNotifyCandidates(db: Db, severities: Severity[], startedBy: number, nowMs: number): Promise<NotifyCandidate[]> {
+  return db
+    .select({
+      id: alerts.id,
+      ruleId: alerts.ruleId,
+      kind: alerts.kind,
+      severity: alerts.severity,
+      subjectKey: alerts.subjectKey,
+      areaId: alerts.areaId,
+      lineId: alerts.lineId,
+      pointId: alerts.pointId,
+      message: alerts.message,
+      startTs: alerts.startTs,
+      peakValue: alerts.peakValue,
+      expectedCrossingTs: alerts.expectedCrossingTs,
+      notifiedLevel: alerts.notifiedLevel,
+      areaName: areas.name,
+      lineName: lines.name,
+      pointName: points.name,
+    })
+    .from(alerts)
+    .leftJoin(areas, eq(areas.id, alerts.areaId))
+    .leftJoin(lines, eq(lines.id, alerts.lineId))
+    .leftJoin(points, eq(points.id, alerts.pointId))
+    .where(
+      and(
+        eq(alerts.state, "active_unacked"),
+        inArray(alerts.severity, severities.length ? severities : ["high"]),
+        lte(alerts.startTs, startedBy),
+        or(isNull(alerts.shelvedUntilTs), lte(alerts.shelvedUntilTs, nowMs)),
+      ),
+    )
+    .orderBy(asc(alerts.startTs))
+    .limit(500);
+}
