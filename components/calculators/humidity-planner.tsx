@@ -97,7 +97,7 @@ export function HumidityPlanner({ halls }: { halls: HallPreset[] }) {
               {
                 label: "Dry air carried",
                 value: `${Math.round(result.dryAirKgPerH).toLocaleString("en-GB")} kg/h`,
-                note: `the same m³/h read ${fields.flowAt === "outdoor" ? "in the hall" : "at the outdoor intake"} would be ${Math.round(result.dryAirOtherKgPerH).toLocaleString("en-GB")} kg/h (${f(Math.abs(result.dryAirKgPerH / result.dryAirOtherKgPerH - 1) * 100, 0)} % ${result.dryAirKgPerH > result.dryAirOtherKgPerH ? "less" : "more"})`,
+                note: `the same m³/h read ${fields.flowAt === "outdoor" ? "in the hall" : "at the outdoor intake"} would be ${Math.round(result.dryAirOtherKgPerH).toLocaleString("en-GB")} kg/h (${f(Math.abs(1 - result.dryAirOtherKgPerH / result.dryAirKgPerH) * 100, 0)} % ${result.dryAirKgPerH > result.dryAirOtherKgPerH ? "less" : "more"})`,
                 testId: "dry-air",
               },
               { label: result.outdoorDewIsFrost ? "Outdoor frost point" : "Outdoor dew point", value: `${f(result.outdoorDewPointC)} °C` },

@@ -2,7 +2,7 @@
 // ½CV² → margin to the solvent's minimum ignition energy. A screening aid only. Pure; computes
 // with lib/physics.
 import { z } from "zod";
-import { BRUSH_DISCHARGE_EQUIVALENT_ENERGY_MJ, COMMON_SOLVENTS, SPARK_MARGIN_FACTOR, sparkMargin, voltageForEnergyKv, type SparkVerdict } from "@/lib/physics";
+import { BRUSH_DISCHARGE_EQUIVALENT_ENERGY_MJ, COMMON_SOLVENTS, formatMieRatio, SPARK_MARGIN_FACTOR, sparkMargin, voltageForEnergyKv, type SparkVerdict } from "@/lib/physics";
 import { numberField } from "./number-input";
 
 export const CUSTOM_SOLVENT = "custom";
@@ -59,13 +59,13 @@ export function checkSpark(input: SparkInput): SparkResult {
   const atMie = voltageForEnergyKv(input.capacitancePf, input.mieMj);
   const atMargin = voltageForEnergyKv(input.capacitancePf, input.mieMj / SPARK_MARGIN_FACTOR);
   const base = `A ${sig(input.capacitancePf)} pF conductor at ${sig(voltageKv)} kV stores ${sig(m.energyMj)} mJ`;
-  const mie = `${input.solventName}'s minimum ignition energy of ${sig(input.mieMj)} mJ`;
+  const mie = `the minimum ignition energy (MIE) of ${input.solventName} vapour, ${sig(input.mieMj)} mJ`;
   const words =
     m.verdict === "can ignite"
-      ? `${base}: ${sig(m.ratioToMie)} times ${mie}. A spark from it can ignite the vapour. Bond and earth it.`
+      ? `${base}: ${formatMieRatio(m.ratioToMie)} ${mie}. A spark from it can ignite the vapour. Bond and earth it.`
       : m.verdict === "within tenfold of MIE"
-        ? `${base}: ${Math.round(m.ratioToMie * 100)} % of ${mie}, closer than the usual tenfold margin. It reaches the MIE at ${sig(atMie)} kV.`
-        : `${base}, below a tenth of ${mie}. It would reach a tenth at ${sig(atMargin)} kV and the MIE at ${sig(atMie)} kV.`;
+        ? `${base}: ${formatMieRatio(m.ratioToMie)} ${mie}, closer than the usual tenfold margin. It reaches the MIE at ${sig(atMie)} kV.`
+        : `${base}: ${formatMieRatio(m.ratioToMie)} ${mie}, below a tenth of it. It would reach a tenth at ${sig(atMargin)} kV and the MIE at ${sig(atMie)} kV.`;
   return {
     energyMj: m.energyMj,
     ratioToMie: m.ratioToMie,

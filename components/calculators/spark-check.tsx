@@ -2,7 +2,7 @@
 // Spark-hazard check for a solvent area: conductor capacitance and voltage → ½CV² → margin to
 // the solvent's minimum ignition energy. A screening aid that defers to the standards.
 import { useMemo, useState } from "react";
-import { COMMON_SOLVENTS, SPARK_MARGIN_FACTOR, TYPICAL_CAPACITANCES_PF, BRUSH_DISCHARGE_EQUIVALENT_ENERGY_MJ } from "@/lib/physics";
+import { COMMON_SOLVENTS, PROPAGATING_BRUSH_CAUTION, SPARK_MARGIN_FACTOR, sparkMarginPhrase, TYPICAL_CAPACITANCES_PF, BRUSH_DISCHARGE_EQUIVALENT_ENERGY_MJ } from "@/lib/physics";
 import { StateBadge } from "@/components/ui/state-badge";
 import type { PointState } from "@/lib/vocabulary";
 import { fieldMessages } from "./number-input";
@@ -43,6 +43,9 @@ export function SparkCheck({ lines }: { lines: SolventLinePreset[] }) {
         This check compares stored energy with a tabulated minimum ignition energy. It is not a hazard assessment and Stillfield is a monitoring aid, not a safety system. Hazardous (classified) areas are assessed by a qualified person under{" "}
         <b className="whitespace-nowrap">NFPA 77</b>, <b className="whitespace-nowrap">IEC TS 60079-32-1</b> and local codes. Bond and earth every conductor in a solvent area whatever this says, and isolate power and follow the plant&apos;s lockout procedure before touching neutralizer emitters.
       </Caution>
+      <Caution title="Propagating brush discharges" testId="propagating-brush-caution">
+        {PROPAGATING_BRUSH_CAUTION} That is where web lines are: film over idlers and earthed rollers, and metallized or foil laminates. Keep the web neutralized before it meets earthed metal where vapour is present.
+      </Caution>
       <Presets label="Line:" items={linePresets} />
       <Presets label="Conductor:" items={TYPICAL_CAPACITANCES_PF.map((c) => ({ key: c.item, label: `${c.item.replace(/ \(.*\)/, "")} ~${c.maxPf} pF`, onPick: () => set("capacitancePf")(String(c.maxPf)) }))} />
       <FieldGrid>
@@ -74,7 +77,7 @@ export function SparkCheck({ lines }: { lines: SolventLinePreset[] }) {
           <Results
             rows={[
               { label: "Stored energy ½CV²", value: `${sig(r.energyMj)} mJ`, testId: "spark-energy" },
-              { label: "Energy ÷ MIE", value: `${sig(r.ratioToMie)}×`, note: `screening margin: below 1/${SPARK_MARGIN_FACTOR}`, testId: "spark-ratio" },
+              { label: "Against the MIE", value: sparkMarginPhrase(r.ratioToMie, r.verdict), note: `screening margin: below 1/${SPARK_MARGIN_FACTOR} of the MIE`, testId: "spark-ratio" },
               { label: "Voltage that reaches the MIE", value: `${sig(r.voltageAtMieKv)} kV` },
               { label: `Voltage that reaches MIE/${SPARK_MARGIN_FACTOR}`, value: `${sig(r.voltageAtMarginKv)} kV` },
             ]}
@@ -126,7 +129,7 @@ export function SparkCheck({ lines }: { lines: SolventLinePreset[] }) {
         assumptions={[
           "The whole stored energy goes into one spark (the worst case for an isolated conductor).",
           "The vapour is at its most easily ignited concentration; richer or leaner mixtures need more energy, hot or oxygen-enriched ones less.",
-          "Charged insulators (webs, films, plastic containers) are not covered by ½CV²: their brush discharges are judged differently.",
+          "Charged insulators (webs, films, plastic containers) are not covered by ½CV²: their brush discharges, and the far stronger propagating brush discharges of film on an earthed backing, are judged differently.",
         ]}
       />
     </CalcCard>

@@ -32,6 +32,7 @@ export const CHECK_STANDARD_EDITIONS = {
   testMethodAnsi: "ANSI/ESD STM3.1-2015",
   testMethodIec: "IEC 61340-4-7:2017",
   program: "ANSI/ESD S20.20-2021",
+  periodic: "ANSI/ESD SP3.3-2016",
 } as const;
 
 export interface CheckLimits {

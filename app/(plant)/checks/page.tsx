@@ -8,7 +8,8 @@ import { getDb } from "@/db/client";
 import { CHECK_LIMIT_SOURCES, getCheckLimits, listChecks, NEUTRALIZER_KIND_LABELS } from "@/db/queries/checks";
 import { getDueList } from "@/db/queries/due-list";
 import { getPlantSettings, listNeutralizers } from "@/db/queries/equipment";
-import { NEUTRALIZER_KINDS } from "@/db/schema/plant";
+import { NEUTRALIZER_KINDS, NEUTRALIZER_KIND_SPECS } from "@/lib/physics/neutralizer-kinds";
+import { CHECK_STANDARD_EDITIONS } from "@/lib/physics/neutralizer";
 import { Card, Forbidden, PageHeader } from "@/components/ui/page";
 import { can } from "@/lib/permissions";
 import { CheckResultBadge } from "../equipment/_components/badges";
@@ -46,7 +47,7 @@ export default async function ChecksPage({ searchParams }: { searchParams: Promi
     <div>
       <PageHeader
         title="Checks"
-        subtitle="Verification of neutralizers by the charged-plate method (ANSI/ESD STM3.1, IEC 61340-4-7) or a periodic check (ANSI/ESD SP3.3), and what is due."
+        subtitle={`Verification of neutralizers by the charged-plate method (${CHECK_STANDARD_EDITIONS.testMethodAnsi}, ${CHECK_STANDARD_EDITIONS.testMethodIec}) or a periodic check (${CHECK_STANDARD_EDITIONS.periodic}), and what is due.`}
         actions={
           can(session.role, "import.run") ? (
             <Link href="/checks/import" className="rounded border border-paper-line bg-paper-raised px-3 py-1.5 text-sm text-ink hover:bg-paper-sunk">
@@ -138,6 +139,34 @@ export default async function ChecksPage({ searchParams }: { searchParams: Promi
               <p>
                 <b className="font-medium text-ink">Offset.</b> {CHECK_LIMIT_SOURCES.maxOffsetAbsV}
               </p>
+              <p>
+                <b className="font-medium text-ink">Plate.</b> {CHECK_LIMIT_SOURCES.plate}
+              </p>
+              <table className="mt-2 w-full text-xs" data-testid="kind-defaults">
+                <thead className="text-left text-ink-faint">
+                  <tr>
+                    <th className="pb-1 font-medium">Kind</th>
+                    <th className="pb-1 text-right font-medium">Usual distance</th>
+                    <th className="pb-1 text-right font-medium">Default decay</th>
+                  </tr>
+                </thead>
+                <tbody>
+                  {NEUTRALIZER_KINDS.map((k) => {
+                    const spec = NEUTRALIZER_KIND_SPECS[k];
+                    return (
+                      <tr key={k} className="border-t border-paper-line align-top" title={spec.source}>
+                        <td className="py-1 pr-2">
+                          {spec.label}
+                          <span className="block text-ink-faint">{spec.source}</span>
+                          {spec.checkNote ? <span className="block text-ink-faint">{spec.checkNote}</span> : null}
+                        </td>
+                        <td className="num py-1 pr-2 text-right whitespace-nowrap">{spec.mountingMinMm !== null ? `${spec.mountingMinMm}–${spec.mountingMaxMm} mm` : "—"}</td>
+                        <td className="num py-1 text-right whitespace-nowrap">{spec.defaultMaxDecayS} s</td>
+                      </tr>
+                    );
+                  })}
+                </tbody>
+              </table>
               <p>A check passes when both decay times are at or under the limit and the offset is within ± the limit; a part not measured fails.</p>
             </div>
           </Card>

@@ -4,12 +4,12 @@ import "server-only";
 import { z } from "zod";
 import { getDb } from "@/db/client";
 import { writeAudit } from "@/db/queries/audit";
-import { getCheckLimits, recordCheck, saveCheckLimits, type NeutralizerKind } from "@/db/queries/checks";
+import { getCheckLimits, listChecks, projectDecay, recordCheck, saveCheckLimits, type NeutralizerKind } from "@/db/queries/checks";
 import { queueWeeklyDueListEmail } from "@/db/queries/due-list";
 import { getNeutralizer, getPlantSettings } from "@/db/queries/equipment";
 import { NEUTRALIZER_KINDS } from "@/db/schema/plant";
 import { badInput } from "@/lib/errors";
-import type { CheckLimits } from "@/lib/physics/neutralizer";
+import { STANDARD_PLATE, type CheckLimits, type DecaySlowdown } from "@/lib/physics/neutralizer";
 import { defineAction } from "../action";
 import { localDateTimeToMs, optionalDate, optionalNumber, optionalText, requiredNumber } from "./equipment";
 
@@ -19,7 +19,12 @@ const recordCheckSchema = z.object({
   neutralizerId: z.coerce.number({ message: "Choose the neutralizer" }).int().positive("Choose the neutralizer"),
   checkedAt: z.string().trim().min(1, "When was it checked?"),
   method: z.enum(["charged_plate", "periodic"]).default("charged_plate"),
-  plateDistanceMm: optionalNumber(1, 2000, "Distance in mm, 1–2000"),
+  plateDistanceMm: optionalNumber(1, 2000, "Test distance in mm, 1–2000"),
+  // a charged-plate monitor's plate: 20 pF on 150 × 150 mm is the standard one; small fixtures
+  // of a few pF and 25 mm exist (plausibility bounds, from memory)
+  plateCapacitancePf: optionalNumber(1, 1000, "Plate capacitance in pF, 1–1000"),
+  plateWidthMm: optionalNumber(5, 1000, "Plate width in mm, 5–1000"),
+  plateLengthMm: optionalNumber(5, 1000, "Plate length in mm, 5–1000"),
   decayPosS: requiredNumber(0, 600, "Decay time in seconds, 0–600"),
   decayNegS: requiredNumber(0, 600, "Decay time in seconds, 0–600"),
   offsetV: requiredNumber(-1000, 1000, "Offset in volts, −1000 to 1000"),
@@ -36,6 +41,10 @@ export type RecordCheckResult = {
   limits: CheckLimits & { source: "default" | "plant" };
   stateChanged: boolean;
   instrumentCalibrationOld: boolean;
+  /** the unit's decay now against its own baseline (checks since cleaning, or of the past year) */
+  slowdown: DecaySlowdown | null;
+  /** a plate other than 20 pF on 150 × 150 mm was recorded */
+  plateNonStandard: boolean;
 };
 
 export const recordCheckAction = defineAction("check.record", recordCheckSchema, async (input, session): Promise<RecordCheckResult> => {
@@ -52,6 +61,9 @@ export const recordCheckAction = defineAction("check.record", recordCheckSchema,
     ts,
     method: input.method,
     plateDistanceMm: input.plateDistanceMm,
+    plateCapacitancePf: input.plateCapacitancePf,
+    plateWidthMm: input.plateWidthMm,
+    plateLengthMm: input.plateLengthMm,
     decayPosS: input.decayPosS,
     decayNegS: input.decayNegS,
     offsetV: input.offsetV,
@@ -83,8 +95,19 @@ export const recordCheckAction = defineAction("check.record", recordCheckSchema,
     limits: res.limits,
     stateChanged: res.stateChanged,
     instrumentCalibrationOld: calMs !== null && ts - calMs > 365 * 86_400_000,
+    slowdown: await checkSlowdown(db, n.id, res.limits.maxDecayS, n.lastCleanedTs, now),
+    plateNonStandard:
+      (input.plateCapacitancePf !== null && input.plateCapacitancePf !== STANDARD_PLATE.capacitancePf) ||
+      (input.plateWidthMm !== null && input.plateWidthMm !== STANDARD_PLATE.widthMm) ||
+      (input.plateLengthMm !== null && input.plateLengthMm !== STANDARD_PLATE.lengthMm),
   };
 });
+
+/** The slowdown the unit's page shows, from the same trend (projectDecay in db/queries/checks.ts). */
+async function checkSlowdown(db: ReturnType<typeof getDb>, neutralizerId: number, limitS: number, lastCleanedTs: number | null, nowMs: number): Promise<DecaySlowdown | null> {
+  const rows = await listChecks(db, { neutralizerId, limit: 50 });
+  return projectDecay(rows, limitS, lastCleanedTs, nowMs).slowdown;
+}
 
 const limitField = (label: string, min: number, max: number) => requiredNumber(min, max, `${label}: ${min}–${max}`);
 const limitsFormSchema = z.object(

@@ -10,7 +10,10 @@ import { estimateRelaxation, formatSeconds, relaxationSchema } from "@/component
 import {
   AIR_ASSIST_PRESSURE_BAR,
   PASSIVE_BAR_REACH_MM,
+  PERCEPTION_HEARD_KV,
   PERCEPTION_ONSET_KV,
+  PERCEPTION_SEEN_KV,
+  TRADE_FACTS,
   RUBBED_SHEET_KV,
   SENSOR_DISTANCE_MM,
   UNTOUCHED_SHEET_KV,
@@ -37,7 +40,7 @@ describe("number fields", () => {
   });
 
   it("say what is wrong, next to the right field", () => {
-    const r = plannerSchema.safeParse({ outdoorTempC: "", outdoorRhPct: "abc", basis: "water", indoorTempC: "90", targetRhPct: "45", airflowM3PerH: "9000", humidifierKgPerH: "" });
+    const r = plannerSchema.safeParse({ outdoorTempC: "", outdoorRhPct: "abc", basis: "water", indoorTempC: "90", targetRhPct: "45", airflowM3PerH: "9000", humidifierKgPerH: "", flowAt: "outdoor" });
     expect(r.success).toBe(false);
     const m = fieldMessages(r.error!.issues);
     expect(m.outdoorTempC).toBe("Enter the outdoor temperature in °C");
@@ -48,7 +51,7 @@ describe("number fields", () => {
 });
 
 describe("humidity planner", () => {
-  const base = { outdoorTempC: "-10", outdoorRhPct: "80", indoorTempC: "21", targetRhPct: "45", airflowM3PerH: "10000", humidifierKgPerH: "" };
+  const base = { outdoorTempC: "-10", outdoorRhPct: "80", indoorTempC: "21", targetRhPct: "45", airflowM3PerH: "10000", humidifierKgPerH: "", flowAt: "hall" };
 
   it("−10 °C, 80 % RH heated to 21 °C: about 8.4 % over ice (ASHRAE) and 9.2 % over water", () => {
     // worked example of the issue: ASHRAE Fundamentals 2017 ch. 1 basis (over ice below 0 °C) ≈ 8.4 %,
@@ -75,6 +78,31 @@ describe("humidity planner", () => {
     expect(r.waterKgPerH).toBeCloseTo(water, 4);
     // roughly 70 kg/h for 10 000 m³/h: the plain words give it rounded
     expect(r.words).toContain(`add about ${r.waterKgPerH.toFixed(0)} kg of water per hour`);
+  });
+
+  it("asks where the flow is measured: outdoor air is denser, ~10 % more dry air at −10 °C and ~14 % at −20 °C (psychrolib)", () => {
+    // psychrolib 1.1.1: ṁda = V̇ / v(T, W) at the conditions the flow is measured; W is the same
+    // air outdoors and in the hall. (out − hall) / out = 1 − v_out / v_hall ≈ 1 − 263.15/294.15 = 10.5 %
+    // at −10 °C and 1 − 253.15/294.15 = 13.9 % at −20 °C (ideal gas, T ratio).
+    const p = 101325;
+    for (const [tOut, rhOut, want] of [
+      ["-10", 0.8, 0.105],
+      ["-20", 0.8, 0.139],
+    ] as const) {
+      const w = psychrolib.GetHumRatioFromRelHum(Number(tOut), rhOut, p);
+      const mOut = 9000 / psychrolib.GetMoistAirVolume(Number(tOut), w, p);
+      const mHall = 9000 / psychrolib.GetMoistAirVolume(21, w, p);
+      const water = (m: number) => m * (psychrolib.GetHumRatioFromRelHum(21, 0.45, p) - w);
+      const input = { ...base, outdoorTempC: tOut, airflowM3PerH: "9000", basis: "ice" } as const;
+      const atOutdoor = planHumidity(plannerSchema.parse({ ...input, flowAt: "outdoor" }));
+      const atHall = planHumidity(plannerSchema.parse({ ...input, flowAt: "hall" }));
+      expect(atOutdoor.dryAirKgPerH).toBeCloseTo(mOut, 6);
+      expect(atHall.dryAirKgPerH).toBeCloseTo(mHall, 6);
+      expect(atOutdoor.waterKgPerH).toBeCloseTo(water(mOut), 4);
+      expect(atHall.waterKgPerH).toBeCloseTo(water(mHall), 4);
+      expect((atOutdoor.waterKgPerH - atHall.waterKgPerH) / atOutdoor.waterKgPerH).toBeCloseTo(want, 2);
+      expect(atOutdoor.words).toContain("measured at the outdoor intake");
+    }
   });
 
   it("with a humidifier too small for the need, says how far it gets", () => {
@@ -126,10 +154,13 @@ describe("charge reading explainer", () => {
     expect(r.words).toMatch(/check the meter/);
   });
 
-  it("people feel 2.5 kV but not 1 kV; a rubbed sheet above 10 kV is painful, an untouched one is not felt", () => {
+  it("people feel 2.5 kV but not 1 kV, hear 6 kV; a rubbed sheet above 10 kV is seen, an untouched one is not felt (common practice)", () => {
     expect(explainCharge(explainerSchema.parse({ readingKv: "2.5", distanceMm: "25" })).perception).toBe("felt");
     expect(explainCharge(explainerSchema.parse({ readingKv: "1", distanceMm: "25" })).perception).toBe("not felt");
-    expect(explainCharge(explainerSchema.parse({ readingKv: String(RUBBED_SHEET_KV + 2), distanceMm: "25" })).perception).toBe("painful/visible");
+    const six = explainCharge(explainerSchema.parse({ readingKv: "6", distanceMm: "25" }));
+    expect(six.perception).toBe("heard");
+    expect(six.words).not.toMatch(/seen/);
+    expect(explainCharge(explainerSchema.parse({ readingKv: String(RUBBED_SHEET_KV + 2), distanceMm: "25" })).perception).toBe("seen");
     expect(explainCharge(explainerSchema.parse({ readingKv: String(UNTOUCHED_SHEET_KV), distanceMm: "25" })).perception).toBe("not felt");
   });
 
@@ -144,11 +175,18 @@ describe("facts of the trade (common practice)", () => {
     expect(SENSOR_DISTANCE_MM).toBe(25);
     expect(Math.abs(SENSOR_DISTANCE_MM - 25.4) / 25.4).toBeLessThan(0.02);
   });
-  it("people begin to feel a discharge around 1.5–3 kV, and the physics library's threshold lies inside", () => {
-    expect(PERCEPTION_ONSET_KV).toEqual({ from: 1.5, to: 3 });
+  it("felt from about 2–3 kV, heard from about 5 kV, seen from about 8–10 kV, and the physics library agrees (common practice)", () => {
+    expect(PERCEPTION_ONSET_KV).toEqual({ from: 2, to: 3 });
+    expect(PERCEPTION_HEARD_KV).toBe(5);
+    expect(PERCEPTION_SEEN_KV).toEqual({ from: 8, to: 10 });
     expect(PERCEPTION_FELT_FROM_KV).toBeGreaterThanOrEqual(PERCEPTION_ONSET_KV.from);
     expect(PERCEPTION_FELT_FROM_KV).toBeLessThanOrEqual(PERCEPTION_ONSET_KV.to);
     expect(humanPerception(PERCEPTION_ONSET_KV.to)).toBe("felt");
+    expect(humanPerception(PERCEPTION_HEARD_KV)).toBe("heard");
+    expect(humanPerception(PERCEPTION_SEEN_KV.from)).toBe("seen");
+    const fact = TRADE_FACTS.find((f) => f.includes("heard"))!;
+    expect(fact).toMatch(/heard from about 5 kV and seen from about 8–10 kV/);
+    expect(TRADE_FACTS.join(" ")).not.toMatch(/heard and seen from about 5 kV/);
   });
   it("an ionizing bar without air works within about 50 mm, i.e. 2 in (50.8 mm)", () => {
     expect(PASSIVE_BAR_REACH_MM).toBe(50);
@@ -170,7 +208,8 @@ describe("spark-hazard check", () => {
     const r = checkSpark(sparkSchema.parse({ solvent: "Ethyl acetate", customMieMj: "", capacitancePf: "100", voltageKv: "2" }));
     expect(r.energyMj).toBeCloseTo(0.2, 12);
     expect(r.verdict).toBe("within tenfold of MIE");
-    expect(r.words).toContain("43 % of Ethyl acetate's minimum ignition energy of 0.46 mJ");
+    // 0.2 / 0.46 = 0.435 → "0.43×", the same wording as the Floor and the line page
+    expect(r.words).toContain("0.43× the minimum ignition energy (MIE) of Ethyl acetate vapour, 0.46 mJ");
   });
 
   it("200 pF at 10 kV = 10 mJ (½CV²): can ignite ethanol (0.23 mJ)", () => {
@@ -197,7 +236,7 @@ describe("spark-hazard check", () => {
 
 describe("relaxation time", () => {
   it("εr 2 and ρ 10¹⁰ Ω·m give τ = ε0·εr·ρ ≈ 0.177 s", () => {
-    const r = estimateRelaxation(relaxationSchema.parse({ relativePermittivity: "2", resistivityOhmM: "1e10", surfaceResistanceOhm: "" }));
+    const r = estimateRelaxation(relaxationSchema.parse({ relativePermittivity: "2", resistivity: "1e10", resistivityUnit: "ohm_m", surfaceResistanceOhm: "" }));
     expect(r.tauS).toBeCloseTo(0.177, 3);
     expect(r.toTenthS).toBeCloseTo(0.177 * Math.LN10, 2);
     expect(formatSeconds(r.tauS)).toBe("177 ms");
@@ -205,14 +244,26 @@ describe("relaxation time", () => {
   });
 
   it("a polyolefin film holds charge for days and is insulative", () => {
-    const r = estimateRelaxation(relaxationSchema.parse({ relativePermittivity: "2.3", resistivityOhmM: "10^16", surfaceResistanceOhm: "1e13" }));
+    const r = estimateRelaxation(relaxationSchema.parse({ relativePermittivity: "2.3", resistivity: "10^16", resistivityUnit: "ohm_m", surfaceResistanceOhm: "1e13" }));
     expect(r.tauS / 86400).toBeGreaterThan(1);
     expect(r.surfaceClass).toBe("insulative");
     expect(r.words).toMatch(/must be removed by a neutralizer/);
   });
 
-  it("refuses a resistivity of zero", () => {
-    const r = relaxationSchema.safeParse({ relativePermittivity: "2", resistivityOhmM: "0", surfaceResistanceOhm: "" });
-    expect(fieldMessages(r.error!.issues).resistivityOhmM).toBe("The volume resistivity must be above 0 and at most 1e22 Ω·m");
+  it("refuses a resistivity of zero, in the unit chosen", () => {
+    const r = relaxationSchema.safeParse({ relativePermittivity: "2", resistivity: "0", resistivityUnit: "ohm_m", surfaceResistanceOhm: "" });
+    expect(fieldMessages(r.error!.issues).resistivity).toBe("The volume resistivity must be above 0 and at most 1e22 Ω·m");
+    const cm = relaxationSchema.safeParse({ relativePermittivity: "2", resistivity: "0", resistivityUnit: "ohm_cm", surfaceResistanceOhm: "" });
+    expect(fieldMessages(cm.error!.issues).resistivity).toBe("The volume resistivity must be above 0 and at most 1e24 Ω·cm");
+  });
+
+  it("the same number in Ω·cm is 100× shorter: 1 Ω·cm = 0.01 Ω·m (SI definition of the units)", () => {
+    // datasheet value 1e12 Ω·cm = 1e10 Ω·m → τ = ε0 · 2 · 1e10 = 0.177 s; read wrongly as Ω·m it is 17.7 s
+    const asCm = estimateRelaxation(relaxationSchema.parse({ relativePermittivity: "2", resistivity: "1e12", resistivityUnit: "ohm_cm", surfaceResistanceOhm: "" }));
+    const asM = estimateRelaxation(relaxationSchema.parse({ relativePermittivity: "2", resistivity: "1e12", resistivityUnit: "ohm_m", surfaceResistanceOhm: "" }));
+    expect(asCm.resistivityOhmM).toBeCloseTo(1e10, 0);
+    expect(asCm.tauS).toBeCloseTo(8.8541878128e-12 * 2 * 1e10, 12);
+    expect(asM.tauS / asCm.tauS).toBeCloseTo(100, 10);
+    expect(formatSeconds(asCm.tauS)).toBe("177 ms");
   });
 });

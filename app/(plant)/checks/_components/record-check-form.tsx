@@ -8,6 +8,7 @@ import { inputClass } from "@/components/forms/action-form";
 import { StateBadge } from "@/components/ui/state-badge";
 import { MinRoleSelect, postUpload } from "../../equipment/_components/upload-form";
 import { recordCheck } from "../actions";
+import { CHECK_STANDARD_EDITIONS, STANDARD_PLATE } from "@/lib/physics/neutralizer";
 
 type Option = { id: number; tag: string; group: string };
 type Result = Awaited<ReturnType<typeof recordCheck>>;
@@ -93,8 +94,8 @@ export function RecordCheckForm({ options, preselect, nowLocal }: { options: Opt
           </Label>
           <Label text="Method" name="method" errors={errors}>
             <select name="method" className={inputClass} defaultValue="charged_plate">
-              <option value="charged_plate">Charged plate (STM3.1)</option>
-              <option value="periodic">Periodic check (SP3.3)</option>
+              <option value="charged_plate">Charged plate ({CHECK_STANDARD_EDITIONS.testMethodAnsi})</option>
+              <option value="periodic">Periodic check ({CHECK_STANDARD_EDITIONS.periodic})</option>
             </select>
           </Label>
         </div>
@@ -112,14 +113,29 @@ export function RecordCheckForm({ options, preselect, nowLocal }: { options: Opt
         <Label text="Instrument" name="instrument" errors={errors}>
           <input name="instrument" className={inputClass} maxLength={120} placeholder="model and serial number" />
         </Label>
-        <div className="grid grid-cols-2 gap-3">
-          <Label text="Plate distance (mm)" name="plateDistanceMm" errors={errors}>
-            <input name="plateDistanceMm" inputMode="decimal" defaultValue="25" className={inputClass} />
-          </Label>
-          <Label text="Instrument calibrated on" name="instrumentCalibratedOn" errors={errors}>
-            <input name="instrumentCalibratedOn" type="date" className={inputClass} />
-          </Label>
-        </div>
+        <Label text="Instrument calibrated on" name="instrumentCalibratedOn" errors={errors}>
+          <input name="instrumentCalibratedOn" type="date" className={inputClass} />
+        </Label>
+        <fieldset className="rounded border border-paper-line px-3 pb-3 pt-1" data-testid="plate-fields">
+          <legend className="px-1 text-xs font-medium text-ink-soft">Plate and test distance</legend>
+          <div className="grid grid-cols-2 gap-3 sm:grid-cols-4">
+            <Label text="Plate (pF)" name="plateCapacitancePf" errors={errors}>
+              <input name="plateCapacitancePf" inputMode="decimal" defaultValue={STANDARD_PLATE.capacitancePf} className={inputClass} />
+            </Label>
+            <Label text="Width (mm)" name="plateWidthMm" errors={errors}>
+              <input name="plateWidthMm" inputMode="decimal" defaultValue={STANDARD_PLATE.widthMm} className={inputClass} />
+            </Label>
+            <Label text="Length (mm)" name="plateLengthMm" errors={errors}>
+              <input name="plateLengthMm" inputMode="decimal" defaultValue={STANDARD_PLATE.lengthMm} className={inputClass} />
+            </Label>
+            <Label text="Test distance (mm)" name="plateDistanceMm" errors={errors}>
+              <input name="plateDistanceMm" inputMode="decimal" className={inputClass} placeholder="e.g. 300" />
+            </Label>
+          </div>
+          <p className="mt-1.5 text-xs text-ink-faint">
+            20 pF on 150 × 150 mm is the plate of {CHECK_STANDARD_EDITIONS.testMethodAnsi} and {CHECK_STANDARD_EDITIONS.testMethodIec}. Test distance: neutralizer to plate, at its working distance; times from another plate or distance are not comparable.
+          </p>
+        </fieldset>
         <Label text="Notes" name="notes" errors={errors}>
           <textarea name="notes" rows={2} className={inputClass} maxLength={2000} />
         </Label>
@@ -163,6 +179,12 @@ export function RecordCheckForm({ options, preselect, nowLocal }: { options: Opt
           <p className="mt-2 text-xs text-ink-faint">
             Limits for this kind: decay ≤ {result.data.limits.maxDecayS} s, offset within ±{result.data.limits.maxOffsetAbsV} V ({result.data.limits.source === "plant" ? "plant setting" : "default"}).
           </p>
+          {result.data.slowdown?.warn ? (
+            <p className="mt-1 text-sm font-medium text-near" data-testid="check-slowdown">
+              ▲ Slower than its own baseline by ×{result.data.slowdown.factor.toFixed(1)}: {result.data.slowdown.currentS.toFixed(1)} s against {result.data.slowdown.baselineS.toFixed(1)} s from its earlier checks.
+            </p>
+          ) : null}
+          {result.data.plateNonStandard ? <p className="mt-1 text-sm text-near">Not the standard 20 pF, 150 × 150 mm plate: compare these times only with checks on the same plate.</p> : null}
           {result.data.stateChanged ? <p className="mt-1 text-sm text-near">Marked as needing cleaning; it is on the due list now.</p> : null}
           {result.data.instrumentCalibrationOld ? <p className="mt-1 text-sm text-near">The instrument&apos;s calibration is more than a year old.</p> : null}
           {uploaded ? <p className="mt-1 text-sm text-ink-soft">{uploaded} file{uploaded === 1 ? "" : "s"} attached.</p> : null}

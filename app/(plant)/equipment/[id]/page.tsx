@@ -7,7 +7,9 @@ import Link from "next/link";
 import { notFound } from "next/navigation";
 import { requirePagePermission } from "@/app/_server/session";
 import { getDb } from "@/db/client";
-import { CHECK_LIMIT_SOURCES, NEUTRALIZER_KIND_LABELS } from "@/db/queries/checks";
+import { CHECK_LIMIT_SOURCES, NEUTRALIZER_KIND_LABELS, type DecayProjection } from "@/db/queries/checks";
+import { NEUTRALIZER_KIND_SPECS } from "@/lib/physics/neutralizer-kinds";
+import { CHECK_STANDARD_EDITIONS } from "@/lib/physics/neutralizer";
 import { getNeutralizerDetail, getPlaceOptions, getPlantSettings, type EffectFigure } from "@/db/queries/equipment";
 import { Card, Forbidden, PageHeader } from "@/components/ui/page";
 import { neutralizerWarnings } from "@/lib/equipment-warnings";
@@ -42,6 +44,7 @@ export default async function NeutralizerPage({ params }: { params: Promise<{ id
   const canUpload = can(session.role, "upload.add");
   const solventLine = places.lines.find((l) => l.id === n.lineId)?.solvent ?? false;
   const warnings = neutralizerWarnings({ ...n, solventLine });
+  const kindSpec = NEUTRALIZER_KIND_SPECS[n.kind];
   const checkUploads = (checkId: number) => uploads.filter((u) => u.subjectType === "check" && u.subjectId === checkId);
 
   return (
@@ -113,8 +116,14 @@ export default async function NeutralizerPage({ params }: { params: Promise<{ id
                 <p className="text-ink-soft">Two or more checks are needed to project when the decay time will reach its limit.</p>
               )}
             </div>
+            <SlowdownNote projection={projection} lastCleanedTs={n.lastCleanedTs} tz={tz} />
             <DecayChart projection={projection} nowMs={nowMs} timeZone={tz} />
-            <p className="mt-2 text-xs text-ink-faint">{CHECK_LIMIT_SOURCES.maxDecayS}</p>
+            <p className="mt-2 text-xs text-ink-faint" data-testid="kind-spec">
+              {kindSpec.label}: usually {kindSpec.mountingMinMm !== null ? `${kindSpec.mountingMinMm}–${kindSpec.mountingMaxMm} mm from the web` : "no set range"}, a clean unit decays in {kindSpec.typicalDecayS}; default limit {kindSpec.defaultMaxDecayS} s. Source: {kindSpec.source}
+              {kindSpec.checkNote ? ` ${kindSpec.checkNote}` : ""}
+            </p>
+            <p className="mt-1 text-xs text-ink-faint">{CHECK_LIMIT_SOURCES.maxDecayS}</p>
+            <p className="mt-1 text-xs text-ink-faint">{CHECK_LIMIT_SOURCES.maxOffsetAbsV}</p>
           </Card>
 
           <Card title={`Checks (${checks.length})`}>
@@ -129,6 +138,7 @@ export default async function NeutralizerPage({ params }: { params: Promise<{ id
                       <th className="py-2 pr-3 text-right font-medium">Decay +</th>
                       <th className="py-2 pr-3 text-right font-medium">Decay −</th>
                       <th className="py-2 pr-3 text-right font-medium">Offset</th>
+                      <th className="py-2 pr-3 font-medium">Plate · distance</th>
                       <th className="py-2 pr-3 font-medium">Result</th>
                       <th className="py-2 pr-4 font-medium">By / instrument</th>
                     </tr>
@@ -138,12 +148,17 @@ export default async function NeutralizerPage({ params }: { params: Promise<{ id
                       <tr key={c.id} className="border-t border-paper-line align-top">
                         <td className="num px-4 py-2 text-ink-soft">
                           {fmtDateTime(c.ts, tz)}
-                          {c.method === "periodic" ? <span className="block text-xs text-ink-faint">periodic (SP3.3)</span> : null}
+                          {c.method === "periodic" ? <span className="block text-xs text-ink-faint">periodic ({CHECK_STANDARD_EDITIONS.periodic})</span> : null}
                           {c.imported ? <span className="block text-xs text-ink-faint">imported</span> : null}
                         </td>
                         <td className={`num py-2 pr-3 text-right ${c.decayPosS !== null && c.decayPosS > limits.maxDecayS ? "font-semibold text-over" : ""}`}>{fmtNumber(c.decayPosS, 1, "s")}</td>
                         <td className={`num py-2 pr-3 text-right ${c.decayNegS !== null && c.decayNegS > limits.maxDecayS ? "font-semibold text-over" : ""}`}>{fmtNumber(c.decayNegS, 1, "s")}</td>
                         <td className={`num py-2 pr-3 text-right ${c.offsetV !== null && Math.abs(c.offsetV) > limits.maxOffsetAbsV ? "font-semibold text-over" : ""}`}>{fmtSigned(c.offsetV, 0, "V")}</td>
+                        <td className="num py-2 pr-3 text-xs text-ink-soft" data-testid="check-plate">
+                          {c.plateCapacitancePf !== null ? `${fmtNumber(c.plateCapacitancePf, 0, "pF")}` : "plate —"}
+                          {c.plateWidthMm !== null && c.plateLengthMm !== null ? `, ${c.plateWidthMm} × ${c.plateLengthMm} mm` : ""}
+                          <span className="block text-ink-faint">{c.plateDistanceMm !== null ? `at ${c.plateDistanceMm} mm` : "distance —"}</span>
+                        </td>
                         <td className="py-2 pr-3">
                           <CheckResultBadge passed={c.passed} />
                           {c.failReasons ? <span className="mt-0.5 block max-w-[16rem] text-xs text-ink-soft">{c.failReasons}</span> : null}
@@ -281,5 +296,27 @@ function EffectTile({ e, tz }: { e: EffectFigure; tz: string }) {
         <p className="mt-1 text-xs text-ink-faint">{e.reason}</p>
       )}
     </div>
+  );
+}
+
+/** "Slower than its own baseline by ×N", from the same series the trend is fitted to. */
+function SlowdownNote({ projection, lastCleanedTs, tz }: { projection: DecayProjection; lastCleanedTs: number | null; tz: string }) {
+  const s = projection.slowdown;
+  if (!s) return null;
+  const latestTs = projection.points[projection.points.length - 1]?.ts ?? 0;
+  const cleanedSince = lastCleanedTs !== null && lastCleanedTs > latestTs;
+  const basis = projection.basis === "since_cleaning" ? "its first checks since the last cleaning" : "its earlier checks this year";
+  if (!s.warn) {
+    return (
+      <p className="mb-2 text-sm text-ink-soft" data-testid="decay-slowdown">
+        Latest decay {s.currentS.toFixed(1)} s, ×{s.factor.toFixed(1)} its own baseline of {s.baselineS.toFixed(1)} s ({basis}).
+      </p>
+    );
+  }
+  return (
+    <p className="mb-2 rounded border border-near/40 bg-near-soft/60 px-3 py-1.5 text-sm text-ink" data-testid="decay-slowdown">
+      <b className="font-semibold text-near">▲ Slower than its own baseline by ×{s.factor.toFixed(1)}</b>: the latest check took {s.currentS.toFixed(1)} s against {s.baselineS.toFixed(1)} s from {basis}
+      {cleanedSince ? `; it has been cleaned since (${fmtDate(lastCleanedTs, tz)}), so check it again.` : ". It is fouling even if it still passes: plan a cleaning."}
+    </p>
   );
 }
