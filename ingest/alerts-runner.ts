@@ -20,7 +20,7 @@ import { ZodError } from "zod";
 import { settings } from "../db/schema";
 import { applyClearTransition, applyUpdateTransition, expireShelving, insertRaisedAlert, listUnclearedAlerts } from "../db/queries/alert-transitions";
 import type { AlertChange } from "../lib/views/alerts";
-import { loadRuleDefinitions, readRulesSignature } from "../db/queries/rules";
+import { loadRuleDefinitions, readRulesSignature } from "../db/queries/rule-rows";
 import { loadPlantTopology, readTopologySignature, type PlantTopology } from "../db/queries/topology";
 import { getPlantSettings } from "../db/queries/equipment";
 import { internalTopics } from "../lib/contract/topics";

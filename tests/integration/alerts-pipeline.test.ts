@@ -22,7 +22,9 @@ import { connectDevice, endClient, freePort, publishAsync, ROOT, spawnTs, startI
 import { alerts, devices, lines, neutralizers, outbox, people } from "@/db/schema";
 import { respondToAlert } from "@/db/queries/alert-actions";
 import { saveAlertingSettings } from "@/db/queries/oncall";
-import { listRuleRows, replayRuleProposal, saveRuleVersion } from "@/db/queries/rules";
+import { listRuleRows } from "@/db/queries/rule-rows";
+import { saveRuleVersion } from "@/db/queries/rule-versions";
+import { replayRuleProposal } from "@/db/use-cases/replay-rule-proposal";
 import { readDeviceSecrets } from "@/db/seed";
 import { readSinkIndex } from "@/ingest/smtp-sink";
 import { deviceTopics } from "@/lib/contract/topics";

@@ -4,7 +4,9 @@ import "server-only";
 import { getDb, getPool } from "@/db/client";
 import { getEnv } from "@/db/env";
 import { loadPlantTopology } from "@/db/queries/topology";
-import { replayInputSchema, replayRuleProposal, saveRuleInputSchema, saveRuleVersion } from "@/db/queries/rules";
+import { saveRuleVersion } from "@/db/queries/rule-versions";
+import { replayRuleProposal } from "@/db/use-cases/replay-rule-proposal";
+import { replayInputSchema, saveRuleInputSchema } from "@/lib/rules/rule-input";
 import { defineAction } from "../action";
 
 async function whereOfScope(scope: { pointId: number | null; lineId: number | null; areaId: number | null }): Promise<string | null> {

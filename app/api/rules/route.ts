@@ -6,7 +6,7 @@ import { NextResponse } from "next/server";
 import { route, readJson } from "@/app/_server/route";
 import { saveRuleAction } from "@/app/_server/actions/rules";
 import { getDb } from "@/db/client";
-import { listRuleRows } from "@/db/queries/rules";
+import { listRuleRows } from "@/db/queries/rule-rows";
 import { actionResponse } from "../alerts/_respond";
 
 export const dynamic = "force-dynamic";

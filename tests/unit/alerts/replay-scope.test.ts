@@ -1,7 +1,7 @@
-// The limits editor's backtest plumbing (db/queries/rules.ts): which sensors a replay of one
+// The limits editor's backtest plumbing (lib/rules/replay-scope.ts): which sensors a replay of one
 // kind within a scope needs, and the time-ordered merge of their series.
 import { describe, expect, it } from "vitest";
-import { mergeSeries, scopeTopologyForReplay } from "../../../db/queries/rules";
+import { mergeSeries, scopeTopologyForReplay } from "../../../lib/rules/replay-scope";
 import type { Topology } from "../../../lib/rules";
 
 const PLANT: Topology = {

@@ -8,7 +8,7 @@ import { useState } from "react";
 import clsx from "clsx";
 import { fromPlantLocalInput, toPlantLocalInput } from "@/lib/plant-time";
 import type { RuleKind, Severity } from "@/lib/vocabulary";
-import type { ReplayResult } from "@/db/queries/rules";
+import type { ReplayResult } from "@/lib/views/replay";
 import { HALL_KINDS } from "./rule-fields";
 import { bodyOf, draftFrom, postJson, type Draft } from "./rule-draft";
 import { KINDS, levelOf, matches, rulesInForce, type Place, type PlantTree, type RuleInfo } from "./rules-in-force";

@@ -6,7 +6,7 @@ import { SeverityTag } from "@/components/alerts/alert-bits";
 import { formatAlertValue, formatDuration } from "@/lib/vocabulary";
 import type { RuleKind } from "@/lib/vocabulary";
 import { formatPlantTime } from "@/lib/plant-time";
-import type { ReplayResult, ReplaySide } from "@/db/queries/rules";
+import type { ReplayResult, ReplaySide } from "@/lib/views/replay";
 
 export function ReplayView({ result, timeZone, kind, stale }: { result: ReplayResult; timeZone: string; kind: RuleKind; stale: boolean }) {
   const diff = result.proposed.count - result.current.count;

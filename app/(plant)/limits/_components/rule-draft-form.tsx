@@ -7,7 +7,7 @@ import type { Dispatch, SetStateAction } from "react";
 import { inputClass } from "@/components/forms/action-form";
 import { EmptyState } from "@/components/ui/page";
 import { RULE_KIND_WORDS, SEVERITY_WORDS } from "@/lib/vocabulary";
-import type { ReplayResult } from "@/db/queries/rules";
+import type { ReplayResult } from "@/lib/views/replay";
 import { NOT_LINE_GATED, PARAM_FIELDS, summarizeParams } from "./rule-fields";
 import type { Draft } from "./rule-draft";
 import { LEVEL_WORDS, levelOf } from "./rules-in-force";

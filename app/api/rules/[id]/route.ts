@@ -2,7 +2,8 @@
 import { NextResponse } from "next/server";
 import { route } from "@/app/_server/route";
 import { getDb } from "@/db/client";
-import { listRuleRows, listRuleVersions } from "@/db/queries/rules";
+import { listRuleRows } from "@/db/queries/rule-rows";
+import { listRuleVersions } from "@/db/queries/rule-versions";
 import { badInput, notFound } from "@/lib/errors";
 
 export const dynamic = "force-dynamic";
