@@ -22,7 +22,13 @@ const nextConfig = {
   devIndicators: false,
   typedRoutes: false,
   async headers() {
-    return [{ source: "/:path*", headers: securityHeaders }];
+    return [
+      { source: "/:path*", headers: securityHeaders },
+      // JSON, files and streams: nothing in them may run or be framed (pages get theirs from proxy.ts;
+      // the file route sets a stricter one of its own)
+      { source: "/api/:path*", headers: [{ key: "Content-Security-Policy", value: "default-src 'none'; frame-ancestors 'none'; sandbox" }] },
+      { source: "/_next/:path*", headers: [{ key: "Content-Security-Policy", value: "default-src 'none'; frame-ancestors 'none'" }] },
+    ];
   },
 };
 export default nextConfig;

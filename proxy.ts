@@ -2,6 +2,7 @@
 // Next puts on its own inline scripts, and refuses state-changing requests (route handlers,
 // server actions, sign-in) that a browser sent from another origin. The other security headers
 // come from next.config.mjs so that they are on every response, this one's included.
+// (Route handlers are not matched: see `config` below.)
 import { NextResponse, type NextRequest } from "next/server";
 import { allowedHostsOf, buildCsp, checkSameOrigin, parseTrustedProxies } from "./lib/http-security";
 
@@ -28,6 +29,9 @@ export function proxy(request: NextRequest) {
 }
 
 export const config = {
-  // every path: pages, route handlers and files alike
-  matcher: "/:path*",
+  // Pages and server actions. Route handlers (/api/…) check the origin themselves
+  // (app/_server/route.ts): Next buffers, and past 10 MB truncates, the body of any request the
+  // proxy sees, which would defeat the streaming size limits of uploads and imports. Next's
+  // hashed static files need no nonce; next.config.mjs gives both their headers.
+  matcher: "/((?!api/|_next/static/|_next/image).*)",
 };

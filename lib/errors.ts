@@ -1,6 +1,6 @@
 // Typed errors with codes: internals are logged, the user gets a clear message and the right status.
 
-export type ErrorCode = "bad_input" | "unauthenticated" | "forbidden" | "not_found" | "conflict" | "unprocessable" | "rate_limited" | "internal";
+export type ErrorCode = "bad_input" | "unauthenticated" | "forbidden" | "not_found" | "conflict" | "unprocessable" | "too_large" | "rate_limited" | "internal";
 
 const STATUS: Record<ErrorCode, number> = {
   bad_input: 400,
@@ -9,6 +9,7 @@ const STATUS: Record<ErrorCode, number> = {
   not_found: 404,
   conflict: 409,
   unprocessable: 422,
+  too_large: 413,
   rate_limited: 429,
   internal: 500,
 };

@@ -154,3 +154,52 @@ export function getLiveHub(): LiveHub {
   holder.__stillfieldLiveHub ??= new LiveHub();
   return holder.__stillfieldLiveHub;
 }
+
+// ---- open streams: at most 20 per person and a ceiling per process ----------------------------
+
+export const LIVE_STREAM_LIMITS = { perPerson: 20, perProcess: 400 };
+
+export type StreamSlot = { ok: true; release: () => void } | { ok: false; reason: "person" | "process" };
+
+/** Counts open live streams so one person (or a runaway page) cannot hold the process's sockets. */
+export class StreamSlots {
+  private readonly byPerson = new Map<number, number>();
+  private total = 0;
+
+  constructor(private readonly limits: { perPerson: number; perProcess: number } = LIVE_STREAM_LIMITS) {}
+
+  acquire(personId: number): StreamSlot {
+    const mine = this.byPerson.get(personId) ?? 0;
+    if (mine >= this.limits.perPerson) return { ok: false, reason: "person" };
+    if (this.total >= this.limits.perProcess) return { ok: false, reason: "process" };
+    this.byPerson.set(personId, mine + 1);
+    this.total++;
+    let released = false;
+    return {
+      ok: true,
+      release: () => {
+        if (released) return;
+        released = true;
+        this.total--;
+        const n = (this.byPerson.get(personId) ?? 1) - 1;
+        if (n > 0) this.byPerson.set(personId, n);
+        else this.byPerson.delete(personId);
+      },
+    };
+  }
+
+  openFor(personId: number): number {
+    return this.byPerson.get(personId) ?? 0;
+  }
+
+  openTotal(): number {
+    return this.total;
+  }
+}
+
+const slotsHolder = globalThis as unknown as { __stillfieldStreamSlots?: StreamSlots };
+
+export function getStreamSlots(): StreamSlots {
+  slotsHolder.__stillfieldStreamSlots ??= new StreamSlots();
+  return slotsHolder.__stillfieldStreamSlots;
+}

@@ -1,10 +1,13 @@
 // The wrapper every route handler goes through: it reads the session, checks the permission,
-// validates query/body with zod and maps typed errors to statuses (a 403 stays a 403).
+// validates query/body with zod and maps typed errors to statuses (a 403 stays a 403). It also
+// refuses state-changing requests from other origins and reads bodies with a size ceiling.
 import "server-only";
 import { NextResponse } from "next/server";
 import type { z } from "zod";
 import { AppError, fieldErrorsFromIssues } from "@/lib/errors";
+import { allowedHostsOf, checkSameOrigin, parseTrustedProxies } from "@/lib/http-security";
 import type { Action } from "@/lib/permissions";
+import { BODY_LIMITS, readBodyText } from "./body-limit";
 import { checkPermission, getSession, type SessionPerson } from "./session";
 
 export type RouteContext<P> = { session: SessionPerson; params: P; request: Request };
@@ -37,11 +40,25 @@ export function queryObject(request: Request): Record<string, string | string[]>
   return out;
 }
 
-export async function readJson(request: Request): Promise<unknown> {
+/** The JSON body, at most `maxBytes` (enforced while it streams in: app/_server/body-limit.ts). */
+export async function readJson(request: Request, maxBytes = BODY_LIMITS.json): Promise<unknown> {
+  const text = await readBodyText(request, maxBytes);
   try {
-    return await request.json();
+    return JSON.parse(text);
   } catch {
     throw new AppError("bad_input", "The request body is not valid JSON.");
+  }
+}
+
+const trustedProxies = parseTrustedProxies(process.env.TRUSTED_PROXIES);
+
+/** 403 for a state-changing request a browser sent from another origin (lib/http-security.ts). */
+export function assertSameOrigin(request: Request): void {
+  const get = (name: string) => request.headers.get(name);
+  const verdict = checkSameOrigin(request.method, get, allowedHostsOf(get, trustedProxies));
+  if (!verdict.ok) {
+    console.warn(`refused ${request.method} ${new URL(request.url).pathname}: ${verdict.reason}`);
+    throw new AppError("forbidden", "This request did not come from a Stillfield page.");
   }
 }
 
@@ -51,6 +68,8 @@ type Handler<P> = (ctx: RouteContext<P>) => Promise<Response> | Response;
 export function route<P = Record<string, string>>(action: Action, handler: Handler<P>) {
   return async (request: Request, context: { params: Promise<P> }) => {
     try {
+      // route handlers are outside proxy.ts (which would buffer their bodies): check here
+      assertSameOrigin(request);
       const session = checkPermission(await getSession(), action);
       const params = (await context?.params) ?? ({} as P);
       return await handler({ session, params, request });

@@ -2,6 +2,7 @@
 // action's own status (400 with field errors, 403, 404, 409), so a 403 stays a 403.
 import { NextResponse } from "next/server";
 import type { ActionResult } from "@/app/_server/action";
+import { readBodyText } from "@/app/_server/body-limit";
 import { badInput } from "@/lib/errors";
 
 export function actionResponse<T>(result: ActionResult<T>, okStatus = 200): NextResponse {
@@ -17,7 +18,7 @@ export function alertIdOf(params: { id: string }): number {
 
 /** A JSON object body, or {} when the body is empty. */
 export async function readBodyObject(request: Request): Promise<Record<string, unknown>> {
-  const text = await request.text();
+  const text = await readBodyText(request);
   if (!text.trim()) return {};
   let v: unknown;
   try {

@@ -4,7 +4,7 @@
 import "server-only";
 import { NextResponse } from "next/server";
 import type { ActionResult } from "@/app/_server/action";
-import { AppError } from "@/lib/errors";
+import { readFormLimited } from "@/app/_server/body-limit";
 
 export function actionResponse<T>(result: ActionResult<T>, okStatus = 200): NextResponse {
   if (result.ok) return NextResponse.json(result.data ?? { ok: true }, { status: okStatus, headers: { "Cache-Control": "no-store" } });
@@ -17,14 +17,12 @@ export function routeId(raw: string | undefined): number | null {
   return raw !== undefined && /^[1-9]\d{0,9}$/.test(raw) ? Number(raw) : null;
 }
 
-/** Multipart form data → plain object (files stay File objects) for an action's zod schema. */
-export async function readForm(request: Request): Promise<Record<string, FormDataEntryValue>> {
-  let fd: FormData;
-  try {
-    fd = await request.formData();
-  } catch {
-    throw new AppError("bad_input", "Send the file as multipart/form-data.");
-  }
+/**
+ * Multipart form data → plain object (files stay File objects) for an action's zod schema. The
+ * body is cut off as it streams in once it passes `maxFileBytes` plus room for the other fields.
+ */
+export async function readForm(request: Request, maxFileBytes = 20 * 1024 * 1024): Promise<Record<string, FormDataEntryValue>> {
+  const fd = await readFormLimited(request, maxFileBytes);
   const out: Record<string, FormDataEntryValue> = {};
   for (const [k, v] of fd.entries()) if (!(k in out)) out[k] = v;
   return out;

@@ -15,5 +15,5 @@ export const GET = route("view", async () => NextResponse.json({ imports: await 
 export const POST = route("import.run", async ({ session, request }) => {
   const early = tooLargeResponse(request, MAX_CSV_BYTES);
   if (early) return early;
-  return actionResponse(await runImportAction.run(session, await readForm(request)));
+  return actionResponse(await runImportAction.run(session, await readForm(request, MAX_CSV_BYTES)));
 });

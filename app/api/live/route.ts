@@ -11,9 +11,13 @@
 // when it reconnects, and the stream first back-fills from the database what was missed.
 // Streams end themselves after 30 minutes so the session is checked again on the reconnect;
 // while open, the person is re-checked every minute (deactivated or demoted → the stream ends).
+// A person may hold 20 streams at once (the 21st is answered 429), the process a few hundred; a
+// client that reads too slowly gets the newest snapshot per line and a "reset", never a backlog.
 import { z } from "zod";
 import { route, parseOrThrow, queryObject } from "@/app/_server/route";
-import { getLiveHub, type HubEvent } from "@/app/_server/live-hub";
+import { NextResponse } from "next/server";
+import { getLiveHub, getStreamSlots, LIVE_STREAM_LIMITS, type HubEvent } from "@/app/_server/live-hub";
+import { SseStream } from "@/app/_server/sse-stream";
 import { getDb } from "@/db/client";
 import { getPlantLayout } from "@/db/queries/plant";
 import { getRecentReadings } from "@/db/queries/history";
@@ -64,104 +68,93 @@ export const GET = route("view", async ({ request, session }) => {
   const lastEventId = Number(request.headers.get("last-event-id") ?? NaN);
   const since = Number.isFinite(lastEventId) && lastEventId > 0 ? lastEventId : q.since;
 
+  const slot = getStreamSlots().acquire(session.personId);
+  if (!slot.ok) {
+    const why = slot.reason === "person" ? `You already have ${LIVE_STREAM_LIMITS.perPerson} live views open; close some tabs.` : "The server has too many live views open; try again shortly.";
+    return NextResponse.json({ error: why, code: "rate_limited" }, { status: 429, headers: { "Retry-After": "30" } });
+  }
+
   const hub = getLiveHub();
-  const encoder = new TextEncoder();
-  let closed = false;
-  let cleanup: (endStream?: boolean) => void = () => undefined;
+  let cleanup: () => void = () => slot.release();
+  const sse = new SseStream({ onClose: () => cleanup() });
+  let lastId = since ?? 0;
 
-  const stream = new ReadableStream<Uint8Array>({
-    async start(controller) {
-      let lastId = since ?? 0;
-      const write = (text: string) => {
-        if (closed) return;
-        try {
-          controller.enqueue(encoder.encode(text));
-        } catch {
-          cleanup();
-        }
-      };
-      const event = (name: string, data: unknown, id?: number) => {
-        write(`${id !== undefined ? `id: ${id}\n` : ""}event: ${name}\ndata: ${JSON.stringify(data)}\n\n`);
-      };
+  const forward = (e: HubEvent) => {
+    if (e.type === "live") {
+      const s = e.snapshot;
+      if (s.scope === "line" ? !lineIds.has(s.id) : !areaIds.has(s.id)) return;
+      let newest = 0;
+      for (const series of s.series) for (const [ts] of series.samples) if (ts > newest) newest = ts;
+      lastId = Math.max(lastId, newest);
+      // a client that is behind gets only the newest snapshot of each line or hall
+      sse.event("live", s, { id: lastId > 0 ? lastId : undefined, coalesceKey: `${s.scope}:${s.id}` });
+    } else if (e.type === "alert") {
+      const a = e.alert;
+      const mine = q.scope === "plant" || (a.lineId != null && lineIds.has(a.lineId)) || (a.lineId == null && a.areaId != null && areaIds.has(a.areaId));
+      // each alert event only makes the page refetch alerts: one waiting is enough
+      if (mine) sse.event("alert", a, { coalesceKey: "alert" });
+    } else {
+      sse.event("broker", { connected: e.connected }, { coalesceKey: "broker" });
+    }
+  };
 
-      const forward = (e: HubEvent) => {
-        if (e.type === "live") {
-          const s = e.snapshot;
-          if (s.scope === "line" ? !lineIds.has(s.id) : !areaIds.has(s.id)) return;
-          let newest = 0;
-          for (const series of s.series) for (const [ts] of series.samples) if (ts > newest) newest = ts;
-          lastId = Math.max(lastId, newest);
-          event("live", s, lastId > 0 ? lastId : undefined);
-        } else if (e.type === "alert") {
-          const a = e.alert;
-          const mine =
-            q.scope === "plant" || (a.lineId != null && lineIds.has(a.lineId)) || (a.lineId == null && a.areaId != null && areaIds.has(a.areaId));
-          if (mine) event("alert", a);
-        } else {
-          event("broker", { connected: e.connected });
-        }
-      };
-
-      // hold live events while the back-fill is read, so the client receives them in time order
-      const pending: HubEvent[] = [];
-      let backfilling = true;
-      const unsubscribe = hub.subscribe((e) => (backfilling ? pending.push(e) : forward(e)));
-
-      const heartbeat = setInterval(() => event("ping", { ts: Date.now(), broker: hub.isConnected() }), HEARTBEAT_MS);
-      const lifetime = setTimeout(() => cleanup(true), STREAM_LIFETIME_MS);
-      const recheck = setInterval(() => {
-        getPerson(db, session.personId)
-          .then((p) => {
-            if (!p || !p.active || !can(p.role, "view")) cleanup(true);
-          })
-          .catch(() => undefined);
-      }, RECHECK_MS);
-
-      cleanup = (endStream = false) => {
-        if (closed) return;
-        closed = true;
-        unsubscribe();
-        clearInterval(heartbeat);
-        clearInterval(recheck);
-        clearTimeout(lifetime);
-        pending.length = 0;
-        if (endStream) {
-          try {
-            controller.close();
-          } catch {
-            /* already closed by the client */
-          }
-        }
-      };
-      request.signal.addEventListener("abort", () => cleanup());
-
-      write(`retry: 3000\n\n`);
-      event("hello", { scope: q.scope, id: q.id ?? null, serverTs: Date.now(), broker: hub.isConnected() });
-      try {
-        const now = Date.now();
-        if (since !== undefined) {
-          if (now - since > BACKFILL_MAX_MS) event("reset", { reason: "gap", since });
-          else {
-            const series = await getRecentReadings(db, deviceIds, since - BACKFILL_OVERLAP_MS, now);
-            let newest = lastId;
-            for (const s of series) for (const [ts] of s.samples) if (ts > newest) newest = ts;
-            lastId = newest;
-            event("backfill", { series }, lastId > 0 ? lastId : undefined);
-          }
-        }
-      } catch (err) {
-        console.error("live stream back-fill failed:", err);
-        event("reset", { reason: "backfill_failed" });
-      }
-      backfilling = false;
-      for (const e of pending.splice(0)) forward(e);
-    },
-    cancel() {
-      cleanup();
-    },
+  // hold live events while the back-fill is read, so the client receives them in time order;
+  // the hold is bounded like the stream itself (one per key)
+  const pending = new Map<string, HubEvent>();
+  let backfilling = true;
+  const unsubscribe = hub.subscribe((e) => {
+    if (!backfilling) return forward(e);
+    const key = e.type === "live" ? `live:${e.snapshot.scope}:${e.snapshot.id}` : e.type;
+    pending.delete(key);
+    pending.set(key, e);
   });
 
-  return new Response(stream, {
+  const heartbeat = setInterval(() => sse.event("ping", { ts: Date.now(), broker: hub.isConnected() }, { coalesceKey: "ping" }), HEARTBEAT_MS);
+  const lifetime = setTimeout(() => sse.close(), STREAM_LIFETIME_MS);
+  const recheck = setInterval(() => {
+    getPerson(db, session.personId)
+      .then((p) => {
+        if (!p || !p.active || !can(p.role, "view")) sse.close();
+      })
+      .catch(() => undefined);
+  }, RECHECK_MS);
+
+  cleanup = () => {
+    slot.release();
+    unsubscribe();
+    clearInterval(heartbeat);
+    clearInterval(recheck);
+    clearTimeout(lifetime);
+    pending.clear();
+  };
+  request.signal.addEventListener("abort", () => sse.close(false));
+
+  sse.send(`retry: 3000\n\n`);
+  sse.event("hello", { scope: q.scope, id: q.id ?? null, serverTs: Date.now(), broker: hub.isConnected() });
+  void (async () => {
+    try {
+      const now = Date.now();
+      if (since !== undefined) {
+        if (now - since > BACKFILL_MAX_MS) sse.event("reset", { reason: "gap", since });
+        else {
+          const series = await getRecentReadings(db, deviceIds, since - BACKFILL_OVERLAP_MS, now);
+          let newest = lastId;
+          for (const s of series) for (const [ts] of s.samples) if (ts > newest) newest = ts;
+          lastId = newest;
+          sse.event("backfill", { series }, { id: lastId > 0 ? lastId : undefined });
+        }
+      }
+    } catch (err) {
+      console.error("live stream back-fill failed:", err);
+      sse.event("reset", { reason: "backfill_failed" });
+    }
+    backfilling = false;
+    const held = [...pending.values()];
+    pending.clear();
+    for (const e of held) forward(e);
+  })();
+
+  return new Response(sse.stream, {
     headers: {
       "Content-Type": "text/event-stream; charset=utf-8",
       // no-transform keeps the response out of compression, which would buffer the events

@@ -11,7 +11,8 @@ export const dynamic = "force-dynamic";
 export const POST = route("upload.add", async ({ session, request }) => {
   const early = tooLargeResponse(request, MAX_UPLOAD_BYTES);
   if (early) return early;
-  const form = await readForm(request);
+  // cut off as it streams in, once past 20 MB (plus the form's other fields)
+  const form = await readForm(request, MAX_UPLOAD_BYTES);
   const file = form.file;
   if (file instanceof File && file.size > MAX_UPLOAD_BYTES) {
     return NextResponse.json({ error: "The file is larger than 20 MB.", code: "too_large", fieldErrors: { file: ["At most 20 MB"] } }, { status: 413 });

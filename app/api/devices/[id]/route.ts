@@ -6,16 +6,17 @@ import { updateDeviceAction } from "@/app/_server/actions/devices";
 import { getDb } from "@/db/client";
 import { getDevice, listEquipmentEvents, listUploads } from "@/db/queries/equipment";
 import { notFound } from "@/lib/errors";
+import { toUploadView } from "@/lib/upload-view";
 import { actionResponse, routeId } from "../../equipment/_respond";
 
 export const dynamic = "force-dynamic";
 
-export const GET = route<{ id: string }>("view", async ({ params }) => {
+export const GET = route<{ id: string }>("view", async ({ params, session }) => {
   const id = routeId(params.id);
   const device = id !== null ? await getDevice(getDb(), id) : null;
   if (!device || id === null) throw notFound("No such device.");
   const [events, uploads] = await Promise.all([listEquipmentEvents(getDb(), "device", id), listUploads(getDb(), "device", [id])]);
-  return NextResponse.json({ device, events, uploads });
+  return NextResponse.json({ device, events, uploads: uploads.map((u) => toUploadView(u, session.role)) });
 });
 
 export const PATCH = route<{ id: string }>("equipment.edit", async ({ session, params, request }) => {

@@ -6,15 +6,16 @@ import { updateNeutralizerAction } from "@/app/_server/actions/equipment";
 import { getDb } from "@/db/client";
 import { getNeutralizerDetail } from "@/db/queries/equipment";
 import { notFound } from "@/lib/errors";
+import { toUploadView } from "@/lib/upload-view";
 import { actionResponse, routeId } from "../_respond";
 
 export const dynamic = "force-dynamic";
 
-export const GET = route<{ id: string }>("view", async ({ params }) => {
+export const GET = route<{ id: string }>("view", async ({ params, session }) => {
   const id = routeId(params.id);
   const detail = id !== null ? await getNeutralizerDetail(getDb(), id) : null;
   if (!detail) throw notFound("No such neutralizer.");
-  return NextResponse.json(detail);
+  return NextResponse.json({ ...detail, uploads: detail.uploads.map((u) => toUploadView(u, session.role)) });
 });
 
 export const PATCH = route<{ id: string }>("equipment.edit", async ({ session, params, request }) => {

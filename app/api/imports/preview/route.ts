@@ -9,5 +9,5 @@ export const dynamic = "force-dynamic";
 export const POST = route("import.run", async ({ session, request }) => {
   const early = tooLargeResponse(request, MAX_CSV_BYTES);
   if (early) return early;
-  return actionResponse(await previewImportAction.run(session, await readForm(request)));
+  return actionResponse(await previewImportAction.run(session, await readForm(request, MAX_CSV_BYTES)));
 });

@@ -38,7 +38,8 @@ export const GET = route<{ id: string }>("view", async ({ session, params, reque
       "Content-Disposition": contentDisposition(variant === "thumb" || isImage ? "inline" : "attachment", name),
       "X-Content-Type-Options": "nosniff",
       "Content-Security-Policy": "default-src 'none'; img-src 'self'; style-src 'unsafe-inline'; sandbox",
-      "Cache-Control": "private, max-age=3600",
+      // a restricted file must not stay in the cache of a shared floor PC
+      "Cache-Control": upload.minRole === "viewer" ? "private, max-age=3600" : "no-store",
     },
   });
 });
