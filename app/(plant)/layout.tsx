@@ -21,6 +21,7 @@ export default async function PlantLayout({ children }: { children: React.ReactN
     { href: "/alert-load", label: "Alert load" },
     { href: "/equipment", label: "Equipment" },
     { href: "/checks", label: "Checks" },
+    { href: "/surveys", label: "Surveys" },
     { href: "/devices", label: "Devices" },
     { href: "/reports", label: "Reports" },
     { href: "/calculators", label: "Calculators" },

@@ -7,6 +7,9 @@ import { requirePagePermission } from "@/app/_server/session";
 import { getDb } from "@/db/client";
 import { CHECK_LIMIT_SOURCES, getCheckLimits, listChecks, NEUTRALIZER_KIND_LABELS } from "@/db/queries/checks";
 import { getDueList } from "@/db/queries/due-list";
+import { listSurveyActions } from "@/db/queries/surveys-report";
+import { SurveyActionList } from "@/components/surveys/survey-actions";
+import { closeSurveyAction } from "../surveys/actions";
 import { getPlantSettings, listNeutralizers } from "@/db/queries/equipment";
 import { NEUTRALIZER_KINDS, NEUTRALIZER_KIND_SPECS } from "@/lib/physics/neutralizer-kinds";
 import { CHECK_STANDARD_EDITIONS } from "@/lib/physics/neutralizer";
@@ -14,7 +17,7 @@ import { Card, Forbidden, PageHeader } from "@/components/ui/page";
 import { can } from "@/lib/permissions";
 import { CheckResultBadge } from "../equipment/_components/badges";
 import { HighVoltageCaution } from "../equipment/_components/caution";
-import { fmtDate, fmtDateTime, fmtNumber, fmtSigned, toLocalInput } from "../equipment/_components/format";
+import { fmtDate, fmtDateTime, fmtNumber, fmtSigned, toLocalDateIso, toLocalInput } from "../equipment/_components/format";
 import { DueListView } from "./_components/due-list";
 import { LimitsForm } from "./_components/limits-form";
 import { RecordCheckForm } from "./_components/record-check-form";
@@ -39,6 +42,7 @@ export default async function ChecksPage({ searchParams }: { searchParams: Promi
   const nowMs = Date.now();
   const [due, recent, limits, ns, plant] = await Promise.all([getDueList(db, nowMs), listChecks(db, { limit: 15 }), getCheckLimits(db), listNeutralizers(db), getPlantSettings(db)]);
   const tz = plant.timeZone;
+  const surveyActions = await listSurveyActions(db, { state: "open" });
   const canRecord = can(session.role, "check.record");
   const canEdit = can(session.role, "equipment.edit");
   const options = ns.filter((n) => n.state !== "removed").map((n) => ({ id: n.id, tag: n.tag, group: n.lineName ? `${n.areaName} — ${n.lineName}` : "Not placed" }));
@@ -77,6 +81,10 @@ export default async function ChecksPage({ searchParams }: { searchParams: Promi
             <p className="mt-3 text-xs text-ink-faint">
               The list goes by e-mail every week to the people on the maintenance list. A neutralizer never cleaned or checked is due from its installation date.
             </p>
+          </Card>
+
+          <Card title={`Actions from surveys (${surveyActions.length} open)`}>
+            <SurveyActionList actions={surveyActions} canClose={can(session.role, "survey.record")} closeAction={closeSurveyAction} today={toLocalDateIso(nowMs, tz)} />
           </Card>
 
           <Card title="Recent checks">

@@ -5,6 +5,7 @@ import Link from "next/link";
 import { requirePagePermission } from "@/app/_server/session";
 import { getDb } from "@/db/client";
 import { DEVICE_KIND_LABELS, getPlaceOptions, getPlantSettings, listDevices, type DeviceListItem } from "@/db/queries/equipment";
+import { latestCrossChecks } from "@/db/queries/surveys-rounds";
 import { Card, EmptyState, Forbidden, PageHeader } from "@/components/ui/page";
 import { StateBadge } from "@/components/ui/state-badge";
 import { deviceWarnings } from "@/lib/equipment-warnings";
@@ -29,7 +30,7 @@ export default async function DevicesPage() {
   }
   const db = getDb();
   const nowMs = Date.now();
-  const [devs, places, plant] = await Promise.all([listDevices(db, nowMs), getPlaceOptions(db), getPlantSettings(db)]);
+  const [devs, places, plant, crossChecks] = await Promise.all([listDevices(db, nowMs), getPlaceOptions(db), getPlantSettings(db), latestCrossChecks(db)]);
   const today = toLocalDateIso(nowMs, plant.timeZone);
   const soon = toLocalDateIso(nowMs + 14 * 86_400_000, plant.timeZone);
   const isAdmin = can(session.role, "devices.manage");
@@ -75,7 +76,7 @@ export default async function DevicesPage() {
                 {kinds.map((k) => {
                   const rows = devs.filter((d) => d.kind === k);
                   if (!rows.length) return null;
-                  return <KindRows key={k} label={DEVICE_KIND_LABELS[k]} rows={rows} nowMs={nowMs} today={today} soon={soon} />;
+                  return <KindRows key={k} label={DEVICE_KIND_LABELS[k]} rows={rows} nowMs={nowMs} today={today} soon={soon} crossChecks={crossChecks} />;
                 })}
               </tbody>
             </table>
@@ -86,7 +87,7 @@ export default async function DevicesPage() {
   );
 }
 
-function KindRows({ label, rows, nowMs, today, soon }: { label: string; rows: DeviceListItem[]; nowMs: number; today: string; soon: string }) {
+function KindRows({ label, rows, nowMs, today, soon, crossChecks }: { label: string; rows: DeviceListItem[]; nowMs: number; today: string; soon: string; crossChecks: Awaited<ReturnType<typeof latestCrossChecks>> }) {
   return (
     <>
       <tr className="border-t border-paper-line bg-paper/60">
@@ -104,6 +105,11 @@ function KindRows({ label, rows, nowMs, today, soon }: { label: string; rows: De
                 {d.code}
               </Link>
               {!d.enabled ? <StateBadge state="shelved" label="Disabled" className="ml-2" /> : null}
+              {crossChecks.get(d.id)?.flagged ? (
+                <span className="ml-2" data-testid="check-calibration" title={`Last survey cross-check: ${Math.round(crossChecks.get(d.id)!.diffShare * 100)} % from the handheld meter (allowed ${Math.round(crossChecks.get(d.id)!.allowedShare * 100)} %)`}>
+                  <StateBadge state="over" label="Check calibration" />
+                </span>
+              ) : null}
               <span className="block max-w-[18rem] truncate text-xs text-ink-faint">{d.label}</span>
             </td>
             <td className="py-2 pr-3 text-ink-soft">{d.placeLabel}</td>

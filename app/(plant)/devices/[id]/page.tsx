@@ -7,6 +7,8 @@ import { notFound } from "next/navigation";
 import { requirePagePermission } from "@/app/_server/session";
 import { getDb } from "@/db/client";
 import { listRecentRejections } from "@/db/queries/ingest-diagnostics";
+import { listCrossChecks } from "@/db/queries/surveys-report";
+import { CrossCheckHistory } from "@/components/surveys/cross-check-history";
 import { DEVICE_KIND_LABELS, getDevice, getPlaceOptions, getPlantSettings, listEquipmentEvents, listUploads } from "@/db/queries/equipment";
 import { Card, Forbidden, PageHeader } from "@/components/ui/page";
 import { StateBadge } from "@/components/ui/state-badge";
@@ -33,7 +35,7 @@ export default async function DevicePage({ params }: { params: Promise<{ id: str
   const id = Number(raw);
   const [d, places, plant] = await Promise.all([getDevice(db, id, nowMs), getPlaceOptions(db), getPlantSettings(db)]);
   if (!d) notFound();
-  const [events, uploads, rejections] = await Promise.all([listEquipmentEvents(db, "device", id), listUploads(db, "device", [id]), listRecentRejections(db, { deviceCode: d.code, limit: 20 })]);
+  const [events, uploads, rejections, crossChecks] = await Promise.all([listEquipmentEvents(db, "device", id), listUploads(db, "device", [id]), listRecentRejections(db, { deviceCode: d.code, limit: 20 }), listCrossChecks(db, { deviceId: id, limit: 50 })]);
   const tz = plant.timeZone;
   const today = toLocalDateIso(nowMs, tz);
   const warnings = deviceWarnings(d, today);
@@ -101,6 +103,11 @@ export default async function DevicePage({ params }: { params: Promise<{ id: str
               </table>
             )}
           </Card>
+          {d.kind === "field_meter" ? (
+            <Card title="Cross-checks against handheld surveys">
+              <CrossCheckHistory checks={crossChecks} fmt={(ts) => fmtDateTime(ts, plant.timeZone)} />
+            </Card>
+          ) : null}
           <Card title="History">
             <HistoryList events={events} timeZone={tz} />
           </Card>
