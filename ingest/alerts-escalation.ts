@@ -13,7 +13,7 @@ import { getAlertingSettings, listOnCallAt, type AlertingSettings, type RosterSh
 import { enqueueMail } from "../db/queries/outbox";
 import type { AlertSubject } from "../db/queries/topology";
 import { SEVERITY_RANK, type Severity } from "../lib/vocabulary";
-import { composeAlertEmail } from "./alerts-email";
+import { composeAlertEmail } from "../lib/mail/alert-emails";
 
 export function severitiesAtOrAbove(min: Severity): Severity[] {
   return (["low", "medium", "high"] as const).filter((s) => SEVERITY_RANK[s] >= SEVERITY_RANK[min]);

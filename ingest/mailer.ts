@@ -24,14 +24,14 @@ import { closeDb, getDb, type Db } from "../db/client";
 import { getEnv } from "../db/env";
 import { outbox, people } from "../db/schema";
 import { listAlertsForDigest } from "../db/queries/alert-list";
-import { queueWeeklyDueListEmail } from "../db/queries/due-list";
+import { queueWeeklyDueListEmail } from "../db/use-cases/due-list-email";
 import { getPlantSettings } from "../db/queries/equipment";
 import { getAlertingSettings } from "../db/queries/oncall";
 import { claimDueMails, enqueueMail, markMailFailed, markMailSent, retryBackoffMs } from "../db/queries/outbox";
 import { loadPlantTopology } from "../db/queries/topology";
 import { getSettings, tlsFiles } from "../lib/settings";
 import { formatPlantTime, previousPlantDay } from "../lib/plant-time";
-import { composeDigestEmail } from "./alerts-email";
+import { composeDigestEmail } from "../lib/mail/alert-emails";
 import { createLogger, describeError } from "./log";
 
 const log = createLogger("mailer");
@@ -112,7 +112,7 @@ export async function queueDailyDigests(db: Db, nowMs: number, appUrl: string): 
       })),
       { dayLabel, recipientName: r.name, appUrl, timeZone: plant.timeZone },
     );
-    if (await enqueueMail(db, { dedupeKey: `digest:${day.date}:${r.id}`, toAddress: r.email, subject: mail.subject, bodyText: mail.text, bodyHtml: mail.html }, nowMs)) queued++;
+    if ((await enqueueMail(db, { dedupeKey: `digest:${day.date}:${r.id}`, toAddress: r.email, subject: mail.subject, bodyText: mail.text, bodyHtml: mail.html }, nowMs)).queued) queued++;
   }
   return queued;
 }

@@ -1,61 +1,16 @@
 // The due list: neutralizer cleanings and verifications, repairs and sensor calibrations that
-// are overdue or due within the horizon (14 days), by hall; and the weekly e-mail of it to the
-// people on the maintenance list, queued in the outbox (the mailer loop sends it).
+// are overdue or due within the horizon (14 days), by hall. The view types are in
+// lib/views/due-list.ts; the weekly e-mail of it is db/use-cases/due-list-email.ts.
 import { and, eq, gte, inArray } from "drizzle-orm";
-import { getISOWeek, getISOWeekYear } from "date-fns";
-import { TZDate } from "@date-fns/tz";
 import type { Db } from "../client";
-import { getEnv } from "../env";
-import { areas, checks, outbox, people } from "../schema";
+import { areas, checks } from "../schema";
+import { DAY_MS } from "../../lib/vocabulary";
+import { localDateOf } from "../../lib/plant-time";
+import type { DueItem, DueList, DueWhat } from "../../lib/views/due-list";
 import { getCheckLimits, projectDecay } from "./checks";
 import { computeNeutralizerEffects, dateOnlyMs, getPlantSettings, listDevices, listNeutralizers, DEVICE_KIND_LABELS } from "./equipment";
 
-const DAY_MS = 86_400_000;
 export const DUE_HORIZON_DAYS = 14;
-
-export type DueWhat = "cleaning" | "check" | "repair" | "calibration";
-
-export const DUE_WHAT_LABELS: Record<DueWhat, string> = {
-  cleaning: "Cleaning",
-  check: "Verification (charged plate)",
-  repair: "Repair (marked faulty)",
-  calibration: "Sensor calibration",
-};
-
-export type DueItem = {
-  key: string;
-  subjectType: "neutralizer" | "device";
-  subjectId: number;
-  label: string;
-  where: string;
-  areaId: number | null;
-  areaName: string;
-  what: DueWhat;
-  dueTs: number;
-  overdue: boolean;
-  /** whole days until due (negative: whole days overdue; 0 with overdue = less than a day late) */
-  daysLeft: number;
-  reason: string;
-  /** never done since installation (or never recorded): due from the installation date */
-  neverDone: boolean;
-  /** decay-time projection: when the trend reaches the limit ("cleaning likely due around …") */
-  projectedTs: number | null;
-  /** effect over the last 24 h (1 − |after|/|before|), null when unknown */
-  effectDay: number | null;
-};
-
-export type DueList = {
-  generatedTs: number;
-  horizonDays: number;
-  halls: { areaId: number | null; areaName: string; items: DueItem[] }[];
-  overdueCount: number;
-  dueSoonCount: number;
-};
-
-function fmtDate(ts: number, timeZone: string): string {
-  const d = new TZDate(ts, timeZone);
-  return `${d.getFullYear()}-${String(d.getMonth() + 1).padStart(2, "0")}-${String(d.getDate()).padStart(2, "0")}`;
-}
 
 export async function getDueList(db: Db, nowMs: number, opts: { horizonDays?: number; withEffect?: boolean } = {}): Promise<DueList> {
   const horizonDays = opts.horizonDays ?? DUE_HORIZON_DAYS;
@@ -91,7 +46,7 @@ export async function getDueList(db: Db, nowMs: number, opts: { horizonDays?: nu
         n.state === "needs_cleaning"
           ? "Marked as needing cleaning."
           : n.lastCleanedTs !== null
-            ? `Every ${n.cleaningIntervalDays} days; last cleaned ${fmtDate(n.lastCleanedTs, plant.timeZone)}.`
+            ? `Every ${n.cleaningIntervalDays} days; last cleaned ${localDateOf(n.lastCleanedTs, plant.timeZone)}.`
             : `Every ${n.cleaningIntervalDays} days; no cleaning recorded.`,
     });
     push({
@@ -99,7 +54,7 @@ export async function getDueList(db: Db, nowMs: number, opts: { horizonDays?: nu
       what: "check",
       dueTs: n.checkDueTs ?? nowMs,
       neverDone: n.lastCheck === null,
-      reason: n.lastCheck ? `Every ${n.checkIntervalDays} days; last checked ${fmtDate(n.lastCheck.ts, plant.timeZone)} (${n.lastCheck.passed ? "passed" : "failed"}).` : `Every ${n.checkIntervalDays} days; no check recorded.`,
+      reason: n.lastCheck ? `Every ${n.checkIntervalDays} days; last checked ${localDateOf(n.lastCheck.ts, plant.timeZone)} (${n.lastCheck.passed ? "passed" : "failed"}).` : `Every ${n.checkIntervalDays} days; no check recorded.`,
     });
   }
 
@@ -172,86 +127,4 @@ async function hallName(db: Db, areaId: number | null): Promise<string> {
   if (areaId === null) return "Not placed";
   const row = (await db.select({ name: areas.name }).from(areas).where(eq(areas.id, areaId)).limit(1))[0];
   return row?.name ?? "Not placed";
-}
-
-// ---------------------------------------------------------------------------------------------
-// the e-mail
-
-/** ISO 8601 week of `nowMs` in the plant's time zone, e.g. "2026-W49". */
-export function isoWeekKey(nowMs: number, timeZone: string): string {
-  const d = new TZDate(nowMs, timeZone);
-  return `${getISOWeekYear(d)}-W${String(getISOWeek(d)).padStart(2, "0")}`;
-}
-
-function escapeHtml(s: string): string {
-  return s.replace(/[&<>"']/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c]!);
-}
-
-const CAUTION =
-  "Caution: neutralizer power units carry several kilovolts. Isolate the power unit and follow the plant's lockout procedure before cleaning or touching emitters. Stillfield is a record-keeping aid, not a safety system.";
-
-export function formatDueListEmail(list: DueList, timeZone: string, appUrl: string): { subject: string; text: string; html: string } {
-  const total = list.overdueCount + list.dueSoonCount;
-  const subject =
-    total === 0
-      ? "Stillfield due list: nothing due in the next 14 days"
-      : `Stillfield due list: ${list.overdueCount} overdue, ${list.dueSoonCount} due within ${list.horizonDays} days`;
-  const link = `${appUrl.replace(/\/$/, "")}/checks`;
-  const status = (i: DueItem) =>
-    i.overdue ? (i.neverDone ? "◆ NEVER DONE" : i.daysLeft < 0 ? `◆ OVERDUE ${-i.daysLeft} d` : "◆ OVERDUE") : i.daysLeft === 0 ? "▲ due today" : `▲ due in ${i.daysLeft} d`;
-  const textLines: string[] = [subject, "", `Generated ${fmtDate(list.generatedTs, timeZone)}. Open the list: ${link}`, ""];
-  const htmlParts: string[] = [
-    `<p style="font-family:sans-serif">${escapeHtml(subject)}.<br>Generated ${fmtDate(list.generatedTs, timeZone)}. <a href="${escapeHtml(link)}">Open the due list in Stillfield</a>.</p>`,
-  ];
-  if (total === 0) {
-    textLines.push("Nothing is overdue or due within the next 14 days.");
-    htmlParts.push(`<p style="font-family:sans-serif">Nothing is overdue or due within the next 14 days.</p>`);
-  }
-  for (const h of list.halls) {
-    textLines.push(h.areaName.toUpperCase());
-    htmlParts.push(`<h3 style="font-family:sans-serif;margin:16px 0 4px">${escapeHtml(h.areaName)}</h3>`);
-    htmlParts.push(`<table style="font-family:sans-serif;font-size:13px;border-collapse:collapse">`);
-    for (const i of h.items) {
-      const proj = i.projectedTs !== null ? `; cleaning likely due around ${fmtDate(i.projectedTs, timeZone)}` : "";
-      const eff = i.effectDay !== null ? `; effect 24 h ${Math.round(i.effectDay * 100)} %` : "";
-      textLines.push(`  ${status(i)}  ${fmtDate(i.dueTs, timeZone)}  ${DUE_WHAT_LABELS[i.what]}  ${i.label} (${i.where})  ${i.reason}${proj}${eff}`);
-      htmlParts.push(
-        `<tr><td style="padding:2px 8px 2px 0;white-space:nowrap"><b>${escapeHtml(status(i))}</b></td><td style="padding:2px 8px">${fmtDate(i.dueTs, timeZone)}</td><td style="padding:2px 8px">${escapeHtml(DUE_WHAT_LABELS[i.what])}</td><td style="padding:2px 8px">${escapeHtml(i.label)}<br><span style="color:#666">${escapeHtml(i.where)}</span></td><td style="padding:2px 8px;color:#444">${escapeHtml(i.reason + proj + eff)}</td></tr>`,
-      );
-    }
-    htmlParts.push(`</table>`);
-    textLines.push("");
-  }
-  textLines.push("", CAUTION, "", "You get this because you are on the maintenance list in Stillfield.");
-  htmlParts.push(`<p style="font-family:sans-serif;font-size:12px;color:#555">${escapeHtml(CAUTION)}</p>`);
-  htmlParts.push(`<p style="font-family:sans-serif;font-size:12px;color:#777">You get this because you are on the maintenance list in Stillfield.</p>`);
-  return { subject, text: textLines.join("\n"), html: htmlParts.join("\n") };
-}
-
-/**
- * Queues the due list for everyone active on the maintenance list, one outbox row each, with
- * dedupeKey "due-list:<ISO week>:<personId>" so a week's list is queued once however often this
- * runs. `manual` (the "Send due list now" button) uses a per-minute key instead, so a second
- * click within the minute adds nothing.
- */
-export async function queueWeeklyDueListEmail(db: Db, nowMs: number, opts: { manual?: boolean } = {}): Promise<{ queued: number; recipients: number; weekKey: string }> {
-  const plant = await getPlantSettings(db);
-  const weekKey = isoWeekKey(nowMs, plant.timeZone);
-  const recipients = await db
-    .select({ id: people.id, email: people.email })
-    .from(people)
-    .where(and(eq(people.onMaintenanceList, true), eq(people.active, true)));
-  if (!recipients.length) return { queued: 0, recipients: 0, weekKey };
-  const list = await getDueList(db, nowMs);
-  const mail = formatDueListEmail(list, plant.timeZone, getEnv().APP_URL);
-  let queued = 0;
-  for (const r of recipients) {
-    const dedupeKey = opts.manual ? `due-list-now:${Math.floor(nowMs / 60_000)}:${r.id}` : `due-list:${weekKey}:${r.id}`;
-    const [res] = await db
-      .insert(outbox)
-      .ignore()
-      .values({ dedupeKey, toAddress: r.email, subject: mail.subject, bodyText: mail.text, bodyHtml: mail.html, state: "pending", attempts: 0, nextAttemptTs: nowMs, createdTs: nowMs });
-    queued += res.affectedRows;
-  }
-  return { queued, recipients: recipients.length, weekKey };
 }

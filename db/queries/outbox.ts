@@ -15,8 +15,13 @@ import type { DbWriter } from "./alert-rows";
 
 export type NewMail = { dedupeKey: string; toAddress: string; subject: string; bodyText: string; bodyHtml?: string | null };
 
-/** Queues a mail unless one with the same dedupe key exists; true when it was queued. */
-export async function enqueueMail(tx: Pick<Db, "insert">, mail: NewMail, nowMs: number): Promise<boolean> {
+/**
+ * The one outbox insert. Queues a mail unless one with the same dedupe key exists (queued or
+ * already sent): then nothing changes and `queued` is false, so a double click or a second
+ * scheduler round is harmless. Takes a Db or a transaction, so a mail can be queued in the
+ * same transaction as the change that causes it.
+ */
+export async function enqueueMail(tx: Pick<Db, "insert">, mail: NewMail, nowMs: number): Promise<{ queued: boolean; id: number | null }> {
   const [res] = await tx
     .insert(outbox)
     .ignore()
@@ -31,7 +36,7 @@ export async function enqueueMail(tx: Pick<Db, "insert">, mail: NewMail, nowMs: 
       nextAttemptTs: nowMs,
       createdTs: nowMs,
     });
-  return res.affectedRows === 1;
+  return res.affectedRows === 1 ? { queued: true, id: Number(res.insertId) } : { queued: false, id: null };
 }
 
 export type ClaimedMail = { id: number; dedupeKey: string; toAddress: string; subject: string; bodyText: string; bodyHtml: string | null; attempts: number; createdTs: number };

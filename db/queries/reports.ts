@@ -1,5 +1,5 @@
-// Read models behind the reports (shift handover, weekly line review, equipment compliance) and
-// the handover e-mail's outbox row. Loads exactly the rows a report needs (explicit columns,
+// Read models behind the reports (shift handover, weekly line review, equipment compliance).
+// Loads exactly the rows a report needs (explicit columns,
 // people by name only) and hands them to the pure builders in lib/reports.
 import { and, asc, eq, gte, inArray, isNull, lt, or, sql } from "drizzle-orm";
 import type { Db } from "../client";
@@ -11,7 +11,6 @@ import {
   devices,
   lineNotes,
   neutralizers,
-  outbox,
   people,
   rollup1h,
   rollup1m,
@@ -196,30 +195,6 @@ export async function listHandoverRecipients(db: Db): Promise<{ id: number; name
 export async function getRecipient(db: Db, personId: number): Promise<{ id: number; name: string; email: string; role: string; active: boolean } | null> {
   const rows = await db.select({ id: people.id, name: people.name, email: people.email, role: people.role, active: people.active }).from(people).where(eq(people.id, personId)).limit(1);
   return rows[0] ?? null;
-}
-
-export type OutboxMail = { dedupeKey: string; toAddress: string; subject: string; bodyText: string; bodyHtml?: string | null };
-
-/**
- * Queues a mail for the mailer loop. Returns false (and changes nothing) when a mail with the
- * same dedupe key is already queued or sent: the unique key makes a double click harmless.
- */
-export async function queueOutboxMail(db: Db, mail: OutboxMail, nowTs: number): Promise<{ queued: boolean; id: number | null }> {
-  try {
-    const [res] = await db
-      .insert(outbox)
-      .values({ ...mail, bodyHtml: mail.bodyHtml ?? null, state: "pending", attempts: 0, nextAttemptTs: nowTs, createdTs: nowTs });
-    return { queued: true, id: res.insertId };
-  } catch (err) {
-    if (isDuplicateKey(err)) return { queued: false, id: null };
-    throw err;
-  }
-}
-
-function isDuplicateKey(err: unknown): boolean {
-  const code = (e: unknown) => (typeof e === "object" && e !== null && "code" in e ? (e as { code?: unknown }).code : undefined);
-  const cause = typeof err === "object" && err !== null && "cause" in err ? (err as { cause?: unknown }).cause : undefined;
-  return code(err) === "ER_DUP_ENTRY" || code(cause) === "ER_DUP_ENTRY";
 }
 
 // ---------------------------------------------------------------------------------------------

@@ -2,9 +2,9 @@
 // e-mail for one alert and the daily digest of a day's alerts. Each alert e-mail says what,
 // where, since when, the peak, and links to the line page at the alert's time; the state code is
 // the same shape-and-word set the screens use (STATE_SYMBOLS / STATE_WORDS).
-import { formatPlantTime } from "../lib/plant-time";
-import { ALERT_STATE_WORDS, RULE_KIND_WORDS, SEVERITY_WORDS, alertStateCode, stateCodeText, type AlertState, type RuleKind, type Severity } from "../lib/vocabulary";
-import { formatAlertValue, formatDuration } from "../lib/vocabulary";
+import { formatPlantTime } from "../plant-time";
+import { ALERT_STATE_WORDS, RULE_KIND_WORDS, SEVERITY_WORDS, alertStateCode, formatAlertValue, formatDuration, stateCodeText, type AlertState, type RuleKind, type Severity } from "../vocabulary";
+import { MONITORING_CAUTION, escapeHtml, lineLinkAt, type MailText } from "./render";
 
 export type AlertMailInput = {
   alertId: number;
@@ -24,22 +24,9 @@ export type AlertMailInput = {
   linkLineId: number | null;
 };
 
-export type MailText = { subject: string; text: string; html: string };
-
-export function escapeHtml(s: string): string {
-  return s.replace(/[&<>"']/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c] ?? c);
-}
-
-export function lineLinkAt(appUrl: string, lineId: number, ts: number): string {
-  return `${appUrl.replace(/\/$/, "")}/lines/${lineId}?at=${ts}`;
-}
-
 function whereText(a: AlertMailInput): string {
   return a.where ?? ([a.areaName, a.lineName, a.pointName].filter(Boolean).join(" › ") || "the plant");
 }
-
-const SAFETY =
-  "Stillfield is a monitoring aid, not a safety system. Where solvents are used, static hazards are assessed by a qualified person under NFPA 77, IEC TS 60079-32-1 and local codes; isolate power units before touching neutralizers.";
 
 /**
  * The e-mail to an on-call person. `level` 1 is the first call; 2 and up say it is an
@@ -78,7 +65,7 @@ export function composeAlertEmail(
     `Open the chart at that time: ${link}`,
     `Acknowledge it in Stillfield: ${alertsLink}`,
     "",
-    SAFETY,
+    MONITORING_CAUTION,
     "",
     `Alert ${a.alertId}. You get this e-mail because you are on the Stillfield on-call roster.`,
   ];
@@ -97,7 +84,7 @@ export function composeAlertEmail(
     row("Severity", escapeHtml(SEVERITY_WORDS[a.severity])),
     `</table>`,
     `<p><a href="${escapeHtml(link)}">Open the chart at that time</a> · <a href="${escapeHtml(alertsLink)}">Acknowledge in Stillfield</a></p>`,
-    `<p style="font-size:12px;color:#555">${escapeHtml(SAFETY)}</p>`,
+    `<p style="font-size:12px;color:#555">${escapeHtml(MONITORING_CAUTION)}</p>`,
     `<p style="font-size:12px;color:#777">Alert ${a.alertId}. You get this e-mail because you are on the Stillfield on-call roster.</p>`,
     `</div>`,
   ].join("\n");

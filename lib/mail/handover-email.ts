@@ -1,11 +1,11 @@
 /**
  * The shift handover as plain text for e-mail: the same sections as the printed report, with
- * the state codes as text symbols and words (components/ui/state-badge STATE_SYMBOLS and
- * STATE_WORDS, passed in) so they read in any mail program and in black and white. Pure.
+ * the state codes as text symbols and words (lib/vocabulary STATE_SYMBOLS and STATE_WORDS,
+ * passed in) so they read in any mail program and in black and white. Pure.
  */
 import { describeShift } from "../plant-time";
-import { formatDayTime, formatDuration, formatKv, formatPct, formatShare, formatTs } from "./format";
-import type { HandoverReport } from "./handover";
+import { formatDayTime, formatDuration, formatKv, formatPct, formatShare, formatTs } from "../reports/format";
+import type { HandoverReport } from "../reports/handover";
 import type { PointState } from "../vocabulary";
 
 export type StateCodes = { symbols: Record<PointState, string>; words: Record<PointState, string> };

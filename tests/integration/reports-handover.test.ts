@@ -5,7 +5,7 @@ import Papa from "papaparse";
 import { createTestDatabase, type TestDatabase } from "../helpers/test-db";
 import { getHandoverReport } from "@/db/queries/reports";
 import { handoverCsv } from "@/lib/reports/csv-tables";
-import { handoverText } from "@/lib/reports/handover-text";
+import { handoverText } from "@/lib/mail/handover-email";
 import type { HandoverReport } from "@/lib/reports/handover";
 import { STATE_SYMBOLS, STATE_WORDS } from "@/lib/vocabulary";
 import { DEMO_PEOPLE } from "@/lib/demo-plant";

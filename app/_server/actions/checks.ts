@@ -5,7 +5,7 @@ import { z } from "zod";
 import { getDb } from "@/db/client";
 import { writeAudit } from "@/db/queries/audit";
 import { getCheckLimits, listChecks, projectDecay, recordCheck, saveCheckLimits, type NeutralizerKind } from "@/db/queries/checks";
-import { queueWeeklyDueListEmail } from "@/db/queries/due-list";
+import { queueWeeklyDueListEmail } from "@/db/use-cases/due-list-email";
 import { getNeutralizer, getPlantSettings } from "@/db/queries/equipment";
 import { NEUTRALIZER_KINDS } from "@/db/schema/plant";
 import { badInput } from "@/lib/errors";

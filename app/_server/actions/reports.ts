@@ -5,12 +5,13 @@ import "server-only";
 import { z } from "zod";
 import { getDb, type Db } from "@/db/client";
 import { writeAudit } from "@/db/queries/audit";
-import { getHandoverReport, getRecipient, queueOutboxMail } from "@/db/queries/reports";
+import { getHandoverReport, getRecipient } from "@/db/queries/reports";
+import { enqueueMail } from "@/db/queries/outbox";
 import { getEnv } from "@/db/env";
 import { AppError, badInput } from "@/lib/errors";
 import { can, type Role } from "@/lib/permissions";
 import { isValidDate } from "@/lib/plant-time";
-import { handoverSubject, handoverText } from "@/lib/reports/handover-text";
+import { handoverSubject, handoverText } from "@/lib/mail/handover-email";
 import { STATE_SYMBOLS, STATE_WORDS } from "@/lib/vocabulary";
 import { defineAction } from "../action";
 import type { SessionPerson } from "../session";
@@ -42,7 +43,7 @@ export async function emailHandover(db: Db, input: HandoverEmailInput, sender: S
   if (!report) throw badInput(`The plant has no shift called "${input.shift}".`, { shift: ["Choose a shift from the list"] });
   const link = `${getEnv().APP_URL}/reports/handover?date=${encodeURIComponent(input.date)}&shift=${encodeURIComponent(input.shift)}`;
   const dedupeKey = handoverDedupeKey(report.window.startTs, recipient.id);
-  const queued = await queueOutboxMail(
+  const queued = await enqueueMail(
     db,
     {
       dedupeKey,

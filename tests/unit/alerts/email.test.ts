@@ -1,7 +1,7 @@
-// Alert e-mails (ingest/alerts-email.ts): what, where, since when, the peak, the state code
+// Alert e-mails (lib/mail/alert-emails.ts): what, where, since when, the peak, the state code
 // (the same shape and word as the screens) and the link to the line page at that time.
 import { describe, expect, it } from "vitest";
-import { composeAlertEmail, composeDigestEmail, type AlertMailInput } from "../../../ingest/alerts-email";
+import { composeAlertEmail, composeDigestEmail, type AlertMailInput } from "../../../lib/mail/alert-emails";
 import { STATE_SYMBOLS, STATE_WORDS, alertStateCode, formatAlertValue, stateCodeText } from "@/lib/vocabulary";
 
 const T0 = Date.UTC(2026, 0, 12, 14, 2); // 14:02 in London (UTC+0 in January)

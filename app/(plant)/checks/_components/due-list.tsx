@@ -2,7 +2,7 @@
 // or a sensor) with everything due on it, the decay-time projection and the last day's effect.
 import Link from "next/link";
 import { StateBadge } from "@/components/ui/state-badge";
-import type { DueItem, DueList, DueWhat } from "@/db/queries/due-list";
+import type { DueItem, DueList, DueWhat } from "@/lib/views/due-list";
 import { EffectValue } from "../../equipment/_components/badges";
 import { fmtDate, fmtDaysLeft } from "../../equipment/_components/format";
 
