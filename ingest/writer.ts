@@ -13,6 +13,24 @@ import { describeError } from "./log";
 import type { SpillStore } from "./spill";
 import type { WorkerCounters } from "./stats";
 
+/**
+ * What the writer hands back once a message's readings are safe: an MQTT acknowledgement, or a
+ * share of one (a Sparkplug message whose metrics feed several devices, hence several lanes,
+ * is acknowledged when its last share is released).
+ */
+export type WriterAck = AckToken | { release(): void } | null;
+
+/** Splits one acknowledgement into `parts` shares; `done` runs when all are released. */
+export function shareAck(parts: number, done: () => void): Array<{ release(): void }> {
+  let left = parts;
+  const share = {
+    release() {
+      if (--left === 0) done();
+    },
+  };
+  return Array.from({ length: parts }, () => share);
+}
+
 export type WriterOptions = {
   flushMs: number;
   flushRows: number;
@@ -23,7 +41,7 @@ export type WriterOptions = {
 };
 
 export type WriterHooks = {
-  ack(tokens: ReadonlyArray<AckToken | null>): void;
+  ack(tokens: ReadonlyArray<WriterAck>): void;
   committed(rows: ReadingRow[], source: "live" | "replay"): void;
   log: Logger;
   counters: WorkerCounters;
@@ -32,7 +50,7 @@ export type WriterHooks = {
 type Lane = {
   index: number;
   rows: ReadingRow[];
-  acks: Array<AckToken | null>;
+  acks: Array<WriterAck>;
   /** rows of each buffered message, parallel to acks (a message is committed whole) */
   msgRows: number[];
   firstRowTs: number | null;
@@ -93,7 +111,7 @@ export class ReadingWriter {
   }
 
   /** Takes one message's accepted readings (all of one device) and its acknowledgement. */
-  add(deviceId: number, rows: readonly ReadingRow[], ack: AckToken | null): void {
+  add(deviceId: number, rows: readonly ReadingRow[], ack: WriterAck): void {
     const lane = this.lanes[deviceId % this.lanes.length];
     for (const r of rows) lane.rows.push(r);
     lane.acks.push(ack);
@@ -173,7 +191,7 @@ export class ReadingWriter {
 
   private async runLane(lane: Lane): Promise<void> {
     lane.running = true;
-    type Job = { rows: ReadingRow[]; acks: Array<AckToken | null>; msgRows: number[]; firstRowTs: number | null; result: Promise<WriteResult | null> };
+    type Job = { rows: ReadingRow[]; acks: Array<WriterAck>; msgRows: number[]; firstRowTs: number | null; result: Promise<WriteResult | null> };
     const pending: Job[] = [];
     const start = () => {
       // at most about two batches per transaction: a backlog is written in steady steps
@@ -233,7 +251,7 @@ export class ReadingWriter {
   }
 
   /** Takes whole messages from the front of the lane until about `maxRows` rows. */
-  private takeChunk(lane: Lane, maxRows: number): { rows: ReadingRow[]; acks: Array<AckToken | null>; msgRows: number[] } {
+  private takeChunk(lane: Lane, maxRows: number): { rows: ReadingRow[]; acks: Array<WriterAck>; msgRows: number[] } {
     if (lane.rows.length <= maxRows) {
       const taken = { rows: lane.rows, acks: lane.acks, msgRows: lane.msgRows };
       lane.rows = [];
@@ -252,7 +270,7 @@ export class ReadingWriter {
   }
 
   /** One transaction; true when committed (and acknowledged). */
-  private async commit(rows: ReadingRow[], acks: ReadonlyArray<AckToken | null>, source: "live" | "replay"): Promise<boolean> {
+  private async commit(rows: ReadingRow[], acks: ReadonlyArray<WriterAck>, source: "live" | "replay"): Promise<boolean> {
     const res = await this.write(rows, source);
     if (res) this.deliver(res, acks, source);
     return res !== null;
@@ -292,7 +310,7 @@ export class ReadingWriter {
   }
 
   /** After a commit: acknowledge its messages, then hand the new rows on. */
-  private deliver(res: WriteResult, acks: ReadonlyArray<AckToken | null>, source: "live" | "replay"): void {
+  private deliver(res: WriteResult, acks: ReadonlyArray<WriterAck>, source: "live" | "replay"): void {
     this.hooks.ack(acks);
     this.releaseWaiters();
     if (res.inserted.length > 0) this.hooks.committed(res.inserted, source);
@@ -303,8 +321,8 @@ export class ReadingWriter {
   private async spillBuffers(): Promise<void> {
     if (this.spilling) return;
     const rows: ReadingRow[] = [];
-    const acks: Array<AckToken | null> = [];
-    const taken: Array<{ lane: Lane; rows: ReadingRow[]; acks: Array<AckToken | null>; msgRows: number[]; firstRowTs: number | null }> = [];
+    const acks: Array<WriterAck> = [];
+    const taken: Array<{ lane: Lane; rows: ReadingRow[]; acks: Array<WriterAck>; msgRows: number[]; firstRowTs: number | null }> = [];
     for (const lane of this.lanes) {
       if (lane.rows.length === 0) continue;
       taken.push({ lane, rows: lane.rows, acks: lane.acks, msgRows: lane.msgRows, firstRowTs: lane.firstRowTs });
@@ -395,7 +413,7 @@ export class ReadingWriter {
       await new Promise((r) => setTimeout(r, 20));
     }
     const rows: ReadingRow[] = [];
-    const acks: Array<AckToken | null> = [];
+    const acks: Array<WriterAck> = [];
     for (const lane of this.lanes) {
       for (const r of lane.rows) rows.push(r);
       for (const a of lane.acks) acks.push(a);

@@ -11,6 +11,7 @@ export const SPB_DATATYPES = [
 ] as const;
 export type SpbDatatype = (typeof SPB_DATATYPES)[number];
 const NUMERIC: ReadonlySet<string> = new Set(["Int8", "Int16", "Int32", "Int64", "UInt8", "UInt16", "UInt32", "UInt64", "Float", "Double", "Boolean"]);
+const SIGNED32: ReadonlySet<string> = new Set(["Int8", "Int16", "Int32"]);
 const INTEGER: ReadonlySet<string> = new Set(["Int8", "Int16", "Int32", "Int64", "UInt8", "UInt16", "UInt32", "UInt64"]);
 
 /** Whether a metric of this datatype can feed a Stillfield channel (numbers and booleans). */
@@ -31,6 +32,8 @@ export function numericValue(datatype: string, value: unknown): number | null {
   else if (typeof value === "object" && value !== null && "low" in value && "high" in value) n = Number(value);
   else return null;
   if (!Number.isFinite(n)) return null;
+  // signed 8–32-bit values travel in protobuf's uint32 field as two's complement
+  if (SIGNED32.has(datatype) && n > 0x7fffffff && n <= 0xffffffff) n -= 0x100000000;
   if (INTEGER.has(datatype) && !Number.isInteger(n)) return null;
   return n;
 }

@@ -84,3 +84,14 @@ export function isSparkplugWillTopic(topic: string): boolean {
   const t = parseSparkplugTopic(topic);
   return t !== null && (t.kind === "state" || t.type === "NDEATH");
 }
+
+/** The host application (the ingest worker's account) publishes STATE and commands only. */
+export function hostMayPublish(topic: string): boolean {
+  const t = parseSparkplugTopic(topic);
+  return t !== null && (t.kind === "state" || t.type === "NCMD" || t.type === "DCMD");
+}
+
+/** The host application may read the whole Sparkplug namespace. */
+export function hostMaySubscribe(filter: string): boolean {
+  return filter === `${SPB_NAMESPACE}/#` || filter.startsWith(`${SPB_NAMESPACE}/`);
+}
