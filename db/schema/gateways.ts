@@ -3,6 +3,8 @@
 // refused messages per gateway; clock skew and the time-source choice of every device; and the
 // marks on alerts that were found late (in history uploaded or sent after the fact).
 import { bigint, boolean, double, index, int, mysqlEnum, mysqlTable, primaryKey, uniqueIndex, varchar } from "drizzle-orm/mysql-core";
+import { people } from "./people";
+import { devices } from "./plant";
 import { TIME_SOURCES } from "../../lib/clock-skew";
 import { CONVERSIONS } from "../../lib/sparkplug/metrics";
 
@@ -36,7 +38,7 @@ export const edgeNodes = mysqlTable(
 export const gatewayDevices = mysqlTable(
   "gateway_devices",
   {
-    edgeNodeId: int("edge_node_id").notNull(),
+    edgeNodeId: int("edge_node_id").notNull().references(() => edgeNodes.id),
     deviceName: varchar("device_name", { length: 64 }).notNull(),
     online: boolean("online").notNull().default(false),
     lastBirthTs: bigint("last_birth_ts", { mode: "number" }),
@@ -49,7 +51,7 @@ export const gatewayMetrics = mysqlTable(
   "gateway_metrics",
   {
     id: int("id").autoincrement().primaryKey(),
-    edgeNodeId: int("edge_node_id").notNull(),
+    edgeNodeId: int("edge_node_id").notNull().references(() => edgeNodes.id),
     deviceName: varchar("device_name", { length: 64 }).notNull(),
     name: varchar("name", { length: 200 }).notNull(),
     alias: bigint("alias", { mode: "number" }),
@@ -60,10 +62,10 @@ export const gatewayMetrics = mysqlTable(
     lastTs: bigint("last_ts", { mode: "number" }),
     lastBirthTs: bigint("last_birth_ts", { mode: "number" }).notNull(),
     // the mapping (null: unmapped, still listed)
-    targetDeviceId: int("target_device_id"),
+    targetDeviceId: int("target_device_id").references(() => devices.id),
     targetChannel: varchar("target_channel", { length: 16 }),
     conversion: mysqlEnum("conversion", CONVERSIONS).notNull().default("none"),
-    mappedBy: int("mapped_by"),
+    mappedBy: int("mapped_by").references(() => people.id),
     mappedAt: bigint("mapped_at", { mode: "number" }),
   },
   (t) => [uniqueIndex("gateway_metrics_uq").on(t.edgeNodeId, t.deviceName, t.name), index("gateway_metrics_target_idx").on(t.targetDeviceId)],
@@ -74,7 +76,7 @@ export const gatewayRejections = mysqlTable(
   {
     id: bigint("id", { mode: "number" }).autoincrement().primaryKey(),
     ts: bigint("ts", { mode: "number" }).notNull(),
-    edgeNodeId: int("edge_node_id"),
+    edgeNodeId: int("edge_node_id").references(() => edgeNodes.id),
     topic: varchar("topic", { length: 200 }).notNull(),
     reason: varchar("reason", { length: 40 }).notNull(),
     detail: varchar("detail", { length: 300 }),
@@ -84,11 +86,11 @@ export const gatewayRejections = mysqlTable(
 
 /** Clock skew measured per device, and whether its readings keep device time or arrival time. */
 export const deviceClocks = mysqlTable("device_clocks", {
-  deviceId: int("device_id").primaryKey(),
+  deviceId: int("device_id").primaryKey().references(() => devices.id),
   skewMs: double("skew_ms"),
   measuredTs: bigint("measured_ts", { mode: "number" }),
   timeSource: mysqlEnum("time_source", TIME_SOURCES).notNull().default("device"),
-  changedBy: int("changed_by"),
+  changedBy: int("changed_by").references(() => people.id),
   changedAt: bigint("changed_at", { mode: "number" }),
 });
 

@@ -5,3 +5,4 @@ export * from "./alerts";
 export * from "./records";
 export * from "./surveys";
 export * from "./gateways";
+export * from "./relations";

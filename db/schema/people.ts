@@ -49,7 +49,7 @@ export const auditLog = mysqlTable(
   {
     id: bigint("id", { mode: "number" }).autoincrement().primaryKey(),
     ts: bigint("ts", { mode: "number" }).notNull(),
-    personId: int("person_id"),
+    personId: int("person_id").references(() => people.id),
     action: varchar("action", { length: 80 }).notNull(),
     subjectType: varchar("subject_type", { length: 40 }).notNull(),
     subjectId: varchar("subject_id", { length: 80 }),

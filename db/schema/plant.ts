@@ -32,7 +32,7 @@ export const lines = mysqlTable(
   "lines",
   {
     id: int("id").autoincrement().primaryKey(),
-    areaId: int("area_id").notNull(),
+    areaId: int("area_id").notNull().references(() => areas.id),
     slug: varchar("slug", { length: 60 }).notNull().unique(),
     name: varchar("name", { length: 120 }).notNull(),
     kind: mysqlEnum("kind", LINE_KINDS).notNull(),
@@ -52,7 +52,7 @@ export const points = mysqlTable(
   "points",
   {
     id: int("id").autoincrement().primaryKey(),
-    lineId: int("line_id").notNull(),
+    lineId: int("line_id").notNull().references(() => lines.id),
     name: varchar("name", { length: 120 }).notNull(),
     // order along the web path, 1 = first (unwind side)
     position: int("position").notNull(),
@@ -72,9 +72,9 @@ export const devices = mysqlTable(
     kind: mysqlEnum("kind", DEVICE_KINDS).notNull(),
     label: varchar("label", { length: 120 }).notNull(),
     secretHash: varchar("secret_hash", { length: 100 }).notNull(),
-    pointId: int("point_id"),
-    areaId: int("area_id"),
-    lineId: int("line_id"),
+    pointId: int("point_id").references(() => points.id),
+    areaId: int("area_id").references(() => areas.id),
+    lineId: int("line_id").references(() => lines.id),
     calibratedDistanceMm: double("calibrated_distance_mm"),
     mountingDistanceMm: double("mounting_distance_mm"),
     calibrationDue: date("calibration_due", { mode: "string" }),
@@ -104,7 +104,7 @@ export const neutralizers = mysqlTable(
     airAssisted: boolean("air_assisted").notNull().default(false),
     mountingDistanceMm: double("mounting_distance_mm"),
     // the point it serves: it sits just upstream of this point on the web path
-    pointId: int("point_id"),
+    pointId: int("point_id").references(() => points.id),
     installedOn: date("installed_on", { mode: "string" }),
     cleaningIntervalDays: int("cleaning_interval_days").notNull().default(14),
     checkIntervalDays: int("check_interval_days").notNull().default(90),

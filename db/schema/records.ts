@@ -1,11 +1,13 @@
 // Equipment records: charged-plate checks, equipment history and uploaded files.
-import { bigint, boolean, date, double, index, int, mysqlEnum, mysqlTable, text, uniqueIndex, varchar } from "drizzle-orm/mysql-core";
+import { type AnyMySqlColumn, bigint, boolean, date, double, index, int, mysqlEnum, mysqlTable, text, uniqueIndex, varchar } from "drizzle-orm/mysql-core";
+import { people } from "./people";
+import { neutralizers } from "./plant";
 
 export const checks = mysqlTable(
   "checks",
   {
     id: int("id").autoincrement().primaryKey(),
-    neutralizerId: int("neutralizer_id").notNull(),
+    neutralizerId: int("neutralizer_id").notNull().references(() => neutralizers.id),
     ts: bigint("ts", { mode: "number" }).notNull(),
     method: mysqlEnum("method", ["charged_plate", "periodic"]).notNull().default("charged_plate"),
     // the test distance: from the neutralizer to the charged plate (decay times at different
@@ -24,7 +26,7 @@ export const checks = mysqlTable(
     passed: boolean("passed").notNull(),
     failReasons: varchar("fail_reasons", { length: 300 }),
     limitsUsed: text("limits_used"),
-    personId: int("person_id"),
+    personId: int("person_id").references(() => people.id),
     notes: text("notes"),
     // rows imported from an instrument's CSV log carry a hash so a re-import adds nothing twice
     importKey: varchar("import_key", { length: 80 }),
@@ -42,10 +44,10 @@ export const equipmentEvents = mysqlTable(
     subjectId: int("subject_id").notNull(),
     ts: bigint("ts", { mode: "number" }).notNull(),
     kind: mysqlEnum("kind", EQUIPMENT_EVENT_KINDS).notNull(),
-    personId: int("person_id"),
+    personId: int("person_id").references(() => people.id),
     text: text("text"),
-    checkId: int("check_id"),
-    uploadId: int("upload_id"),
+    checkId: int("check_id").references(() => checks.id),
+    uploadId: int("upload_id").references((): AnyMySqlColumn => uploads.id),
   },
   (t) => [index("equipment_events_subject_idx").on(t.subjectType, t.subjectId, t.ts)],
 );
@@ -65,7 +67,7 @@ export const uploads = mysqlTable(
     subjectId: bigint("subject_id", { mode: "number" }).notNull(),
     // lowest role allowed to download it
     minRole: mysqlEnum("min_role", ["viewer", "shift_lead", "engineer", "admin"]).notNull().default("viewer"),
-    personId: int("person_id"),
+    personId: int("person_id").references(() => people.id),
     createdTs: bigint("created_ts", { mode: "number" }).notNull(),
   },
   (t) => [index("uploads_subject_idx").on(t.subjectType, t.subjectId)],
@@ -79,6 +81,6 @@ export const importedFiles = mysqlTable("imported_files", {
   originalName: varchar("original_name", { length: 255 }).notNull(),
   rowsImported: int("rows_imported").notNull(),
   rowsRejected: int("rows_rejected").notNull(),
-  personId: int("person_id"),
+  personId: int("person_id").references(() => people.id),
   createdTs: bigint("created_ts", { mode: "number" }).notNull(),
 });
