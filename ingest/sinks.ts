@@ -1,9 +1,8 @@
-// Plug-in point for code that reacts to committed readings inside the ingest worker (the live
-// rules engine appends its factory here). The worker builds every sink at start-up, then calls
-// onCommitted after each batch commits, per device in reading-time order, and onTick about once
-// a second. A sink's failure is logged and counted; it never stops ingest.
-//
-// To add one:   sinkFactories.push(createMySink);
+// The contract for code that reacts to committed readings inside the ingest worker (the live
+// rules engine is one). The worker builds every sink listed in ingest/sink-registry.ts at
+// start-up, then calls onCommitted after each batch commits, per device in reading-time order,
+// and onTick about once a second. A sink's failure is logged and counted; it never stops ingest.
+// Types only: importing this module registers nothing.
 import type mysql from "mysql2/promise";
 import type { Db } from "../db/client";
 import type { Env } from "../db/env";
@@ -28,6 +27,3 @@ export type SinkContext = {
 };
 
 export type SinkFactory = (ctx: SinkContext) => Promise<ReadingSink>;
-
-export const sinkFactories: SinkFactory[] = [];
-import { createAlertsRunner } from "./alerts-runner"; sinkFactories.push(createAlertsRunner); // the live rules engine (hoisted import; it returns at once)

@@ -27,6 +27,12 @@ export class AppError extends Error {
   }
 }
 
+/** The code of an HTTP error status ("internal" for one without its own code). */
+export function errorCodeOfStatus(status: number): ErrorCode {
+  const hit = (Object.keys(STATUS) as ErrorCode[]).find((c) => STATUS[c] === status);
+  return hit ?? "internal";
+}
+
 export const forbidden = (what = "You do not have permission to do this.") => new AppError("forbidden", what);
 export const notFound = (what = "Not found.") => new AppError("not_found", what);
 export const badInput = (message: string, fieldErrors?: Record<string, string[]>) => new AppError("bad_input", message, fieldErrors);

@@ -3,8 +3,9 @@
 // action (in a "use server" file) is `(prev, formData) => x.run(await getSession(), formData)`;
 // tests call `.run(session, input)` directly with a real session object and a real database.
 import "server-only";
+import { NextResponse } from "next/server";
 import type { z } from "zod";
-import { AppError, fieldErrorsFromIssues } from "@/lib/errors";
+import { AppError, errorCodeOfStatus, fieldErrorsFromIssues } from "@/lib/errors";
 import type { Action } from "@/lib/permissions";
 import { checkPermission, type SessionPerson } from "./session";
 
@@ -49,4 +50,14 @@ export function defineAction<S extends z.ZodType, T>(
       }
     },
   };
+}
+
+/**
+ * The one turn of an action result into a JSON response, for the route handlers that share a
+ * server action's code path: the action's own status (400 with field errors, 403, 404, 409, …),
+ * so a 403 stays a 403, with the error code of lib/errors.ts beside the message.
+ */
+export function actionResponse<T>(result: ActionResult<T>, okStatus = 200): NextResponse {
+  if (result.ok) return NextResponse.json(result.data ?? { ok: true }, { status: okStatus, headers: { "Cache-Control": "no-store" } });
+  return NextResponse.json({ error: result.message, code: errorCodeOfStatus(result.status), fieldErrors: result.fieldErrors }, { status: result.status });
 }

@@ -57,8 +57,13 @@ describe("floor snapshot", () => {
     const after = await getFloorSnapshot(tdb.db, { nowMs: now });
     const l = after.areas[0].lines[0];
     expect(l.points[0].limit).toMatchObject({ limitKv: 8, level: "line" });
-    expect(l.points[1].limit).toMatchObject({ limitKv: 25, level: "point" });
-    expect(l.points[2].limit).toMatchObject({ limitKv: 8, level: "line" }); // a disabled point rule is skipped
+    // the limits in force are the engine's (lib/rules/limits-in-force.ts), per severity: the
+    // point's medium 25 kV replaces the line's medium 8 kV, and the plant's high 20 kV still
+    // applies there, so the line drawn is 20 kV — the first one a rising value crosses
+    expect(l.points[1].limit).toMatchObject({ limitKv: 20, level: "plant" });
+    // a disabled point rule is an exemption from the line's medium rule (as in the engine): only
+    // the plant's high rule is left there
+    expect(l.points[2].limit).toMatchObject({ limitKv: 20, level: "plant" });
     expect(after.areas[0].lines[1].points[0].limit).toMatchObject({ limitKv: 12, level: "plant" });
     expect(after.areas[1].rhLimit).toMatchObject({ limitPct: 35, level: "area" });
     expect(after.areas[0].rhLimit).toMatchObject({ limitPct: 30, level: "plant" });

@@ -1,19 +1,11 @@
-// Shared by the alert route handlers: turn an action result into a JSON response with the
-// action's own status (400 with field errors, 403, 404, 409), so a 403 stays a 403.
-import { NextResponse } from "next/server";
-import type { ActionResult } from "@/app/_server/action";
+// Shared by the alert route handlers: the alert id of the URL and the JSON body. (Results become
+// responses through actionResponse, app/_server/action.ts.)
 import { readBodyText } from "@/app/_server/body-limit";
 import { badInput } from "@/lib/errors";
-
-export function actionResponse<T>(result: ActionResult<T>, okStatus = 200): NextResponse {
-  if (result.ok) return NextResponse.json(result.data ?? { ok: true }, { status: okStatus });
-  return NextResponse.json({ error: result.message, fieldErrors: result.fieldErrors }, { status: result.status });
-}
+import { requireId } from "@/lib/ids";
 
 export function alertIdOf(params: { id: string }): number {
-  const id = Number(params.id);
-  if (!Number.isInteger(id) || id <= 0) throw badInput("The alert id must be a positive whole number.");
-  return id;
+  return requireId(params.id, "The alert id must be a positive whole number.");
 }
 
 /** A JSON object body, or {} when the body is empty. */

@@ -5,7 +5,7 @@ import { parseOrThrow, queryObject, readJson, route } from "@/app/_server/route"
 import { recordCheckAction } from "@/app/_server/actions/checks";
 import { getDb } from "@/db/client";
 import { listChecks } from "@/db/queries/checks";
-import { actionResponse } from "../equipment/_respond";
+import { actionResponse } from "@/app/_server/action";
 
 export const dynamic = "force-dynamic";
 

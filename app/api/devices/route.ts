@@ -5,7 +5,7 @@ import { readJson, route } from "@/app/_server/route";
 import { createDeviceAction } from "@/app/_server/actions/devices";
 import { getDb } from "@/db/client";
 import { listDevices } from "@/db/queries/equipment";
-import { actionResponse } from "../equipment/_respond";
+import { actionResponse } from "@/app/_server/action";
 
 export const dynamic = "force-dynamic";
 

@@ -1,21 +1,9 @@
-// Turns a server action's result into a JSON response with the right status, so route handlers
-// and forms share one validated, permission-checked code path (used by every equipment, checks,
-// devices, uploads and imports route).
+// Request helpers of the equipment, checks, devices, uploads and imports routes: multipart forms
+// with a size limit, and file download headers. (Action results become responses through
+// actionResponse, app/_server/action.ts; ids are parsed by lib/ids.ts.)
 import "server-only";
 import { NextResponse } from "next/server";
-import type { ActionResult } from "@/app/_server/action";
 import { readFormLimited } from "@/app/_server/body-limit";
-
-export function actionResponse<T>(result: ActionResult<T>, okStatus = 200): NextResponse {
-  if (result.ok) return NextResponse.json(result.data ?? { ok: true }, { status: okStatus, headers: { "Cache-Control": "no-store" } });
-  const code = { 400: "bad_input", 401: "unauthenticated", 403: "forbidden", 404: "not_found", 409: "conflict", 413: "too_large", 422: "unprocessable" }[result.status] ?? "internal";
-  return NextResponse.json({ error: result.message, code, fieldErrors: result.fieldErrors }, { status: result.status });
-}
-
-/** Positive integer id from a route parameter, or null. */
-export function routeId(raw: string | undefined): number | null {
-  return raw !== undefined && /^[1-9]\d{0,9}$/.test(raw) ? Number(raw) : null;
-}
 
 /**
  * Multipart form data → plain object (files stay File objects) for an action's zod schema. The

@@ -5,7 +5,7 @@ import { readJson, route } from "@/app/_server/route";
 import { createNeutralizerAction } from "@/app/_server/actions/equipment";
 import { getDb } from "@/db/client";
 import { listNeutralizers } from "@/db/queries/equipment";
-import { actionResponse } from "./_respond";
+import { actionResponse } from "@/app/_server/action";
 
 export const dynamic = "force-dynamic";
 

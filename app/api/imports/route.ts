@@ -6,7 +6,8 @@ import { route } from "@/app/_server/route";
 import { MAX_CSV_BYTES, runImportAction } from "@/app/_server/actions/imports";
 import { getDb } from "@/db/client";
 import { listRecentImports } from "@/db/queries/imports";
-import { actionResponse, readForm, tooLargeResponse } from "../equipment/_respond";
+import { actionResponse } from "@/app/_server/action";
+import { readForm, tooLargeResponse } from "../equipment/_respond";
 
 export const dynamic = "force-dynamic";
 

@@ -9,7 +9,7 @@ import { addShiftAction } from "@/app/_server/actions/oncall";
 import { getDb } from "@/db/client";
 import { listOnCallAt, listShifts } from "@/db/queries/oncall";
 import { can, type Role } from "@/lib/permissions";
-import { actionResponse } from "../alerts/_respond";
+import { actionResponse } from "@/app/_server/action";
 
 export const dynamic = "force-dynamic";
 

@@ -7,7 +7,7 @@ import { route, readJson } from "@/app/_server/route";
 import { saveRuleAction } from "@/app/_server/actions/rules";
 import { getDb } from "@/db/client";
 import { listRuleRows } from "@/db/queries/rule-rows";
-import { actionResponse } from "../alerts/_respond";
+import { actionResponse } from "@/app/_server/action";
 
 export const dynamic = "force-dynamic";
 

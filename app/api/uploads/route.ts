@@ -4,7 +4,8 @@
 import { NextResponse } from "next/server";
 import { route } from "@/app/_server/route";
 import { MAX_UPLOAD_BYTES, uploadFileAction } from "@/app/_server/actions/equipment";
-import { actionResponse, readForm, tooLargeResponse } from "../equipment/_respond";
+import { actionResponse } from "@/app/_server/action";
+import { readForm, tooLargeResponse } from "../equipment/_respond";
 
 export const dynamic = "force-dynamic";
 

@@ -5,7 +5,7 @@ import { readJson, route } from "@/app/_server/route";
 import { saveCheckLimitsAction } from "@/app/_server/actions/checks";
 import { getDb } from "@/db/client";
 import { CHECK_LIMIT_SOURCES, getCheckLimits } from "@/db/queries/checks";
-import { actionResponse } from "../../equipment/_respond";
+import { actionResponse } from "@/app/_server/action";
 
 export const dynamic = "force-dynamic";
 

@@ -7,12 +7,13 @@ import { getDb } from "@/db/client";
 import { getDevice, listEquipmentEvents, listUploads } from "@/db/queries/equipment";
 import { notFound } from "@/lib/errors";
 import { toUploadView } from "@/lib/upload-view";
-import { actionResponse, routeId } from "../../equipment/_respond";
+import { actionResponse } from "@/app/_server/action";
+import { parseId } from "@/lib/ids";
 
 export const dynamic = "force-dynamic";
 
 export const GET = route<{ id: string }>("view", async ({ params, session }) => {
-  const id = routeId(params.id);
+  const id = parseId(params.id);
   const device = id !== null ? await getDevice(getDb(), id) : null;
   if (!device || id === null) throw notFound("No such device.");
   const [events, uploads] = await Promise.all([listEquipmentEvents(getDb(), "device", id), listUploads(getDb(), "device", [id])]);

@@ -7,12 +7,13 @@ import { getDb } from "@/db/client";
 import { getNeutralizerDetail } from "@/db/queries/equipment";
 import { notFound } from "@/lib/errors";
 import { toUploadView } from "@/lib/upload-view";
-import { actionResponse, routeId } from "../_respond";
+import { actionResponse } from "@/app/_server/action";
+import { parseId } from "@/lib/ids";
 
 export const dynamic = "force-dynamic";
 
 export const GET = route<{ id: string }>("view", async ({ params, session }) => {
-  const id = routeId(params.id);
+  const id = parseId(params.id);
   const detail = id !== null ? await getNeutralizerDetail(getDb(), id) : null;
   if (!detail) throw notFound("No such neutralizer.");
   return NextResponse.json({ ...detail, uploads: detail.uploads.map((u) => toUploadView(u, session.role)) });

@@ -2,7 +2,8 @@
 // optionally mapping / units (JSON) and dateOrder. Answers the detected layout and first rows.
 import { route } from "@/app/_server/route";
 import { MAX_CSV_BYTES, previewImportAction } from "@/app/_server/actions/imports";
-import { actionResponse, readForm, tooLargeResponse } from "../../equipment/_respond";
+import { actionResponse } from "@/app/_server/action";
+import { readForm, tooLargeResponse } from "../../equipment/_respond";
 
 export const dynamic = "force-dynamic";
 

@@ -1,7 +1,7 @@
 // DELETE /api/oncall/<id> — remove a shift from the roster (admins).
 import { route } from "@/app/_server/route";
 import { removeShiftAction } from "@/app/_server/actions/oncall";
-import { actionResponse } from "../../alerts/_respond";
+import { actionResponse } from "@/app/_server/action";
 
 export const dynamic = "force-dynamic";
 

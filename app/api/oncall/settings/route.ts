@@ -5,7 +5,7 @@ import { readJson, route } from "@/app/_server/route";
 import { saveAlertingSettingsAction } from "@/app/_server/actions/oncall";
 import { getDb } from "@/db/client";
 import { getAlertingSettings } from "@/db/queries/oncall";
-import { actionResponse } from "../../alerts/_respond";
+import { actionResponse } from "@/app/_server/action";
 
 export const dynamic = "force-dynamic";
 

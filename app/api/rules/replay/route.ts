@@ -3,7 +3,7 @@
 // and the proposal would have raised (counts, when, how long) and what was actually stored.
 import { route, readJson } from "@/app/_server/route";
 import { replayRuleAction } from "@/app/_server/actions/rules";
-import { actionResponse } from "../../alerts/_respond";
+import { actionResponse } from "@/app/_server/action";
 
 export const dynamic = "force-dynamic";
 export const maxDuration = 60;

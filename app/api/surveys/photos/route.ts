@@ -2,7 +2,8 @@
 // (JPEG, PNG, WebP by their bytes), at most 12 MB; stored once per spot. Shift leads and up.
 import { route } from "@/app/_server/route";
 import { addSurveyPhotoAction, MAX_PHOTO_BYTES } from "@/app/_server/actions/surveys";
-import { actionResponse, readForm, tooLargeResponse } from "../../equipment/_respond";
+import { actionResponse } from "@/app/_server/action";
+import { readForm, tooLargeResponse } from "../../equipment/_respond";
 
 export const dynamic = "force-dynamic";
 

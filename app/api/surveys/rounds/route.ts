@@ -4,7 +4,7 @@
 import { NextResponse } from "next/server";
 import { readJson, route } from "@/app/_server/route";
 import { sendRoundAction } from "@/app/_server/actions/surveys";
-import { actionResponse } from "../../equipment/_respond";
+import { actionResponse } from "@/app/_server/action";
 
 export const dynamic = "force-dynamic";
 const MAX_BODY_BYTES = 256 * 1024;

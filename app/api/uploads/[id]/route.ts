@@ -9,7 +9,8 @@ import { getDb } from "@/db/client";
 import { getUpload } from "@/db/queries/equipment";
 import { forbidden, notFound } from "@/lib/errors";
 import { ROLE_LABELS, roleRank } from "@/lib/permissions";
-import { contentDisposition, routeId } from "../../equipment/_respond";
+import { parseId } from "@/lib/ids";
+import { contentDisposition } from "../../equipment/_respond";
 
 export const dynamic = "force-dynamic";
 
@@ -17,7 +18,7 @@ const query = z.object({ variant: z.enum(["original", "thumb"]).default("origina
 
 export const GET = route<{ id: string }>("view", async ({ session, params, request }) => {
   const { variant } = parseOrThrow(query, queryObject(request), "query");
-  const id = routeId(params.id);
+  const id = parseId(params.id);
   const upload = id !== null ? await getUpload(getDb(), id) : null;
   if (!upload) throw notFound("No such file.");
   if (roleRank(session.role) < roleRank(upload.minRole)) {

@@ -2,7 +2,8 @@
 // the action checks again). 200 with {alertId, state, severity, …}; 400/403/404/409 otherwise.
 import { route } from "@/app/_server/route";
 import { unshelveAlertAction } from "@/app/_server/actions/alerts";
-import { actionResponse, alertIdOf, readBodyObject } from "../../_respond";
+import { actionResponse } from "@/app/_server/action";
+import { alertIdOf, readBodyObject } from "../../_respond";
 
 export const dynamic = "force-dynamic";
 

@@ -1,7 +1,7 @@
 // POST /api/equipment/:id/cleaned — record a cleaning (resets the cleaning clock).
 import { readJson, route } from "@/app/_server/route";
 import { markCleanedAction } from "@/app/_server/actions/equipment";
-import { actionResponse } from "../../_respond";
+import { actionResponse } from "@/app/_server/action";
 
 export const POST = route<{ id: string }>("check.record", async ({ session, params, request }) => {
   const body = request.headers.get("content-length") === "0" ? {} : await readJson(request).catch(() => ({}));

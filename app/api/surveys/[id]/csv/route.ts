@@ -5,12 +5,13 @@ import { getDb } from "@/db/client";
 import { getSurveyReport } from "@/db/queries/surveys-report";
 import { notFound } from "@/lib/errors";
 import { surveyReportCsv } from "@/lib/surveys/report-csv";
-import { contentDisposition, routeId } from "../../../equipment/_respond";
+import { parseId } from "@/lib/ids";
+import { contentDisposition } from "../../../equipment/_respond";
 
 export const dynamic = "force-dynamic";
 
 export const GET = route<{ id: string }>("view", async ({ params }) => {
-  const id = routeId(params.id);
+  const id = parseId(params.id);
   const rep = id !== null ? await getSurveyReport(getDb(), id) : null;
   if (!rep) throw notFound("No such survey.");
   return new NextResponse(surveyReportCsv(rep), {

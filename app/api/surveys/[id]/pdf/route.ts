@@ -7,13 +7,14 @@ import { getPlantSettings } from "@/db/queries/plant-settings";
 import { getSurveyPhoto, getSurveyReport } from "@/db/queries/surveys-report";
 import { notFound } from "@/lib/errors";
 import { buildSurveyPdf } from "../../_pdf";
-import { contentDisposition, routeId } from "../../../equipment/_respond";
+import { parseId } from "@/lib/ids";
+import { contentDisposition } from "../../../equipment/_respond";
 
 export const dynamic = "force-dynamic";
 export const runtime = "nodejs";
 
 export const GET = route<{ id: string }>("view", async ({ params }) => {
-  const id = routeId(params.id);
+  const id = parseId(params.id);
   const db = getDb();
   const rep = id !== null ? await getSurveyReport(db, id) : null;
   if (!rep) throw notFound("No such survey.");

@@ -6,14 +6,14 @@ import { getUploadStore } from "@/app/_server/storage";
 import { getDb } from "@/db/client";
 import { getSurveyPhoto } from "@/db/queries/surveys-report";
 import { notFound } from "@/lib/errors";
-import { routeId } from "../../../equipment/_respond";
+import { parseId } from "@/lib/ids";
 
 export const dynamic = "force-dynamic";
 const query = z.object({ variant: z.enum(["original", "thumb"]).default("original") });
 
 export const GET = route<{ id: string }>("view", async ({ params, request }) => {
   const { variant } = parseOrThrow(query, queryObject(request), "query");
-  const id = routeId(params.id);
+  const id = parseId(params.id);
   const photo = id !== null ? await getSurveyPhoto(getDb(), id) : null;
   if (!photo) throw notFound("No such photo.");
   const key = variant === "thumb" && photo.thumbnailKey ? photo.thumbnailKey : photo.storageKey;
