@@ -12,6 +12,7 @@
 // fixed ones. Reading the environment is this module's only impure act; it does no other I/O.
 import { z } from "zod";
 import { MAX_PAYLOAD_BYTES } from "./contract/readings-payload";
+import { SPB_ID_PATTERN } from "./sparkplug/topics";
 
 /** Broker user names of the two service accounts; no device code may start with the prefix. */
 export const SERVICE_ACCOUNT_PREFIX = "svc-";
@@ -99,6 +100,10 @@ const schema = z.object({
   INGEST_MAINTENANCE_INTERVAL_MS: int(3_600_000, 1000),
   INGEST_RETRY_MAX_MS: int(5000, 50),
   ALERTS_RUNNER: z.enum(["on", "off"]).default("on"),
+  /** the Sparkplug B host application in the worker (ingest/sparkplug/start.ts) */
+  SPARKPLUG_HOST: z.enum(["on", "off"]).default("on"),
+  /** its host id in spBv1.0/STATE/<host id> */
+  SPARKPLUG_HOST_ID: z.string().regex(SPB_ID_PATTERN, "no / + # or spaces, at most 64").default("stillfield"),
   ALERTS_RULES_POLL_MS: int(3000, 1),
   ALERTS_ESCALATE_EVERY_MS: int(5000, 1),
   ALERTS_SNAPSHOT_EVERY_MS: int(30_000, 1),

@@ -5,12 +5,13 @@
 // or `next dev` there is no socket address: every client then shares one throttle address.
 import "server-only";
 import { clientAddress, parseTrustedProxies } from "@/lib/http-security";
+import { getSettings } from "@/lib/settings";
 
 export type HeaderBag = Record<string, string | string[] | undefined> | Headers | undefined;
 
 let warned = false;
 
-export function addressOf(headers: HeaderBag, env: Record<string, string | undefined> = process.env): string {
+export function addressOf(headers: HeaderBag, env: { STILLFIELD_PEER_HEADER?: string; TRUSTED_PROXIES?: string } = getSettings()): string {
   const get = (name: string): string | undefined => {
     if (!headers) return undefined;
     if (headers instanceof Headers) return headers.get(name) ?? undefined;

@@ -9,6 +9,7 @@ import { allowedHostsOf, checkSameOrigin, parseTrustedProxies } from "@/lib/http
 import type { Action } from "@/lib/permissions";
 import { BODY_LIMITS, readBodyText } from "./body-limit";
 import { checkPermission, getSession, type SessionPerson } from "./session";
+import { getSettings } from "@/lib/settings";
 
 export type RouteContext<P> = { session: SessionPerson; params: P; request: Request };
 
@@ -50,7 +51,7 @@ export async function readJson(request: Request, maxBytes = BODY_LIMITS.json): P
   }
 }
 
-const trustedProxies = parseTrustedProxies(process.env.TRUSTED_PROXIES);
+const trustedProxies = parseTrustedProxies(getSettings().TRUSTED_PROXIES);
 
 /** 403 for a state-changing request a browser sent from another origin (lib/http-security.ts). */
 export function assertSameOrigin(request: Request): void {

@@ -1,19 +1,14 @@
 // Starts the Sparkplug host application from the environment:
 //   SPARKPLUG_HOST=off        leaves it out (the worker then takes only the JSON contract)
 //   SPARKPLUG_HOST_ID         the host id in spBv1.0/STATE/<host id> (default "stillfield")
-import { z } from "zod";
 import type { Db } from "../../db/client";
 import type { Env } from "../../db/env";
 import type { DeviceClocks } from "../device-clocks";
 import type { Logger } from "../log";
 import type { ReadingWriter } from "../writer";
-import { SPB_ID_PATTERN } from "../../lib/sparkplug/topics";
+import { getSettings } from "../../lib/settings";
 import { startSparkplugHost } from "./host";
 
-const settingsSchema = z.object({
-  SPARKPLUG_HOST: z.enum(["on", "off"]).default("on"),
-  SPARKPLUG_HOST_ID: z.string().regex(SPB_ID_PATTERN).default("stillfield"),
-});
 
 export type SparkplugStartDeps = {
   env: Env;
@@ -32,16 +27,16 @@ export type SparkplugStartDeps = {
 };
 
 export async function startSparkplugFromEnv(deps: SparkplugStartDeps) {
-  const parsed = settingsSchema.safeParse(process.env);
-  if (!parsed.success) throw new Error(`Invalid Sparkplug settings: ${parsed.error.issues.map((i) => `${i.path.join(".")}: ${i.message}`).join("; ")}`);
-  if (parsed.data.SPARKPLUG_HOST === "off") {
+  // checked with every other setting in lib/settings.ts
+  const { SPARKPLUG_HOST, SPARKPLUG_HOST_ID } = getSettings();
+  if (SPARKPLUG_HOST === "off") {
     deps.log.info("sparkplug host switched off (SPARKPLUG_HOST=off)");
     return null;
   }
   return startSparkplugHost({
     ...deps,
     clientId: `${deps.ingestClientId}-spb`.slice(0, 64),
-    hostId: parsed.data.SPARKPLUG_HOST_ID,
+    hostId: SPARKPLUG_HOST_ID,
     clocks: deps.clocks.tracker,
     clockOf: deps.clocks.clockOf,
   });
