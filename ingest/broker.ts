@@ -139,7 +139,10 @@ export async function startBroker() {
   async function reloadEdgeNodes(): Promise<void> {
     const signedIn = [...principals].filter(([, p]) => p.kind === "edge_node");
     const gone = new Set(await edgeNodes.reload(signedIn.map(([, p]) => p as Session & { code: string })));
-    for (const [client, p] of signedIn) if (p.kind === "edge_node" && gone.has(p.code)) (stats.kicked++, client.close());
+    for (const [client, p] of signedIn) if (p.kind === "edge_node" && gone.has(p.code)) {
+      stats.kicked++;
+      client.close();
+    }
   }
 
   const broker = await Aedes.createBroker({

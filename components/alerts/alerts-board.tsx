@@ -315,6 +315,7 @@ function AlertDetailPanel({ id, a, timeZone, canRespond, actions }: { id: number
   const queryClient = useQueryClient();
   const detail = useAlertDetail(id);
   const refresh = () => void queryClient.invalidateQueries({ queryKey: ["alerts"] });
+  // eslint-disable-next-line react-hooks/purity -- whether a shelve has run out is judged when the panel renders; the list refetches every minute
   const shelved = a.shelvedUntilTs !== null && a.shelvedUntilTs > Date.now();
   const closed = a.state === "closed";
   return (

@@ -40,12 +40,14 @@ export function useAlerts(filters: AlertFilterState, initial: AlertsResponse | u
     onReset: () => void queryClient.invalidateQueries({ queryKey: ["alerts"] }),
   });
   const live: boolean = stream.status === "live";
+  // eslint-disable-next-line react-hooks/purity -- the query key changes once a minute on purpose, so time-relative filters move with the clock
   const minute = Math.floor(Date.now() / 60_000);
   const qs = alertsQueryString(filters, minute * 60_000);
   const firstKey = useRef(qs);
   const query = useQuery({
     queryKey: ["alerts", "list", qs],
     queryFn: () => fetchJson<AlertsResponse>(`/api/alerts?${qs}`),
+    // eslint-disable-next-line react-hooks/refs -- the server-rendered page seeds only the query it was rendered for; the ref is set once and never changes
     initialData: qs === firstKey.current ? initial : undefined,
     // a new filter (or the minute rolling over) keeps the old rows on screen until the new ones arrive
     placeholderData: keepPreviousData,

@@ -36,6 +36,7 @@ export function useRound(plan: { planId: number; version: number }, resurveyOfAc
   }, [refresh]);
 
   useEffect(() => {
+    // eslint-disable-next-line react-hooks/set-state-in-effect -- navigator exists only in the browser; reading it after mount keeps the first render equal to the server HTML
     setOnline(navigator.onLine);
     refresh()
       .catch((e: unknown) => setStorageError(e instanceof Error ? e.message : "This browser cannot keep readings offline."))

@@ -19,7 +19,7 @@ import { closeDb, getDb } from "@/db/client";
 import { people } from "@/db/schema";
 import { createDeviceAction } from "@/app/_server/actions/devices";
 import { DEMO_PEOPLE } from "@/lib/demo-plant";
-import { connectClient, connectDevice, connectService, endClient, freePort, publishAsync, ROOT, startIngestStack, waitFor, type IngestStack } from "./ingest-support/processes";
+import { connectClient, connectDevice, connectService, endClient, freePort, publishAsync, ROOT, startIngestStack, type IngestStack } from "./ingest-support/processes";
 
 let tdb: TestDatabase;
 let stack: IngestStack;
