@@ -2,9 +2,8 @@
 // the list; a viewer sees the list but cannot acknowledge (no buttons, and 403 from the API as
 // well); the alert-load and on-call pages render. Alerts are written straight into the stack's
 // test database (as the alerts runner would), so the test does not wait for real excursions.
-import { expect, test } from "@playwright/test";
 import type mysql from "mysql2/promise";
-import { apiAs, signIn, snap } from "./helpers";
+import { apiAs, signIn, snap, expect, test } from "./helpers";
 import { testPool } from "./line-fixtures";
 
 test.describe.configure({ mode: "serial" });

@@ -1,5 +1,4 @@
-import { expect, test } from "@playwright/test";
-import { apiAs, signIn, snap, type DemoRole } from "./helpers";
+import { apiAs, signIn, snap, type DemoRole, expect, test } from "./helpers";
 
 const roles: DemoRole[] = ["viewer", "shift_lead", "engineer", "admin"];
 

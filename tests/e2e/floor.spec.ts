@@ -1,9 +1,9 @@
 // The Floor: a viewer sees every demo line with values that change while the plant
 // simulator runs, each state as a word and a shape, and the halls' climate. Screenshots at
 // 1366×768 and 1920×1080 go to the test output.
-import { expect, test, type Page } from "@playwright/test";
+import type { Page } from "@playwright/test";
 import { DEMO_AREAS, DEMO_LINES } from "../../lib/demo-plant";
-import { signIn, snap } from "./helpers";
+import { signIn, snap, expect, test } from "./helpers";
 import { listFixtureDevices, startPlantSimulator, testPool } from "./line-fixtures";
 
 let sim: Awaited<ReturnType<typeof startPlantSimulator>> | null = null;

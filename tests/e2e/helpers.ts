@@ -1,5 +1,31 @@
-// Shared browser-test helpers: sign in through the real sign-in page as a demo person.
-import { expect, type APIRequestContext, type Page, request as pwRequest } from "@playwright/test";
+// Shared browser-test helpers: sign in through the real sign-in page as a demo person, and the
+// `test` every spec uses: it records Content Security Policy violations in every page of the
+// test (the browser's report and its console message) and fails the test on any.
+import { test as base, expect, type APIRequestContext, type Page, request as pwRequest } from "@playwright/test";
+
+export { expect };
+
+export const test = base.extend<{ cspViolations: string[] }>({
+  cspViolations: [
+    async ({ context }, use, testInfo) => {
+      const violations: string[] = [];
+      await context.exposeBinding("__stillfieldCspViolation", (_source, text: string) => void violations.push(text));
+      await context.addInitScript(() => {
+        document.addEventListener("securitypolicyviolation", (e) => {
+          const w = window as unknown as { __stillfieldCspViolation?: (t: string) => void };
+          w.__stillfieldCspViolation?.(`${e.violatedDirective} blocked ${e.blockedURI || "inline"} at ${e.sourceFile || location.pathname}:${e.lineNumber}`);
+        });
+      });
+      context.on("console", (msg) => {
+        if (msg.type() === "error" && /Content Security Policy/i.test(msg.text())) violations.push(msg.text().slice(0, 300));
+      });
+      await use(violations);
+      if (violations.length) await testInfo.attach("csp-violations", { body: violations.join("\n"), contentType: "text/plain" });
+      expect(violations, "Content Security Policy violations").toEqual([]);
+    },
+    { auto: true },
+  ],
+});
 import { DEMO_PEOPLE } from "../../lib/demo-plant";
 
 export type DemoRole = "viewer" | "shift_lead" | "engineer" | "admin";

@@ -2,8 +2,7 @@
 // replays it over two days of recorded data (beside the current rules), saves it, edits it
 // again, and the audit log shows both changes; a viewer sees the limits but no editing, and the
 // API refuses a viewer's save with 403.
-import { expect, test } from "@playwright/test";
-import { apiAs, signIn, snap } from "./helpers";
+import { apiAs, signIn, snap, expect, test } from "./helpers";
 import { testPool } from "./line-fixtures";
 
 test.describe.configure({ mode: "serial" });

@@ -1,10 +1,10 @@
 // A line's page: live charts, 7 days from the rollups with min/max bands, notes
 // (a shift lead adds one and sees it after a reload; a viewer is refused, by the API too),
 // and the end-to-end time from a device's timestamped reading to the open page.
-import { expect, test, type Page } from "@playwright/test";
+import type { Page } from "@playwright/test";
 import { quantile } from "simple-statistics";
 import { readDeviceSecrets } from "../../db/seed";
-import { apiAs, signIn, snap } from "./helpers";
+import { apiAs, signIn, snap, expect, test } from "./helpers";
 import { FixturePublisher, listFixtureDevices, startPlantSimulator, testPool, type FixtureDevice } from "./line-fixtures";
 
 /** this field meter is driven by the test itself (for the latency probe), the rest by the simulator */

@@ -1,11 +1,11 @@
 // Reports in the browser on seeded report data: an engineer reads and prints a shift handover
 // (the printed page has no navigation), a shift lead e-mails it, everyone downloads CSV; the
 // weekly review and the equipment report render; viewers get 403 for the e-mail.
-import { expect, test, type Page } from "@playwright/test";
+import type { Page } from "@playwright/test";
 import { closeDb, getDb } from "../../db/client";
 import { addDaysToDate } from "../../lib/plant-time";
 import { hasReportFixture, seedReportFixture } from "../integration/reports-fixture";
-import { apiAs, demoPerson, signIn, snap } from "./helpers";
+import { apiAs, demoPerson, signIn, snap, expect, test } from "./helpers";
 import { eq } from "drizzle-orm";
 import { lines, people } from "../../db/schema";
 

@@ -1,7 +1,6 @@
 // The wallboard: a hall's lines, full screen and dark, live, for a viewer-level kiosk.
-import { expect, test } from "@playwright/test";
 import { DEMO_AREAS, DEMO_LINES } from "../../lib/demo-plant";
-import { signIn, snap } from "./helpers";
+import { signIn, snap, expect, test } from "./helpers";
 import { listFixtureDevices, startPlantSimulator, testPool } from "./line-fixtures";
 
 let sim: Awaited<ReturnType<typeof startPlantSimulator>> | null = null;
