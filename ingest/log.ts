@@ -6,6 +6,15 @@ type Level = "debug" | "info" | "warn" | "error";
 const order: Record<Level, number> = { debug: 10, info: 20, warn: 30, error: 40 };
 let threshold: number | undefined;
 
+/** The settings' LOG_LEVEL; "info" while the settings themselves are invalid (so that can be logged). */
+function levelFromSettings(): number {
+  try {
+    return order[getSettings().LOG_LEVEL];
+  } catch {
+    return order.info;
+  }
+}
+
 export type Logger = {
   debug(msg: string, extra?: Record<string, unknown>): void;
   info(msg: string, extra?: Record<string, unknown>): void;
@@ -20,7 +29,7 @@ export function describeError(err: unknown): string {
 
 export function createLogger(component: string): Logger {
   const write = (level: Level, msg: string, extra?: Record<string, unknown>) => {
-    threshold ??= order[getSettings().LOG_LEVEL];
+    threshold ??= levelFromSettings();
     if (order[level] < threshold) return;
     const tail = extra && Object.keys(extra).length > 0 ? ` ${JSON.stringify(extra)}` : "";
     const line = `${new Date().toISOString()} ${level.toUpperCase().padEnd(5)} ${component}: ${msg}${tail}\n`;
