@@ -14,7 +14,7 @@
 // - Every ESCALATE_EVERY_MS: on-call e-mails and escalation (alerts-escalation.ts), and the end
 //   of shelvings whose time is up.
 // One engine per plant: run one worker with this sink (a second one would raise every alert
-// twice); sharing the load between workers is PRODUCT.md §11 work.
+// twice); sharing the load between workers is not built yet.
 import { eq } from "drizzle-orm";
 import { ZodError } from "zod";
 import { settings } from "../db/schema";

@@ -3,7 +3,7 @@
 // one field meter (604,800 rows) and the matching 1-minute and 1-hour rollups for 30 days, then
 // times, in one run, the same 7-day request (1000 points) answered from the rollups and from the
 // raw readings, and a 30-day request. Medians of several runs after a warm-up.
-// Targets (issue 4): 7 d from rollups < 50 ms and ≥ 10× faster than from raw; 30 d < 100 ms.
+// Targets: 7 d from rollups < 50 ms and ≥ 10× faster than from raw; 30 d < 100 ms.
 // The last line reads: charts: 7d <ms> ms, raw <ms> ms, ratio <R>, 30d <ms> ms
 import { spawnSync } from "node:child_process";
 import path from "node:path";

@@ -1,4 +1,4 @@
-// The cautions on every survey screen and report (lib/surveys/cautions.ts; PRODUCT.md §8).
+// The cautions on every survey screen and report (lib/surveys/cautions.ts).
 import { SURVEY_CAUTIONS } from "@/lib/surveys/cautions";
 
 export function SurveyCautions({ solventName, compact = false }: { solventName?: string | null; compact?: boolean }) {

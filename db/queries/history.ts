@@ -5,7 +5,7 @@
 // the top of the band even when the mean hides it.
 //
 // Bucketing uses integer arithmetic on epoch-ms BIGINTs, `(ts - t0) DIV bucketMs`, which was
-// measured much faster than FLOOR(/) or DATETIME columns (SETUP-NOTES). Bucket edges are aligned
+// measured much faster than FLOOR(/) or DATETIME columns on this stack. Bucket edges are aligned
 // to multiples of the bucket size, so refetching a sliding range keeps the same edges.
 import { and, eq, sql } from "drizzle-orm";
 import type { Db } from "../client";

@@ -48,7 +48,7 @@ export const CONVERSION_LABELS: Record<Conversion, string> = {
   fraction_to_pct: "Fraction → % (× 100)",
 };
 
-/** The unit each channel is stored in (its name says so: PRODUCT.md §4). */
+/** The unit each channel is stored in (its name says so: lib/contract/README.md). */
 export const CHANNEL_UNITS: Record<Channel, string> = {
   charge_kv: "kV",
   temp_c: "°C",

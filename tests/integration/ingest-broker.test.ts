@@ -1,7 +1,7 @@
 // The broker's sign-in and topic rules against the real broker process and the real devices
-// table (issue 3, "Done when": wrong credentials cannot connect; a device cannot publish to
+// table: wrong credentials cannot connect; a device cannot publish to
 // another device's topic or read internal topics; oversized messages are refused; a disabled
-// device is refused within the refresh interval). Every refusal is counted.
+// device is refused within the refresh interval. Every refusal is counted.
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { MqttClient } from "mqtt";
 import { createTestDatabase, type TestDatabase } from "../helpers/test-db";

@@ -1,4 +1,4 @@
-// The ingest worker against the real broker and MariaDB (issue 3, "Done when"): each kind of
+// The ingest worker against the real broker and MariaDB: each kind of
 // bad input is rejected with its reason counted and kept for diagnosis while good messages sent
 // right after are stored; the same batch sent twice yields one row per (device, channel, ts)
 // and the rollups equal an aggregate computed from the raw rows; live snapshots and device

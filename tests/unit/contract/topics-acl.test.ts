@@ -1,4 +1,4 @@
-// Topic names and the broker's access rules (PRODUCT.md §4: a device publishes only under its
+// Topic names and the broker's access rules (lib/contract/README.md: a device publishes only under its
 // own prefix and subscribes to nothing but its command topic; internal topics are the service
 // account's).
 import { describe, expect, it } from "vitest";
