@@ -1,12 +1,15 @@
 #!/usr/bin/env bash
 # Installs the Debian packages Stillfield needs when they are missing:
-#   mariadb-server/mariadb-client (always), chromium (when called with --browser).
+#   mariadb-server/mariadb-client and openssl (always), chromium (when called with --browser).
 # Safe to run again: it installs nothing that is already there.
 set -euo pipefail
 
 need=()
 if ! command -v mariadbd >/dev/null 2>&1 && [ ! -x /usr/sbin/mariadbd ]; then
   need+=(mariadb-server mariadb-client)
+fi
+if ! command -v openssl >/dev/null 2>&1; then
+  need+=(openssl)
 fi
 if [ "${1:-}" = "--browser" ] && [ ! -x /usr/bin/chromium ]; then
   need+=(chromium)

@@ -8,7 +8,7 @@
 # Hardening (README "Security"):
 # - run by root, the server drops to the system user `stillfield` (made here when missing);
 #   otherwise it runs as the user who started it;
-# - root signs in by the socket only (its OS user, or the random password in
+# - root signs in by the socket only (the OS user who made the data folder, or the random password in
 #   $DATA_DIR/secrets/db-root-password); no root account exists for TCP;
 # - the app's account DB_USER has a random per-install password ($DATA_DIR/secrets/db-password,
 #   mode 600) and rights on the `stillfield%` databases only (no FILE right);
@@ -161,7 +161,7 @@ CNF
         echo "Initialising a private MariaDB in $MDB_DIR…"
         # root gets socket sign-in only: its OS user (unix_socket) or the per-install password
         "$INSTALL_DB" --no-defaults --user="$run_as" --datadir="$MDB_DIR" --skip-test-db \
-          --auth-root-authentication-method=socket --auth-root-socket-user=root >"$RUN_DIR/install-db.log" 2>&1 \
+          --auth-root-authentication-method=socket --auth-root-socket-user="$(id -un)" >"$RUN_DIR/install-db.log" 2>&1 \
           || { echo "mariadb-install-db failed; see $RUN_DIR/install-db.log" >&2; exit 1; }
         [ "$run_as" = "root" ] || chown -R "$run_as:" "$MDB_DIR"
       fi
@@ -175,7 +175,7 @@ CNF
         tail -n 20 "$LOG" >&2 || true
         exit 1
       fi
-      if [ "$initialise" = "1" ] && [ "$(id -u)" -eq 0 ]; then
+      if [ "$initialise" = "1" ]; then
         "$CLIENT" --no-defaults --socket="$SOCK" -uroot -e \
           "ALTER USER 'root'@'localhost' IDENTIFIED VIA unix_socket OR mysql_native_password USING PASSWORD('$ROOT_PASSWORD'); FLUSH PRIVILEGES;"
       fi

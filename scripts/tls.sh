@@ -14,8 +14,7 @@ DIR="$DATA_DIR/tls"
 mkdir -p "$DIR"
 chmod 755 "$DIR"
 if ! command -v openssl >/dev/null 2>&1; then
-  echo "openssl is missing (apt-get install openssl); scripts/ensure-system.sh installs it" >&2
-  exit 1
+  bash scripts/ensure-system.sh >&2
 fi
 
 names="IP:127.0.0.1,DNS:localhost,DNS:$(hostname)"
