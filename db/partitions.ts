@@ -2,8 +2,8 @@
 // Splitting p_future (always empty once days ahead exist) is cheap; dropping a partition is
 // instant compared with deleting millions of rows.
 import type mysql from "mysql2/promise";
+import { DAY_MS } from "../lib/vocabulary";
 
-const DAY_MS = 86_400_000;
 
 function partitionName(dayStartMs: number): string {
   const d = new Date(dayStartMs);

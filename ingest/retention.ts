@@ -6,9 +6,9 @@ import type mysql from "mysql2/promise";
 import type { Db } from "../db/client";
 import { trimRejections } from "../db/queries/ingest-diagnostics";
 import { maintainPartitions, type PartitionReport } from "../db/partitions";
+import { DAY_MS } from "../lib/vocabulary";
 
 export const PARTITION_DAYS_AHEAD = 3;
-const DAY_MS = 86_400_000;
 
 export async function runRetention(
   pool: mysql.Pool,

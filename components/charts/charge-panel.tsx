@@ -12,13 +12,12 @@ import { chargeInUnit, formatCharge, formatChargeLimit } from "@/lib/units";
 import { pickTicks, TimeChart, type HLine } from "./time-chart";
 import { gapThresholdMs, hasSpread, symmetricRange, toColumns, type Bucket } from "./series-data";
 import { EmptyOverlay, emptyText, readoutText, type PanelCommon } from "./panel-common";
+import { NEUTRALIZER_STATE_CODE, NEUTRALIZER_STATE_WORDS, isNeutralizerState, type NeutralizerState, type PointState } from "@/lib/vocabulary";
 
 /** A neutralizer's state as the panel header shows it (state colour and word). */
-function neutralizerStateMark(state: string): { state: "normal" | "near" | "over" | "silent"; word: string } {
-  if (state === "needs_cleaning") return { state: "near", word: "Needs cleaning" };
-  if (state === "faulty") return { state: "over", word: "Faulty" };
-  if (state === "removed") return { state: "silent", word: "Removed" };
-  return { state: "normal", word: "In service" };
+function neutralizerStateMark(state: string): { state: PointState; word: string } {
+  const s: NeutralizerState = isNeutralizerState(state) ? state : "in_service";
+  return { state: NEUTRALIZER_STATE_CODE[s], word: NEUTRALIZER_STATE_WORDS[s] };
 }
 
 export function ChargePanel({

@@ -2,13 +2,13 @@
 // 30 days, or a custom range, kept in the URL (?range=7d, ?range=custom&from=…&to=…) so a
 // reload or a shared link shows the same window.
 import { shiftAt, type ShiftSpec } from "@/lib/plant-time";
+import { DAY_MS } from "@/lib/vocabulary";
 
 export const RANGE_KINDS = ["live", "shift", "24h", "7d", "30d", "custom"] as const;
 export type RangeKind = (typeof RANGE_KINDS)[number];
 export type RangeState = { kind: RangeKind; from?: number; to?: number };
 
 export const LIVE_WINDOW_MS = 15 * 60_000;
-const DAY = 86_400_000;
 
 export const RANGE_LABELS: Record<RangeKind, string> = {
   live: "Live",
@@ -32,15 +32,15 @@ export function resolveRange(r: RangeState, now: number, spec: ShiftSpec): [numb
     case "shift":
       return [shiftAt(now, spec).startTs, now];
     case "24h":
-      return [now - DAY, now];
+      return [now - DAY_MS, now];
     case "7d":
-      return [now - 7 * DAY, now];
+      return [now - 7 * DAY_MS, now];
     case "30d":
-      return [now - 30 * DAY, now];
+      return [now - 30 * DAY_MS, now];
     case "custom": {
       const to = r.to ?? now;
-      const from = r.from ?? to - DAY;
-      return from < to ? [from, to] : [to - DAY, to];
+      const from = r.from ?? to - DAY_MS;
+      return from < to ? [from, to] : [to - DAY_MS, to];
     }
   }
 }

@@ -3,10 +3,10 @@
 import { formatDay } from "@/lib/reports/format";
 import type { ComplianceReport as Report, Due } from "@/lib/reports/compliance";
 import { DUE_SOON_DAYS } from "@/lib/reports/compliance";
+import { NEUTRALIZER_STATE_WORDS, isNeutralizerState } from "@/lib/vocabulary";
 import { Section, StateCell, Table, Td, Th, Tile, Tiles, Tr } from "./report-parts";
 
 const KIND_WORDS: Record<string, string> = { ionizing_bar: "Ionizing bar", ionized_air_blower: "Ionized-air blower", ionizing_nozzle: "Ionizing nozzle", other: "Other" };
-const STATE_WORDS: Record<string, string> = { in_service: "In service", needs_cleaning: "Needs cleaning", faulty: "Faulty", removed: "Removed" };
 
 function dueLabel(d: Due): string {
   if (d.status === "unknown") return "No record";
@@ -66,7 +66,7 @@ export function ComplianceReportView({ report }: { report: Report }) {
                   </span>
                 </Td>
                 <Td className={n.state === "faulty" ? "font-medium text-over print:text-ink" : n.state === "needs_cleaning" ? "text-near print:text-ink" : "text-ink-soft"}>
-                  {STATE_WORDS[n.state] ?? n.state}
+                  {isNeutralizerState(n.state) ? NEUTRALIZER_STATE_WORDS[n.state] : n.state}
                 </Td>
                 <Td right>
                   {n.passedInPeriod}/{n.checksInPeriod}

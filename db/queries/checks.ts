@@ -18,6 +18,7 @@ import {
   type CheckLimits,
   type DecaySlowdown,
 } from "../../lib/physics/neutralizer";
+import { notFound } from "../../lib/errors";
 
 export { NEUTRALIZER_KIND_LABELS, type NeutralizerKind };
 
@@ -112,7 +113,7 @@ export async function recordCheck(db: Db, input: RecordCheckInput, limitsSetting
   const limitsAll = limitsSetting ?? (await getCheckLimits(db));
   const run = async (t: Tx): Promise<RecordedCheck> => {
     const n = (await t.select({ id: neutralizers.id, kind: neutralizers.kind, state: neutralizers.state, tag: neutralizers.tag, lastCleanedTs: neutralizers.lastCleanedTs }).from(neutralizers).where(eq(neutralizers.id, input.neutralizerId)).limit(1))[0];
-    if (!n) throw new Error(`No neutralizer ${input.neutralizerId}`);
+    if (!n) throw notFound(`No neutralizer ${input.neutralizerId}.`);
     const limits = limitsAll.byKind[n.kind];
     const judgement = judgeCheck({ decayPosS: input.decayPosS, decayNegS: input.decayNegS, offsetV: input.offsetV }, limits);
     const values = {

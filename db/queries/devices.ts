@@ -7,6 +7,7 @@ import { DAY_MS } from "../../lib/vocabulary";
 import type { DeviceKind } from "./equipment-labels";
 import { getIngestStatus, listRecentRejections } from "./ingest-diagnostics";
 import { getPlaceOptions, type PlaceOptions } from "./places";
+import { notFound } from "../../lib/errors";
 
 export type DeviceListItem = {
   id: number;
@@ -151,7 +152,7 @@ export async function createDevice(db: Db, input: DeviceWrite & { code: string; 
 export async function updateDevice(db: Db, id: number, input: DeviceWrite, personId: number, nowMs = Date.now()): Promise<{ changed: string[] }> {
   return db.transaction(async (tx) => {
     const before = (await tx.select(deviceColumns).from(devices).where(eq(devices.id, id)).limit(1).for("update"))[0];
-    if (!before) throw new Error(`No device ${id}`);
+    if (!before) throw notFound(`No device ${id}.`);
     const changed = (Object.keys(input) as (keyof DeviceWrite)[]).filter((k) => (before[k] ?? null) !== (input[k] ?? null));
     if (!changed.length) return { changed };
     await tx.update(devices).set(input).where(eq(devices.id, id));

@@ -12,10 +12,9 @@ import type { Db } from "../client";
 import { devices, importedFiles, neutralizers, people, readings, rollup1h, rollup1m } from "../schema";
 import type { CheckLogRow, HumidityLogRow, RejectedRow } from "../../lib/csv-import";
 import { getCheckLimits, recordCheck } from "./checks";
+import { AppError } from "../../lib/errors";
+import { DAY_MS, HOUR_MS, MINUTE_MS } from "../../lib/vocabulary";
 
-const DAY_MS = 86_400_000;
-const MINUTE_MS = 60_000;
-const HOUR_MS = 3_600_000;
 const CHUNK_ROWS = 1000;
 
 export function sha256Hex(data: string | Uint8Array): string {
@@ -215,7 +214,7 @@ export async function importHumidityLog(
 ): Promise<HumidityImportResult> {
   const nowMs = opts.nowMs ?? Date.now();
   const logger = await findHallLogger(db, target.areaId);
-  if (!logger) throw new Error("This hall has no temperature/humidity logger device.");
+  if (!logger) throw new AppError("unprocessable", "This hall has no temperature/humidity logger device.");
   const previousImports = await findImportsOfFile(db, "humidity_log", file.sha256);
   const rejected: RejectedRow[] = [...parsed.rejected];
   const rawCutoff = nowMs - opts.rawRetentionDays * DAY_MS;
@@ -267,7 +266,7 @@ export async function importHumidityLog(
             .values(newRecent.map((v) => ({ deviceId: logger.id, channel: v.channel, ts: v.ts, value: v.value })));
           if (res.affectedRows !== newRecent.length) {
             // another writer slipped in between the select and the insert: start the chunk again
-            throw new Error("Concurrent readings for this logger; import again.");
+            throw new AppError("conflict", "Concurrent readings for this logger; import again.");
           }
         }
         fresh.push(...newRecent);

@@ -7,6 +7,7 @@ import type { NeutralizerKind } from "../../lib/physics/neutralizer-kinds";
 import { DAY_MS, NEUTRALIZER_STATE_WORDS, type NeutralizerState } from "../../lib/vocabulary";
 import { lastCheckTimes } from "./checks";
 import { dateOnlyMs, type EquipmentEventKind } from "./equipment-labels";
+import { notFound } from "../../lib/errors";
 
 export type NeutralizerListItem = {
   id: number;
@@ -141,7 +142,7 @@ const FIELD_LABELS: Record<keyof NeutralizerWrite, string> = {
 export async function updateNeutralizer(db: Db, id: number, input: NeutralizerWrite, personId: number, nowMs = Date.now()): Promise<{ changed: string[] }> {
   return db.transaction(async (tx) => {
     const before = (await tx.select().from(neutralizers).where(eq(neutralizers.id, id)).limit(1).for("update"))[0];
-    if (!before) throw new Error(`No neutralizer ${id}`);
+    if (!before) throw notFound(`No neutralizer ${id}.`);
     const changed = (Object.keys(input) as (keyof NeutralizerWrite)[]).filter((k) => {
       const a = before[k];
       const b = input[k];
@@ -179,7 +180,7 @@ async function pointNames(db: Pick<Db, "select">, ids: Array<number | null>): Pr
 export async function markCleaned(db: Db, id: number, cleanedTs: number, personId: number, note: string | null): Promise<{ stateChanged: boolean }> {
   return db.transaction(async (tx) => {
     const n = (await tx.select({ state: neutralizers.state, lastCleanedTs: neutralizers.lastCleanedTs }).from(neutralizers).where(eq(neutralizers.id, id)).limit(1).for("update"))[0];
-    if (!n) throw new Error(`No neutralizer ${id}`);
+    if (!n) throw notFound(`No neutralizer ${id}.`);
     const stateChanged = n.state === "needs_cleaning";
     await tx
       .update(neutralizers)

@@ -11,6 +11,7 @@
 import { linearRegression, mean, median } from "simple-statistics";
 
 import { NEUTRALIZER_KIND_SPECS, type NeutralizerKind } from "./neutralizer-kinds";
+import { DAY_MS } from "../vocabulary/time";
 
 /**
  * Start and end voltages of the usual charged-plate decay test, V: the plate is charged to
@@ -193,7 +194,6 @@ export interface DecayTrend {
   originTs: number;
 }
 
-const MS_PER_DAY = 86_400_000;
 
 /**
  * Least-squares straight line of decay time against time: decayS ≈ interceptS + slopeSPerDay ·
@@ -210,7 +210,7 @@ export function fitDecayTrend(checks: readonly DecayCheckPoint[]): DecayTrend | 
   });
   if (new Set(checks.map((c) => c.ts)).size < 2) return null;
   const originTs = Math.min(...checks.map((c) => c.ts));
-  const line = linearRegression(checks.map((c) => [(c.ts - originTs) / MS_PER_DAY, c.decayS]));
+  const line = linearRegression(checks.map((c) => [(c.ts - originTs) / DAY_MS, c.decayS]));
   return { slopeSPerDay: line.m, interceptS: line.b, originTs };
 }
 
@@ -266,5 +266,5 @@ export function projectDecayDueDate(checks: readonly DecayCheckPoint[], limitS: 
   if (limitS <= 0) throw new RangeError("Decay time limit must be above 0 s.");
   const trend = fitDecayTrend(checks);
   if (trend === null || !(trend.slopeSPerDay > 0)) return null;
-  return Math.round(trend.originTs + ((limitS - trend.interceptS) / trend.slopeSPerDay) * MS_PER_DAY);
+  return Math.round(trend.originTs + ((limitS - trend.interceptS) / trend.slopeSPerDay) * DAY_MS);
 }

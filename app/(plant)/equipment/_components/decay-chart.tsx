@@ -2,8 +2,8 @@
 // date is where the line meets the limit. Server-rendered SVG (no script needed to read it).
 import type { DecayProjection } from "@/db/queries/checks";
 import { fmtDate } from "./format";
+import { DAY_MS } from "@/lib/vocabulary";
 
-const DAY = 86_400_000;
 
 export function DecayChart({ projection, nowMs, timeZone }: { projection: DecayProjection; nowMs: number; timeZone: string }) {
   const { points, limitS, dueTs, slopeSPerDay, interceptS, originTs } = projection;
@@ -13,11 +13,11 @@ export function DecayChart({ projection, nowMs, timeZone }: { projection: DecayP
   const pad = { l: 40, r: 16, t: 12, b: 28 };
   const t0 = points[0].ts;
   const lastTs = Math.max(nowMs, points[points.length - 1].ts);
-  const t1 = dueTs !== null && dueTs > lastTs && dueTs < lastTs + 365 * DAY ? dueTs + 5 * DAY : lastTs + 5 * DAY;
+  const t1 = dueTs !== null && dueTs > lastTs && dueTs < lastTs + 365 * DAY_MS ? dueTs + 5 * DAY_MS : lastTs + 5 * DAY_MS;
   const yMax = Math.max(limitS * 1.2, ...points.map((p) => p.decayS * 1.1));
-  const x = (ts: number) => pad.l + ((ts - t0) / Math.max(t1 - t0, DAY)) * (W - pad.l - pad.r);
+  const x = (ts: number) => pad.l + ((ts - t0) / Math.max(t1 - t0, DAY_MS)) * (W - pad.l - pad.r);
   const y = (s: number) => pad.t + (1 - s / yMax) * (H - pad.t - pad.b);
-  const fit = (ts: number) => (interceptS ?? 0) + (slopeSPerDay ?? 0) * ((ts - (originTs ?? t0)) / DAY);
+  const fit = (ts: number) => (interceptS ?? 0) + (slopeSPerDay ?? 0) * ((ts - (originTs ?? t0)) / DAY_MS);
   const ticks = [0, limitS / 2, limitS].map((v) => Math.round(v * 10) / 10);
   return (
     <figure>

@@ -5,6 +5,7 @@ import { useState } from "react";
 import { ActionForm, Field, inputClass, SubmitButton, type FormResult } from "@/components/forms/action-form";
 import { neutralizerWarnings, type EquipmentWarning, type NeutralizerSettings } from "@/lib/equipment-warnings";
 import { NEUTRALIZER_KIND_LABELS, NEUTRALIZER_KIND_SPECS, NEUTRALIZER_KINDS, type NeutralizerKind } from "@/lib/physics/neutralizer-kinds";
+import { NEUTRALIZER_STATES, NEUTRALIZER_STATE_WORDS } from "@/lib/vocabulary";
 
 type Place = { points: { id: number; lineId: number; label: string }[]; lines: { id: number; solvent: boolean }[] };
 
@@ -32,12 +33,7 @@ function kindHint(kind: NeutralizerKind): string {
   const range = spec.mountingMinMm !== null && spec.mountingMaxMm !== null ? `usually ${spec.mountingMinMm}–${spec.mountingMaxMm} mm from the web` : "no usual range assumed";
   return `${spec.description} ${range}; decay limit ${spec.defaultMaxDecayS} s by default.`;
 }
-const STATES: Array<[NeutralizerSettings["state"], string]> = [
-  ["in_service", "In service"],
-  ["needs_cleaning", "Needs cleaning"],
-  ["faulty", "Faulty"],
-  ["removed", "Removed"],
-];
+const STATES: Array<[NeutralizerSettings["state"], string]> = NEUTRALIZER_STATES.map((s) => [s, NEUTRALIZER_STATE_WORDS[s]]);
 
 const num = (v: FormDataEntryValue | null) => {
   if (typeof v !== "string" || v.trim() === "") return null;
