@@ -18,6 +18,7 @@ export const ACTIONS = [
   "oncall.manage",
   "devices.manage", // create devices, issue and rotate secrets
   "audit.view",
+  "gateways.map", // map a gateway's metric to a device and channel; a device's time source
   // walk-down surveys: shift leads and up walk the rounds, turn findings into actions and close
   // them (they are on the floor every shift); engineers and up edit the survey plans
   "survey.record",
@@ -37,6 +38,7 @@ const engineer: Action[] = [
   "import.run",
   "audit.view",
   "survey.plan",
+  "gateways.map",
 ];
 const admin: Action[] = [...engineer, "people.manage", "oncall.manage", "devices.manage"];
 

@@ -95,14 +95,15 @@ describe("Sparkplug B host application", () => {
     expect(rows.find((r) => r.channel === "charge_kv")).toMatchObject({ device_id: fm });
     expect(rows.find((r) => r.channel === "charge_kv")!.value).toBeCloseTo(-3.42, 9);
     // °F → °C: t/°C = (t/°F − 32)/1.8 (NIST SP 811, 2008, B.8): 70.7 °F = 21.5 °C
-    expect(rows.find((r) => r.channel === "temp_c")!.value).toBeCloseTo(21.5, 9);
+    // (the metric is a 32-bit Float: 70.7 travels as 70.69999695, hence 5 decimals)
+    expect(rows.find((r) => r.channel === "temp_c")!.value).toBeCloseTo(21.5, 5);
     expect(rows.find((r) => r.channel === "temp_c")!.device_id).toBe(th);
     // fraction → %: × 100 (definition of per cent)
     expect(rows.find((r) => r.channel === "rh_pct")!.value).toBeCloseTo(38.3, 9);
     // last values (the unmapped string one too) for the Gateways page
     await waitFor("last values", async () => {
       const m = await q<{ name: string; last_value: number | null; last_text: string | null }>("SELECT name, last_value, last_text FROM gateway_metrics WHERE device_name = 'hall-logger' ORDER BY name");
-      return m.find((x) => x.name === "Model")?.last_text === "HL-2" && m.find((x) => x.name === "Temperature")?.last_value === 70.7;
+      return m.find((x) => x.name === "Model")?.last_text === "HL-2" && Math.abs((m.find((x) => x.name === "Temperature")?.last_value ?? 0) - 70.7) < 1e-4;
     });
   });
 
@@ -237,8 +238,8 @@ describe("Sparkplug B host application", () => {
     await setDeviceTimeSource(tdb.db, fm, "arrival", null);
     await new Promise((r) => setTimeout(r, 800));
     const sentTs = skewed.now();
-    await skewed.data("unwind-meter", { Charge: -1777 }, sentTs);
-    const row = await waitFor("arrival-time reading", async () => (await q<{ ts: number }>("SELECT ts FROM readings WHERE device_id = ? AND value = -1.777", [fm]))[0]);
+    await skewed.data("unwind-meter", { Charge: -1234.5 }, sentTs);
+    const row = await waitFor("arrival-time reading", async () => (await q<{ ts: number }>("SELECT ts FROM readings WHERE device_id = ? AND value = -1.2345", [fm]))[0]);
     expect(Math.abs(Number(row.ts) - (sentTs - 90_000))).toBeLessThan(3000);
     await setDeviceTimeSource(tdb.db, fm, "device", null);
 
