@@ -129,6 +129,8 @@ export const outbox = mysqlTable(
     createdTs: bigint("created_ts", { mode: "number" }).notNull(),
     sentTs: bigint("sent_ts", { mode: "number" }),
     messageId: varchar("message_id", { length: 200 }),
+    // a chart for the mailer to draw and attach inline when it sends (lib/mail/chart-spec.ts)
+    chart: json("chart"),
   },
   (t) => [index("outbox_state_idx").on(t.state, t.nextAttemptTs)],
 );

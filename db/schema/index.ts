@@ -5,4 +5,5 @@ export * from "./alerts";
 export * from "./records";
 export * from "./surveys";
 export * from "./gateways";
+export * from "./notify";
 export * from "./relations";

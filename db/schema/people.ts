@@ -15,6 +15,11 @@ export const people = mysqlTable(
     // people who asked for the daily alert digest / the weekly due list
     wantsDailyDigest: boolean("wants_daily_digest").notNull().default(false),
     onMaintenanceList: boolean("on_maintenance_list").notNull().default(false),
+    // mobile number in E.164 (checked with libphonenumber-js), and the alert severities the
+    // person wants texted / pushed (comma-separated, e.g. "high,medium"; empty: none)
+    phoneE164: varchar("phone_e164", { length: 20 }),
+    smsSeverities: varchar("sms_severities", { length: 40 }).notNull().default(""),
+    pushSeverities: varchar("push_severities", { length: 40 }).notNull().default(""),
     // bumped on password reset, role change and deactivation: sessions signed with an older
     // version are refused (app/_server/auth.ts), so those changes end every open session
     sessionVersion: int("session_version").notNull().default(0),

@@ -11,6 +11,7 @@
 import { relations } from "drizzle-orm";
 import { alertEvents, alerts, lineNotes, oncallShifts, ruleVersions, rules } from "./alerts";
 import { deviceClocks, edgeNodes, gatewayDevices, gatewayMetrics, gatewayRejections } from "./gateways";
+import { phoneOutbox, pushSubscriptions } from "./notify";
 import { auditLog, people } from "./people";
 import { areas, devices, lines, neutralizers, points } from "./plant";
 import { checks, equipmentEvents, importedFiles, uploads } from "./records";
@@ -206,4 +207,15 @@ export const gatewayRejectionsRelations = relations(gatewayRejections, ({ one })
 export const deviceClocksRelations = relations(deviceClocks, ({ one }) => ({
   device: one(devices, { fields: [deviceClocks.deviceId], references: [devices.id] }),
   changedByPerson: one(people, { fields: [deviceClocks.changedBy], references: [people.id] }),
+}));
+
+// ── messages to phones ──────────────────────────────────────────────────────────────────────
+
+export const phoneOutboxRelations = relations(phoneOutbox, ({ one }) => ({
+  person: one(people, { fields: [phoneOutbox.personId], references: [people.id] }),
+  alert: one(alerts, { fields: [phoneOutbox.alertId], references: [alerts.id] }),
+}));
+
+export const pushSubscriptionsRelations = relations(pushSubscriptions, ({ one }) => ({
+  person: one(people, { fields: [pushSubscriptions.personId], references: [people.id] }),
 }));
