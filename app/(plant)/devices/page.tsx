@@ -13,6 +13,8 @@ import { can } from "@/lib/permissions";
 import { fmtAgo, fmtIsoDate, toLocalDateIso } from "../equipment/_components/format";
 import { reasonLabel, SILENT_AFTER_MS } from "./_components/device-bits";
 import { AddDeviceForm } from "./_components/device-forms";
+import { ClockFlag, type ClockView } from "./_components/device-clock";
+import { getDeviceClocks } from "@/db/queries/gateways";
 
 export const metadata: Metadata = { title: "Devices" };
 export const dynamic = "force-dynamic";
@@ -31,6 +33,7 @@ export default async function DevicesPage() {
   const db = getDb();
   const nowMs = Date.now();
   const [devs, places, plant, crossChecks] = await Promise.all([listDevices(db, nowMs), getPlaceOptions(db), getPlantSettings(db), latestCrossChecks(db)]);
+  const clocks = await getDeviceClocks(db);
   const today = toLocalDateIso(nowMs, plant.timeZone);
   const soon = toLocalDateIso(nowMs + 14 * 86_400_000, plant.timeZone);
   const isAdmin = can(session.role, "devices.manage");
@@ -76,7 +79,7 @@ export default async function DevicesPage() {
                 {kinds.map((k) => {
                   const rows = devs.filter((d) => d.kind === k);
                   if (!rows.length) return null;
-                  return <KindRows key={k} label={DEVICE_KIND_LABELS[k]} rows={rows} nowMs={nowMs} today={today} soon={soon} crossChecks={crossChecks} />;
+                  return <KindRows key={k} label={DEVICE_KIND_LABELS[k]} rows={rows} nowMs={nowMs} today={today} soon={soon} crossChecks={crossChecks} clocks={clocks} />;
                 })}
               </tbody>
             </table>
@@ -87,7 +90,7 @@ export default async function DevicesPage() {
   );
 }
 
-function KindRows({ label, rows, nowMs, today, soon, crossChecks }: { label: string; rows: DeviceListItem[]; nowMs: number; today: string; soon: string; crossChecks: Awaited<ReturnType<typeof latestCrossChecks>> }) {
+function KindRows({ label, rows, nowMs, today, soon, crossChecks, clocks }: { label: string; rows: DeviceListItem[]; nowMs: number; today: string; soon: string; crossChecks: Awaited<ReturnType<typeof latestCrossChecks>>; clocks: Map<number, NonNullable<ClockView>> }) {
   return (
     <>
       <tr className="border-t border-paper-line bg-paper/60">
@@ -115,6 +118,7 @@ function KindRows({ label, rows, nowMs, today, soon, crossChecks }: { label: str
             <td className="py-2 pr-3 text-ink-soft">{d.placeLabel}</td>
             <td className="whitespace-nowrap py-2 pr-3">
               {silent ? <StateBadge state="silent" label={d.lastSeenTs === null ? "Never seen" : `Silent · ${fmtAgo(d.lastSeenTs, nowMs)}`} /> : <span className="text-ink-soft">{fmtAgo(d.lastSeenTs, nowMs)}</span>}
+              <ClockFlag clock={clocks.get(d.id)} />
             </td>
             <td className="num whitespace-nowrap py-2 pr-3 text-right">
               {d.messagesPerMin !== null ? (

@@ -21,6 +21,8 @@ import { UploadForm } from "../../equipment/_components/upload-form";
 import { UploadsGallery } from "../../equipment/_components/uploads-gallery";
 import { EditDeviceForm, EnableForm, RotateSecretForm } from "../_components/device-forms";
 import { reasonLabel, SILENT_AFTER_MS } from "../_components/device-bits";
+import { DeviceClockCard } from "../_components/device-clock";
+import { getDeviceClocks } from "@/db/queries/gateways";
 
 export const metadata: Metadata = { title: "Device" };
 export const dynamic = "force-dynamic";
@@ -36,6 +38,7 @@ export default async function DevicePage({ params }: { params: Promise<{ id: str
   const [d, places, plant] = await Promise.all([getDevice(db, id, nowMs), getPlaceOptions(db), getPlantSettings(db)]);
   if (!d) notFound();
   const [events, uploads, rejections, crossChecks] = await Promise.all([listEquipmentEvents(db, "device", id), listUploads(db, "device", [id]), listRecentRejections(db, { deviceCode: d.code, limit: 20 }), listCrossChecks(db, { deviceId: id, limit: 50 })]);
+  const clock = (await getDeviceClocks(db, [id])).get(id);
   const tz = plant.timeZone;
   const today = toLocalDateIso(nowMs, tz);
   const warnings = deviceWarnings(d, today);
@@ -70,6 +73,7 @@ export default async function DevicePage({ params }: { params: Promise<{ id: str
               <Figure label="Rejected, 24 h" value={String(d.rejections24h)} sub={d.online ? "connected now" : "not connected"} />
             </dl>
           </Card>
+          <DeviceClockCard deviceId={id} clock={clock} mayEdit={can(session.role, "gateways.map")} />
           <Card title="Details">
             {canEdit ? (
               <EditDeviceForm device={d} places={places} today={today} />
