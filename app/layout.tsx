@@ -1,5 +1,6 @@
 import type { Metadata, Viewport } from "next";
 import localFont from "next/font/local";
+import { connection } from "next/server";
 import "./globals.css";
 
 // Inter (variable) shipped from the @fontsource-variable/inter npm package: nothing is fetched.
@@ -17,7 +18,10 @@ export const metadata: Metadata = {
 
 export const viewport: Viewport = { themeColor: "#35566f" };
 
-export default function RootLayout({ children }: { children: React.ReactNode }) {
+export default async function RootLayout({ children }: { children: React.ReactNode }) {
+  // every page (the not-found page too) is rendered per request, so that Next puts this
+  // request's CSP nonce (proxy.ts) on its scripts; a page built ahead of time would have none
+  await connection();
   return (
     <html lang="en" className={sans.variable}>
       <body className="min-h-screen font-sans">{children}</body>
