@@ -72,13 +72,15 @@ export function SparkCheck({ lines }: { lines: SolventLinePreset[] }) {
             <span className="mb-1 block">
               <StateBadge state={VERDICT_STATE[r.verdict]} label={VERDICT_WORDS[r.verdict]} />
             </span>
+            <span className="mb-1 block font-medium" data-testid="spark-ratio">
+              Spark margin: {sparkMarginPhrase(r.ratioToMie, r.verdict)}
+            </span>
             {r.words}
           </Answer>
           <Results
             rows={[
               { label: "Stored energy ½CV²", value: `${sig(r.energyMj)} mJ`, testId: "spark-energy" },
-              { label: "Against the MIE", value: sparkMarginPhrase(r.ratioToMie, r.verdict), note: `screening margin: below 1/${SPARK_MARGIN_FACTOR} of the MIE`, testId: "spark-ratio" },
-              { label: "Voltage that reaches the MIE", value: `${sig(r.voltageAtMieKv)} kV` },
+              { label: "Voltage that reaches the MIE", value: `${sig(r.voltageAtMieKv)} kV`, note: `screening margin: below 1/${SPARK_MARGIN_FACTOR} of the MIE` },
               { label: `Voltage that reaches MIE/${SPARK_MARGIN_FACTOR}`, value: `${sig(r.voltageAtMarginKv)} kV` },
             ]}
           />

@@ -28,6 +28,15 @@ test.describe("calculators", () => {
     await expect(card.getByTestId("indoor-rh")).toHaveText("9.2 %");
     await expect(card.getByTestId("humidity-answer")).toContainText("holds only 9.2 % RH");
     await expect(card.getByTestId("humidity-answer")).toContainText("kg of water per hour");
+    // where the flow is measured changes the dry-air mass: cold intake air is ~10 % denser (psychrolib; see unit test)
+    await expect(card.locator("#flowAt")).toHaveValue("outdoor");
+    await expect(card.getByTestId("humidity-answer")).toContainText("measured at the outdoor intake");
+    const outdoorWater = await card.getByTestId("water-kg-per-h").textContent();
+    await card.locator("#flowAt").selectOption("hall");
+    await expect(card.getByTestId("water-kg-per-h")).not.toHaveText(outdoorWater ?? "");
+    await expect(card).toContainText("would be", { useInnerText: true });
+    await expect(card).toContainText("% more)");
+    await card.locator("#flowAt").selectOption("outdoor");
     await expect(card.getByText("ASHRAE Handbook—Fundamentals 2017")).toBeVisible();
     await snap(page, "calculators-page");
     await snapCard(page, "humidity", "calculator-humidity");
@@ -47,7 +56,10 @@ test.describe("calculators", () => {
     await expect(card.getByTestId("field")).toHaveText("4.00 kV/cm");
     await expect(card.getByTestId("sigma")).toHaveText("3.54 µC/m²");
     await expect(card.getByTestId("share")).toHaveText("13.3 %");
-    await expect(card.getByTestId("perception")).toHaveText("painful spark");
+    // common practice: seen from about 8–10 kV, heard from about 5 kV
+    await expect(card.getByTestId("perception")).toHaveText("would see the spark");
+    await card.locator("#readingKv").fill("6");
+    await expect(card.getByTestId("perception")).toHaveText("would feel and hear it");
     await card.locator("#readingKv").fill("2.5");
     await expect(card.getByTestId("perception")).toHaveText("would feel it");
     await expect(card.getByText("NFPA 77", { exact: false }).first()).toBeVisible();
@@ -67,6 +79,10 @@ test.describe("calculators", () => {
     // ½CV² = ½ · 200 pF · (10 kV)² = 10 mJ
     await expect(card.getByTestId("spark-energy")).toHaveText("10.0 mJ");
     await expect(card.getByTestId("spark-answer")).toContainText("Can ignite");
+    // 10 mJ / 0.23 mJ = 43× the MIE
+    await expect(card.getByTestId("spark-ratio")).toHaveText("Spark margin: stored energy 43× the MIE: can ignite");
+    await expect(card.getByTestId("propagating-brush-caution")).toContainText("2.5×10⁻⁴ C/m²");
+    await expect(card.getByTestId("propagating-brush-caution")).toContainText("1 J");
     await card.locator("#capacitancePf").fill("100");
     await card.locator("#voltageKv").fill("2");
     await card.locator("#solvent").selectOption("Ethyl acetate");
@@ -79,14 +95,18 @@ test.describe("calculators", () => {
   test("relaxation time: εr 2, ρ 10¹⁰ Ω·m", async ({ page }) => {
     const card = page.getByTestId("calc-relaxation");
     await card.locator("#relativePermittivity").fill("2");
-    await card.locator("#resistivityOhmM").fill("1e10");
+    await card.locator("#resistivity").fill("1e10");
     // τ = ε0 · 2 · 1e10 = 0.177 s
     await expect(card.getByTestId("tau")).toHaveText("177 ms");
+    // the same figure in Ω·cm is 100× less resistive: 1e10 Ω·cm = 1e8 Ω·m → 1.77 ms
+    await card.locator("#resistivityUnit").selectOption("ohm_cm");
+    await expect(card.getByTestId("tau")).toHaveText("1.77 ms");
+    await card.locator("#resistivityUnit").selectOption("ohm_m");
     await card.locator("#surfaceResistanceOhm").fill("1e12");
     await expect(card.getByTestId("surface-class")).toHaveText("insulative");
-    await card.locator("#resistivityOhmM").fill("0");
-    await expect(card.locator("#resistivityOhmM-error")).toContainText("must be above 0");
-    await card.locator("#resistivityOhmM").fill("1e10");
+    await card.locator("#resistivity").fill("0");
+    await expect(card.locator("#resistivity-error")).toContainText("must be above 0");
+    await card.locator("#resistivity").fill("1e10");
     await snapCard(page, "relaxation", "calculator-relaxation");
   });
 });

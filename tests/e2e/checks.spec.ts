@@ -31,8 +31,18 @@ test.describe("checks", () => {
     await page.goto("/checks");
     await expect(page.getByRole("heading", { name: "Checks", exact: true })).toBeVisible();
     await expect(page.getByTestId("hv-caution")).toContainText("Isolate the power unit");
-    await expect(page.getByTestId("limit-sources")).toContainText("ANSI/ESD STM3.1");
-    await expect(page.getByTestId("limit-sources")).toContainText("±35 V is common in ESD control programs");
+    // editions of each published figure (ANSI/ESD STM3.1-2015, IEC 61340-4-7:2017, ANSI/ESD S20.20-2021)
+    await expect(page.getByTestId("limit-sources")).toContainText("ANSI/ESD STM3.1-2015");
+    await expect(page.getByTestId("limit-sources")).toContainText("IEC 61340-4-7:2017");
+    await expect(page.getByTestId("limit-sources")).toContainText("±35 V is the ionizer offset limit of ANSI/ESD S20.20-2021");
+    await expect(page.getByTestId("limit-sources")).toContainText("written for handling electrostatic-discharge-sensitive electronic parts");
+    // each kind's default with its source: pulsed-DC bars 100–600 mm (common practice)
+    await expect(page.getByTestId("kind-defaults")).toContainText("100–600 mm");
+    // the plate of the test method is asked for, filled with the standard one
+    const plate = page.getByTestId("plate-fields");
+    await expect(plate.getByLabel("Plate (pF)")).toHaveValue("20");
+    await expect(plate.getByLabel("Width (mm)")).toHaveValue("150");
+    await expect(plate.getByLabel("Test distance (mm)")).toBeVisible();
 
     // never checked since installation: its verification is overdue; its cleaning is not due yet
     const dueList = page.getByTestId("due-list");
@@ -43,11 +53,11 @@ test.describe("checks", () => {
     await snap(page, "checks-due-list-before");
 
     const jpeg = await photo();
-    // decay − 24.8 s is over the 20 s default limit
+    // a nozzle: decay − 24.8 s is over its 5 s default limit (lib/physics/neutralizer-kinds.ts)
     await recordCheck(page, "N-LABELLER-1-DISPENSE", { pos: "6.1", neg: "24.8", offset: "+9" }, { name: "emitters-dispense.jpg", buffer: jpeg });
     const result = page.getByTestId("check-result");
     await expect(result).toContainText("Fail");
-    await expect(result).toContainText("Negative decay 24.8 s is over the 20 s limit.");
+    await expect(result).toContainText("Negative decay 24.8 s is over the 5 s limit.");
     await expect(result).toContainText("Marked as needing cleaning");
     await expect(result).toContainText("1 file attached.");
     await snap(page, "check-result-fail");
@@ -58,7 +68,8 @@ test.describe("checks", () => {
     await expect(dispenseCleaning).toContainText("Marked as needing cleaning");
     expect(cleaningBefore).toBeLessThanOrEqual(1);
 
-    await recordCheck(page, "N-LABELLER-1-LINER-UNWIND", { pos: "4.2", neg: "4.9", offset: "-12" }, { name: "liner-unwind.jpg", buffer: jpeg });
+    // an AC bar: 0.9 / 1.1 s are within its 2 s default
+    await recordCheck(page, "N-LABELLER-1-LINER-UNWIND", { pos: "0.9", neg: "1.1", offset: "-12" }, { name: "liner-unwind.jpg", buffer: jpeg });
     await expect(result).toContainText("Pass");
     await expect(result).toContainText("Offset -12 V is within ±35 V.");
     await expect(dueList.locator('[data-testid="due-item"][data-label="N-LABELLER-1-LINER-UNWIND"][data-what="check"]')).toHaveCount(0);

@@ -88,17 +88,28 @@ test.describe("equipment pages", () => {
     await expect(page.getByTestId("effect-figures")).toContainText("Last 24 h");
     await expect(page.getByTestId("decay-projection")).toBeVisible();
 
-    // the 50 mm warning appears as the engineer types
+    // an AC bar: the too-far warning uses its 10–50 mm range as the engineer types (common practice)
     await page.getByLabel("Distance to the web, mm").fill("80");
-    await expect(page.getByTestId("equipment-warnings").last()).toContainText("about 50 mm (2 in)");
+    await expect(page.getByTestId("equipment-warnings").last()).toContainText("usually mounted 10–50 mm from the web");
     await snap(page, "neutralizer-edit-warning");
+    // a pulsed-DC bar at 300 mm is normal (100–600 mm): no warning
+    await page.getByLabel("Kind").selectOption("pulsed_dc_bar");
+    await page.getByLabel("Distance to the web, mm").fill("300");
+    await expect(page.getByTestId("equipment-warnings")).toHaveCount(0);
+
+    // the laminator's rewind bar has slowed since cleaning: ×2.8 its own baseline (demo checks)
+    await page.goto("/equipment");
+    await page.locator('[data-testid="neutralizer-row"][data-tag="N-LAMINATOR-1-REWIND"]').getByRole("link", { name: "N-LAMINATOR-1-REWIND" }).click();
+    await expect(page.getByTestId("decay-slowdown")).toContainText("Slower than its own baseline by ×2.8");
+    await expect(page.getByTestId("kind-spec")).toContainText("Pulsed-DC bar: usually 100–600 mm");
+    await expect(page.getByTestId("check-table")).toContainText("20 pF, 150 × 150 mm");
   });
 });
 
 test.describe("roles through the API", () => {
   const writes = (id: number, deviceId: number) => [
-    ["POST", "/api/equipment", { tag: "N-X", kind: "ionizing_bar", cleaningIntervalDays: 14, checkIntervalDays: 90, state: "in_service" }],
-    ["PATCH", `/api/equipment/${id}`, { tag: "N-X", kind: "ionizing_bar", cleaningIntervalDays: 14, checkIntervalDays: 90, state: "removed" }],
+    ["POST", "/api/equipment", { tag: "N-X", kind: "ac_bar", cleaningIntervalDays: 14, checkIntervalDays: 90, state: "in_service" }],
+    ["PATCH", `/api/equipment/${id}`, { tag: "N-X", kind: "ac_bar", cleaningIntervalDays: 14, checkIntervalDays: 90, state: "removed" }],
     ["POST", `/api/equipment/${id}/cleaned`, {}],
     ["POST", `/api/equipment/${id}/notes`, { text: "x" }],
     ["POST", "/api/checks", { neutralizerId: id, checkedAt: "2026-01-01T10:00", decayPosS: 1, decayNegS: 1, offsetV: 0 }],

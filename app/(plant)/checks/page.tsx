@@ -64,7 +64,7 @@ export default async function ChecksPage({ searchParams }: { searchParams: Promi
         <HighVoltageCaution />
       </div>
 
-      <div className="grid gap-5 xl:grid-cols-[minmax(0,1fr)_26rem]">
+      <div className="grid grid-cols-[minmax(0,1fr)] gap-5 xl:grid-cols-[minmax(0,1fr)_26rem]">
         <div className="space-y-5">
           <Card
             title={

@@ -80,7 +80,7 @@ export default async function NeutralizerPage({ params }: { params: Promise<{ id
 
       <SettingsWarnings warnings={warnings} />
 
-      <div className="grid gap-5 xl:grid-cols-[minmax(0,1fr)_25rem]">
+      <div className="grid grid-cols-[minmax(0,1fr)] gap-5 xl:grid-cols-[minmax(0,1fr)_25rem]">
         <div className="space-y-5">
           <Card title="Effect on the web" aside={<span className="text-xs text-ink-faint">1 − |charge after| / |charge before|, while the line runs</span>}>
             {topology?.beforePoint ? (
