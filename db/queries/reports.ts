@@ -1,6 +1,7 @@
-// Read models behind the reports (shift handover, weekly line review, equipment compliance).
-// Loads exactly the rows a report needs (explicit columns,
-// people by name only) and hands them to the pure builders in lib/reports.
+// Data access behind the reports (shift handover, weekly line review, equipment compliance):
+// loads exactly the rows a report needs (explicit columns, people by name only). The use cases
+// that assemble a report from these rows and the pure builders of lib/reports live in
+// db/use-cases/handover-report.ts, weekly-report.ts and compliance-report.ts.
 import { and, asc, eq, gte, inArray, isNull, lt, or, sql } from "drizzle-orm";
 import type { Db } from "../client";
 import {
@@ -17,14 +18,11 @@ import {
   rules,
   readings,
 } from "../schema";
-import { getPlantLayout, type PlantArea } from "./plant";
-import { dateRangeWindow, localTimeToTs, shiftWindowFor, weekWindow, type ShiftWindow } from "../../lib/plant-time";
-import { buildCompliance, type ComplianceCheckInput, type ComplianceReport } from "../../lib/reports/compliance";
-import { buildHandover, RAW_HOLD_MS, type HandoverAlertInput, type HandoverReport } from "../../lib/reports/handover";
-import { listStoredRules } from "./limits";
-import { bucketExtreme, type Sample } from "../../lib/reports/series";
-import { buildPlaceIndex } from "../../lib/reports/types";
-import { buildWeekly, MINUTE_HOLD_MS, rollupRms, type HourlyMean, type WeeklyReport } from "../../lib/reports/weekly";
+import type { PlantArea } from "./plant";
+import { localTimeToTs } from "../../lib/plant-time";
+import type { HandoverAlertInput } from "../../lib/reports/handover";
+import type { Sample } from "../../lib/reports/series";
+import { MINUTE_HOLD_MS } from "../../lib/reports/weekly";
 
 import { getPlantSettings } from "./plant-settings";
 export { getPlantSettings };
@@ -34,7 +32,7 @@ export async function listHallAirSupply(db: Db): Promise<{ id: number; airflowM3
   return db.select({ id: areas.id, airflowM3PerH: areas.airflowM3PerH, humidifierKgPerH: areas.humidifierKgPerH }).from(areas).orderBy(asc(areas.id));
 }
 
-function groupSamples(rows: readonly { deviceId: number; ts: number; value: number }[]): Map<number, Sample[]> {
+export function groupSamples(rows: readonly { deviceId: number; ts: number; value: number }[]): Map<number, Sample[]> {
   const out = new Map<number, Sample[]>();
   for (const r of rows) {
     let list = out.get(r.deviceId);
@@ -58,8 +56,8 @@ export async function loadRawSeries(db: Db, channel: string, deviceIds: readonly
   return groupSamples(rows);
 }
 
-const fieldMeterIds = (plant: readonly PlantArea[]) => plant.flatMap((a) => a.lines.flatMap((l) => l.points.flatMap((p) => (p.fieldMeter ? [p.fieldMeter.id] : []))));
-const loggerIds = (plant: readonly PlantArea[]) => plant.flatMap((a) => (a.logger ? [a.logger.id] : []));
+export const fieldMeterIds = (plant: readonly PlantArea[]) => plant.flatMap((a) => a.lines.flatMap((l) => l.points.flatMap((p) => (p.fieldMeter ? [p.fieldMeter.id] : []))));
+export const loggerIds = (plant: readonly PlantArea[]) => plant.flatMap((a) => (a.logger ? [a.logger.id] : []));
 
 /** Alerts active at any time in [fromTs, toTs), with rule names, who acknowledged and what people wrote. */
 export async function loadAlertsInWindow(db: Db, fromTs: number, toTs: number): Promise<HandoverAlertInput[]> {
@@ -145,44 +143,6 @@ export async function loadLineNotes(db: Db, fromTs: number, toTs: number) {
     .orderBy(asc(lineNotes.ts), asc(lineNotes.id));
 }
 
-// ---------------------------------------------------------------------------------------------
-// Shift handover
-// ---------------------------------------------------------------------------------------------
-
-export type HandoverRequest = { date: string; shift: string };
-
-/** The handover of a shift, or null when the plant has no shift of that name. */
-export async function getHandoverReport(db: Db, req: HandoverRequest, nowTs: number): Promise<HandoverReport | null> {
-  const plantSettings = await getPlantSettings(db);
-  const window = shiftWindowFor(req.date, req.shift, plantSettings);
-  if (!window) return null;
-  return buildHandoverForWindow(db, window, plantSettings.name, nowTs);
-}
-
-export async function buildHandoverForWindow(db: Db, window: ShiftWindow, plantName: string, nowTs: number): Promise<HandoverReport> {
-  const plant = await getPlantLayout(db);
-  const [ruleList, chargeSeries, rhSeries, alertList, neutralizerList, notes] = await Promise.all([
-    listStoredRules(db),
-    loadRawSeries(db, "charge_kv", fieldMeterIds(plant), window.startTs, window.endTs, RAW_HOLD_MS),
-    loadRawSeries(db, "rh_pct", loggerIds(plant), window.startTs, window.endTs, RAW_HOLD_MS),
-    loadAlertsInWindow(db, window.startTs, window.endTs),
-    loadNeutralizerRecords(db, window.endTs, window.timeZone),
-    loadLineNotes(db, window.startTs, window.endTs),
-  ]);
-  return buildHandover({
-    plantName,
-    window,
-    generatedTs: nowTs,
-    plant,
-    rules: ruleList,
-    chargeSeries,
-    rhSeries,
-    alerts: alertList,
-    neutralizers: neutralizerList,
-    notes,
-  });
-}
-
 /** People who can take a handover (shift leads and up), by name; the e-mail stays on the server. */
 export async function listHandoverRecipients(db: Db): Promise<{ id: number; name: string; role: string }[]> {
   return db
@@ -197,25 +157,15 @@ export async function getRecipient(db: Db, personId: number): Promise<{ id: numb
   return rows[0] ?? null;
 }
 
-// ---------------------------------------------------------------------------------------------
-// Weekly line review
-// ---------------------------------------------------------------------------------------------
-
-export type WeeklyRequest = { lineId: number; date: string };
-
-export async function getWeeklyReport(db: Db, req: WeeklyRequest, nowTs: number): Promise<WeeklyReport | null> {
-  const plantSettings = await getPlantSettings(db);
-  const plant = await getPlantLayout(db);
-  const area = plant.find((a) => a.lines.some((l) => l.id === req.lineId));
-  const line = area?.lines.find((l) => l.id === req.lineId);
-  if (!area || !line) return null;
-  const window = weekWindow(req.date, plantSettings.timeZone);
-  const meterIds = line.points.flatMap((p) => (p.fieldMeter ? [p.fieldMeter.id] : []));
-  const hourlyIds = [...meterIds, ...(line.speedGateway ? [line.speedGateway.id] : []), ...(area.logger ? [area.logger.id] : [])];
-  const pointIds = line.points.map((p) => p.id);
-
-  const [ruleList, minuteCharge, minuteRh, hourlyRows, alertRows] = await Promise.all([
-    listStoredRules(db),
+/** The rollups and alerts the weekly line review of one line reads, for one week window. */
+export async function loadWeeklyRows(
+  db: Db,
+  q: { window: { startTs: number; endTs: number }; meterIds: number[]; loggerId: number | null; hourlyIds: number[]; lineId: number; pointIds: number[]; areaId: number },
+) {
+  const { window, meterIds, hourlyIds, pointIds } = q;
+  const area = { id: q.areaId, logger: q.loggerId === null ? null : { id: q.loggerId } };
+  const line = { id: q.lineId };
+  const [minuteCharge, minuteRh, hourlyRows, alertRows] = await Promise.all([
     meterIds.length
       ? db
           .select({ deviceId: rollup1m.deviceId, bucketTs: rollup1m.bucketTs, min: rollup1m.min, max: rollup1m.max })
@@ -266,39 +216,17 @@ export async function getWeeklyReport(db: Db, req: WeeklyRequest, nowTs: number)
       .orderBy(asc(alerts.startTs)),
   ]);
 
-  const hourly: HourlyMean[] = hourlyRows.filter((r) => r.count > 0).map((r) => ({ deviceId: r.deviceId, channel: r.channel, bucketTs: r.bucketTs, mean: r.sum / r.count, rms: rollupRms(r.count, r.sumSq) }));
-  return buildWeekly({
-    plantName: plantSettings.name,
-    window,
-    generatedTs: nowTs,
-    area,
-    line,
-    rules: ruleList,
-    minuteCharge: groupSamples(minuteCharge.map((r) => ({ deviceId: r.deviceId, ts: r.bucketTs, value: bucketExtreme(r.min, r.max) }))),
-    minuteRhMin: minuteRh.map((r) => ({ ts: r.bucketTs, value: r.min })),
-    hourly,
-    alerts: alertRows,
-  });
+  return { minuteCharge, minuteRh, hourlyRows, alertRows };
 }
 
-// ---------------------------------------------------------------------------------------------
-// Equipment compliance
-// ---------------------------------------------------------------------------------------------
-
-export type ComplianceRequest = { from: string; to: string };
-
-export async function getComplianceReport(db: Db, req: ComplianceRequest, nowTs: number): Promise<ComplianceReport> {
-  const plantSettings = await getPlantSettings(db);
-  const window = dateRangeWindow(req.from, req.to, plantSettings.timeZone);
-  const plant = await getPlantLayout(db);
-  const places = buildPlaceIndex(plant);
-  const [neutralizerRows, checkRows, meterRows] = await Promise.all([
-    loadNeutralizerRecords(db, window.endTs, plantSettings.timeZone),
+/** Every check before `beforeTs` and every enabled meter with its calibration date, for the compliance report. */
+export async function loadComplianceRows(db: Db, beforeTs: number) {
+  const [checkRows, meterRows] = await Promise.all([
     db
       .select({ id: checks.id, neutralizerId: checks.neutralizerId, ts: checks.ts, passed: checks.passed, failReasons: checks.failReasons, personName: people.name })
       .from(checks)
       .leftJoin(people, eq(people.id, checks.personId))
-      .where(lt(checks.ts, window.endTs))
+      .where(lt(checks.ts, beforeTs))
       .orderBy(asc(checks.ts), asc(checks.id)),
     db
       .select({ id: devices.id, code: devices.code, label: devices.label, kind: devices.kind, pointId: devices.pointId, lineId: devices.lineId, areaId: devices.areaId, calibrationDue: devices.calibrationDue })
@@ -306,19 +234,5 @@ export async function getComplianceReport(db: Db, req: ComplianceRequest, nowTs:
       .where(and(eq(devices.enabled, true), inArray(devices.kind, ["field_meter", "th_logger"])))
       .orderBy(asc(devices.code)),
   ]);
-  const checkList: ComplianceCheckInput[] = checkRows;
-  return buildCompliance({
-    plantName: plantSettings.name,
-    window,
-    generatedTs: nowTs,
-    neutralizers: neutralizerRows.map((n) => ({ ...n, where: places.where({ pointId: n.pointId }) })),
-    checks: checkList,
-    meters: meterRows.map((m) => ({
-      id: m.id,
-      deviceCode: m.code,
-      label: m.label,
-      where: places.where({ pointId: m.pointId, lineId: m.lineId, areaId: m.areaId }),
-      calibrationDue: m.calibrationDue,
-    })),
-  });
+  return { checkRows, meterRows };
 }

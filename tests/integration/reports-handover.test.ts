@@ -3,7 +3,7 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import Papa from "papaparse";
 import { createTestDatabase, type TestDatabase } from "../helpers/test-db";
-import { getHandoverReport } from "@/db/queries/reports";
+import { getHandoverReport } from "@/db/use-cases/handover-report";
 import { handoverCsv } from "@/lib/reports/csv-tables";
 import { handoverText } from "@/lib/mail/handover-email";
 import type { HandoverReport } from "@/lib/reports/handover";

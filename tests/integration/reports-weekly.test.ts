@@ -3,7 +3,8 @@
 // closed-form least-squares formulas (not simple-statistics) and plain counting.
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { createTestDatabase, type TestDatabase } from "../helpers/test-db";
-import { getComplianceReport, getWeeklyReport } from "@/db/queries/reports";
+import { getComplianceReport } from "@/db/use-cases/compliance-report";
+import { getWeeklyReport } from "@/db/use-cases/weekly-report";
 import { addDaysToDate, localTimeToTs } from "@/lib/plant-time";
 import type { WeeklyReport } from "@/lib/reports/weekly";
 import type { ComplianceReport } from "@/lib/reports/compliance";

@@ -2,7 +2,8 @@
 import type { Metadata } from "next";
 import { requirePagePermission } from "@/app/_server/session";
 import { getDb } from "@/db/client";
-import { getComplianceReport, getPlantSettings } from "@/db/queries/reports";
+import { getPlantSettings } from "@/db/queries/reports";
+import { getComplianceReport } from "@/db/use-cases/compliance-report";
 import { formatDay, formatDayTime } from "@/lib/reports/format";
 import { complianceParamsSchema, resolveComplianceParams } from "@/lib/reports/params";
 import { Forbidden, PageHeader } from "@/components/ui/page";

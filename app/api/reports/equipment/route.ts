@@ -1,7 +1,8 @@
 // GET /api/reports/equipment?from=YYYY-MM-DD&to=YYYY-MM-DD — equipment compliance as JSON
 // (default: the last 90 days).
 import { getDb } from "@/db/client";
-import { getComplianceReport, getPlantSettings } from "@/db/queries/reports";
+import { getPlantSettings } from "@/db/queries/reports";
+import { getComplianceReport } from "@/db/use-cases/compliance-report";
 import { complianceParamsSchema, resolveComplianceParams } from "@/lib/reports/params";
 import { parseOrThrow, queryObject, route } from "@/app/_server/route";
 import { jsonResponse } from "../_shared";

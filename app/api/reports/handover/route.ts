@@ -1,7 +1,8 @@
 // GET /api/reports/handover?date=YYYY-MM-DD&shift=Early — the shift handover as JSON
 // (without date and shift: the last completed shift).
 import { getDb } from "@/db/client";
-import { getHandoverReport, getPlantSettings } from "@/db/queries/reports";
+import { getPlantSettings } from "@/db/queries/reports";
+import { getHandoverReport } from "@/db/use-cases/handover-report";
 import { notFound } from "@/lib/errors";
 import { handoverParamsSchema, resolveHandoverParams } from "@/lib/reports/params";
 import { parseOrThrow, queryObject, route } from "@/app/_server/route";

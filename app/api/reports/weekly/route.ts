@@ -1,7 +1,8 @@
 // GET /api/reports/weekly?line=<id>&week=YYYY-MM-DD — weekly review of one line as JSON
 // (the ISO week, Monday to Sunday in the plant's time zone, holding the given day).
 import { getDb } from "@/db/client";
-import { getPlantSettings, getWeeklyReport } from "@/db/queries/reports";
+import { getPlantSettings } from "@/db/queries/reports";
+import { getWeeklyReport } from "@/db/use-cases/weekly-report";
 import { badInput, notFound } from "@/lib/errors";
 import { resolveWeek, weeklyParamsSchema } from "@/lib/reports/params";
 import { parseOrThrow, queryObject, route } from "@/app/_server/route";

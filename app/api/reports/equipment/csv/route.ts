@@ -1,6 +1,7 @@
 // GET /api/reports/equipment/csv?from=…&to=…&table=neutralizers|meters
 import { getDb } from "@/db/client";
-import { getComplianceReport, getPlantSettings } from "@/db/queries/reports";
+import { getPlantSettings } from "@/db/queries/reports";
+import { getComplianceReport } from "@/db/use-cases/compliance-report";
 import { badInput } from "@/lib/errors";
 import { complianceCsv } from "@/lib/reports/csv-tables";
 import { complianceCsvParamsSchema, resolveComplianceParams } from "@/lib/reports/params";

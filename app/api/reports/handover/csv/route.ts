@@ -1,6 +1,7 @@
 // GET /api/reports/handover/csv?date=…&shift=…&table=alerts|points|halls|neutralizers|notes
 import { getDb } from "@/db/client";
-import { getHandoverReport, getPlantSettings } from "@/db/queries/reports";
+import { getPlantSettings } from "@/db/queries/reports";
+import { getHandoverReport } from "@/db/use-cases/handover-report";
 import { notFound } from "@/lib/errors";
 import { handoverCsv } from "@/lib/reports/csv-tables";
 import { handoverCsvParamsSchema, resolveHandoverParams } from "@/lib/reports/params";

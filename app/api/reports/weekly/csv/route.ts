@@ -1,6 +1,7 @@
 // GET /api/reports/weekly/csv?line=<id>&week=YYYY-MM-DD&table=points|rules|pairs
 import { getDb } from "@/db/client";
-import { getPlantSettings, getWeeklyReport } from "@/db/queries/reports";
+import { getPlantSettings } from "@/db/queries/reports";
+import { getWeeklyReport } from "@/db/use-cases/weekly-report";
 import { badInput, notFound } from "@/lib/errors";
 import { weeklyCsv } from "@/lib/reports/csv-tables";
 import { resolveWeek, weeklyCsvParamsSchema } from "@/lib/reports/params";
