@@ -5,7 +5,7 @@ import { useState } from "react";
 import Link from "next/link";
 import { ActionForm, Field, inputClass, SubmitButton, type FormResult } from "@/components/forms/action-form";
 import { StateBadge } from "@/components/ui/state-badge";
-import { ACTION_KIND_LABELS, ACTION_KINDS, type SurveyActionKind } from "@/lib/surveys/schemas";
+import { ACTION_KIND_LABELS, ACTION_KINDS, type SurveyActionKind } from "@/lib/surveys/vocabulary";
 import type { SurveyActionView } from "@/lib/surveys/types";
 
 type ServerAction = (prev: FormResult, fd: FormData) => Promise<FormResult>;

@@ -5,6 +5,9 @@
  */
 import { z } from "zod";
 import { METER_UNITS } from "./judge";
+import { ACTION_KINDS } from "./vocabulary";
+
+export { ACTION_KINDS, ACTION_KIND_LABELS, type SurveyActionKind } from "./vocabulary";
 
 export const SPOT_KEY = /^[a-z0-9][a-z0-9-]{0,39}$/;
 
@@ -72,18 +75,6 @@ export const roundSchema = z.object({
   readings: z.array(roundReadingSchema).max(60),
 });
 export type RoundPayload = z.infer<typeof roundSchema>;
-
-export const ACTION_KINDS = ["clean_bar", "move_bar", "replace_bar", "add_bar", "check_earthing", "raise_humidity", "other"] as const;
-export type SurveyActionKind = (typeof ACTION_KINDS)[number];
-export const ACTION_KIND_LABELS: Record<SurveyActionKind, string> = {
-  clean_bar: "Clean the bar",
-  move_bar: "Move the bar",
-  replace_bar: "Replace the bar",
-  add_bar: "Add a bar",
-  check_earthing: "Check earthing",
-  raise_humidity: "Raise humidity",
-  other: "Other",
-};
 
 export const createActionSchema = z.object({
   surveyId: z.coerce.number().int().positive(),
