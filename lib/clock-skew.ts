@@ -49,7 +49,8 @@ export class ClockSkewTracker {
 }
 
 /** Whether a skew is past the limit either way. */
-export function isClockOff(skewMs: number | null | undefined, limitMs = DEFAULT_CLOCK_SKEW_LIMIT_MS): boolean {
+/** `limitMs` is the CLOCK_SKEW_LIMIT_MS setting (lib/settings.ts; DEFAULT_CLOCK_SKEW_LIMIT_MS unless set). */
+export function isClockOff(skewMs: number | null | undefined, limitMs: number): boolean {
   return skewMs !== null && skewMs !== undefined && Math.abs(skewMs) > limitMs;
 }
 

@@ -13,6 +13,7 @@
 import { z } from "zod";
 import { MAX_PAYLOAD_BYTES } from "./contract/readings-payload";
 import { SPB_ID_PATTERN } from "./sparkplug/topics";
+import { DEFAULT_CLOCK_SKEW_LIMIT_MS } from "./clock-skew";
 
 /** Broker user names of the two service accounts; no device code may start with the prefix. */
 export const SERVICE_ACCOUNT_PREFIX = "svc-";
@@ -107,6 +108,12 @@ const schema = z.object({
   ALERTS_RULES_POLL_MS: int(3000, 1),
   ALERTS_ESCALATE_EVERY_MS: int(5000, 1),
   ALERTS_SNAPSHOT_EVERY_MS: int(30_000, 1),
+  /** a device or edge-node clock off by more than this is flagged (Devices and Gateways pages) */
+  CLOCK_SKEW_LIMIT_MS: int(DEFAULT_CLOCK_SKEW_LIMIT_MS, 1000),
+  /** late readings are re-checked once no more have come for this long (ingest/late-recheck.ts) */
+  LATE_RECHECK_SETTLE_MS: int(5000, 0),
+  /** an excursion found late that ended longer ago than this is kept in the history but pages nobody */
+  LATE_FINDING_QUIET_AFTER_MS: int(900_000, 0),
   // mail
   SMTP_HOST: z.string().default("127.0.0.1"),
   SMTP_PORT: port(2525),

@@ -8,7 +8,8 @@ import { listGateways, listMappingTargets } from "@/db/queries/gateways";
 import { Card, EmptyState, Forbidden, PageHeader } from "@/components/ui/page";
 import { StateBadge } from "@/components/ui/state-badge";
 import { can } from "@/lib/permissions";
-import { describeSkew, DEFAULT_CLOCK_SKEW_LIMIT_MS, isClockOff } from "@/lib/clock-skew";
+import { describeSkew, isClockOff } from "@/lib/clock-skew";
+import { getSettings } from "@/lib/settings";
 import { CHANNEL_UNITS, CONVERSION_LABELS } from "@/lib/sparkplug/metrics";
 import { GATEWAY_REJECTION_LABELS, type GatewayRejectionReason } from "@/lib/sparkplug/host-state";
 import type { EdgeNodeView, MappingTarget } from "@/lib/sparkplug/view";
@@ -61,7 +62,7 @@ export default async function GatewaysPage() {
 }
 
 function NodeCard({ node: n, nowMs, targets, mayMap }: { node: EdgeNodeView; nowMs: number; targets: MappingTarget[]; mayMap: boolean }) {
-  const skewOff = isClockOff(n.clockSkewMs, DEFAULT_CLOCK_SKEW_LIMIT_MS);
+  const skewOff = isClockOff(n.clockSkewMs, getSettings().CLOCK_SKEW_LIMIT_MS);
   const targetName = new Map(targets.map((t) => [t.deviceId, `${t.place} — ${t.code}`]));
   const deviceNames = [...new Set(n.metrics.map((m) => m.deviceName))];
   return (
