@@ -7,6 +7,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { MqttClient } from "mqtt";
 import { createTestDatabase, type TestDatabase } from "../helpers/test-db";
 import { readDeviceSecrets } from "../../db/seed";
+import { hashDeviceSecret } from "../../lib/device-secrets";
 import { getIngestStatus, listRecentRejections } from "../../db/queries/ingest-diagnostics";
 import { deviceTopics, internalTopics } from "../../lib/contract/topics";
 import { deviceStatusChangeSchema, parseLiveSnapshot, type LiveSnapshot } from "../../lib/live";
@@ -47,7 +48,9 @@ beforeAll(async () => {
   tdb = await createTestDatabase("ingest_worker", { seed: true });
   secrets = readDeviceSecrets(tdb.name);
   stack = await startIngestStack("worker", tdb.env, {
-    env: { INGEST_DEVICE_REFRESH_MS: "300", INGEST_LIVE_INTERVAL_MS: "300", RAW_RETENTION_DAYS: "14" },
+    // the broker's own cut-off of removed or disabled devices is slowed down here, so that the
+    // worker's checks behind it can be seen (tests/integration/services-broker.test.ts tests the broker's)
+    env: { INGEST_DEVICE_REFRESH_MS: "300", INGEST_LIVE_INTERVAL_MS: "300", RAW_RETENTION_DAYS: "14", BROKER_DEVICE_CHECK_MS: "600000", BROKER_DEVICE_REFRESH_MS: "600000" },
   });
   svc = await connectService(stack, "svc-worker-test", "app");
   svc.on("message", (topic, msg) => {
@@ -71,7 +74,13 @@ describe("bad input", () => {
     const fm = await connectDevice(stack, FM, secrets[FM]);
     const fmId = await deviceId(FM);
     const now = Date.now();
-    const bad: Array<{ reason: string; body: string; via?: "service"; code?: string }> = [
+    // a device that signed in and was then removed: no account may publish for another device
+    const GHOST = "fm-removed-after-sign-in";
+    await tdb.pool.query("INSERT INTO devices (code, kind, label, secret_hash, line_id, area_id, created_at) VALUES (?, 'field_meter', 'Ghost', ?, 1, 1, ?)", [GHOST, hashDeviceSecret("ghost-secret-0123"), Date.now()]);
+    const ghost = await connectDevice(stack, GHOST, "ghost-secret-0123");
+    await tdb.pool.query("DELETE FROM devices WHERE code = ?", [GHOST]);
+    await new Promise((r) => setTimeout(r, 1000)); // the worker reloads devices every 300 ms here
+    const bad: Array<{ reason: string; body: string; via?: "ghost"; code?: string }> = [
       { reason: "malformed_json", body: `{"ts":${now},"values":{"charge_kv":` },
       { reason: "invalid_shape", body: JSON.stringify({ ts: now, values: { charge_kv: "high" } }) },
       { reason: "non_finite", body: `{"ts":${now},"values":{"charge_kv":NaN}}` },
@@ -83,12 +92,11 @@ describe("bad input", () => {
       { reason: "ts_future", body: JSON.stringify({ ts: now + 10 * 60_000, values: { charge_kv: 1 } }) },
       { reason: "ts_too_old", body: JSON.stringify({ ts: now - 20 * DAY, values: { charge_kv: 1 } }) },
       { reason: "batch_too_long", body: JSON.stringify({ batch: Array.from({ length: 1001 }, (_, i) => ({ ts: now - i, values: { charge_kv: 1 } })) }) },
-      // the broker lets only known devices in; the service account can still write to any device topic
-      { reason: "unknown_device", body: JSON.stringify({ ts: now, values: { charge_kv: 1 } }), via: "service", code: "fm-no-such-device" },
+      { reason: "unknown_device", body: JSON.stringify({ ts: now, values: { charge_kv: 1 } }), via: "ghost", code: GHOST },
     ];
     for (const [i, b] of bad.entries()) {
       const code = b.code ?? FM;
-      if (b.via === "service") await publishAsync(svc, deviceTopics.readings(code), b.body);
+      if (b.via === "ghost") await publishAsync(ghost, deviceTopics.readings(code), b.body);
       else await publishAsync(fm, deviceTopics.readings(FM), b.body);
       // the good message right after
       const goodTs = now - 60_000 + i * 10;
@@ -111,28 +119,31 @@ describe("bad input", () => {
     const long = rows.find((r) => r.reason === "batch_too_long")!;
     expect(long.deviceCode).toBe(FM);
     expect(long.payload!.length).toBeLessThanOrEqual(500);
-    expect((await listRecentRejections(tdb.db, { deviceCode: "fm-no-such-device" }))[0].reason).toBe("unknown_device");
+    expect((await listRecentRejections(tdb.db, { deviceCode: GHOST }))[0].reason).toBe("unknown_device");
     await endClient(fm);
+    await endClient(ghost);
   });
 
-  it("rejects a disabled device's messages (refused at the broker too) and stores them again once enabled", async () => {
+  it("rejects a disabled device's messages (should one get past the broker) and stores them again once enabled", async () => {
     const code = "fm-labeller-1-dispense";
     const id = await deviceId(code);
+    const dev = await connectDevice(stack, code, secrets[code]);
     await tdb.pool.query("UPDATE devices SET enabled = 0 WHERE id = ?", [id]);
     const before = (await stack.workerStats()).rejected.byReason.device_disabled ?? 0;
     const ts = Date.now() - 5000;
     // the worker reloads devices every 300 ms in this test (20 s by default)
     await new Promise((r) => setTimeout(r, 1000));
-    await publishAsync(svc, deviceTopics.readings(code), JSON.stringify({ ts, values: { charge_kv: 1 } }));
+    await publishAsync(dev, deviceTopics.readings(code), JSON.stringify({ ts, values: { charge_kv: 1 } }));
     await waitFor("the rejection", async () => ((await stack.workerStats()).rejected.byReason.device_disabled ?? 0) === before + 1);
     await new Promise((r) => setTimeout(r, 500));
     expect(await countRows("SELECT COUNT(*) n FROM readings WHERE device_id = ?", [id])).toBe(0);
     await tdb.pool.query("UPDATE devices SET enabled = 1 WHERE id = ?", [id]);
     await waitFor("the message to be stored once enabled", async () => {
-      await publishAsync(svc, deviceTopics.readings(code), JSON.stringify({ ts, values: { charge_kv: 1 } }));
+      await publishAsync(dev, deviceTopics.readings(code), JSON.stringify({ ts, values: { charge_kv: 1 } }));
       await new Promise((r) => setTimeout(r, 200));
       return (await countRows("SELECT COUNT(*) n FROM readings WHERE device_id = ?", [id])) === 1;
     }, 10_000, 200);
+    await endClient(dev);
   });
 });
 
