@@ -52,6 +52,7 @@ afterAll(async () => {
   await stack?.stop();
   await tdb?.close();
   await closeDb();
+  if (tlsDir) fs.rmSync(path.dirname(tlsDir), { recursive: true, force: true });
 });
 
 function closedWithin(c: MqttClient, ms: number): Promise<boolean> {
