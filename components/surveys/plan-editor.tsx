@@ -81,7 +81,7 @@ export function PlanEditor({ lines, plan, saveAction }: { lines: SurveyLineOptio
             <li key={s.key} className="rounded border border-paper-line bg-paper-raised p-2">
               <div className="flex items-center gap-2">
                 <span className="num w-5 text-sm text-ink-faint">{i + 1}</span>
-                <input aria-label={`Spot ${i + 1} name`} className={clsx(inputClass, "min-w-0 flex-1")} value={s.name} maxLength={120} onChange={(e) => change(i, { name: e.target.value })} />
+                <input aria-label={`Spot ${i + 1} name`} className={clsx(inputClass.replace("w-full", "w-0"), "min-w-0 flex-1")} value={s.name} maxLength={120} onChange={(e) => change(i, { name: e.target.value })} />
                 <button type="button" aria-label="Move up" onClick={() => move(i, -1)} className="rounded border border-paper-line px-2 py-1 text-sm">↑</button>
                 <button type="button" aria-label="Move down" onClick={() => move(i, 1)} className="rounded border border-paper-line px-2 py-1 text-sm">↓</button>
                 <button type="button" aria-label="Remove" onClick={() => setSpots((x) => x.filter((_, k) => k !== i))} className="rounded border border-paper-line px-2 py-1 text-sm text-over">✕</button>
@@ -90,7 +90,7 @@ export function PlanEditor({ lines, plan, saveAction }: { lines: SurveyLineOptio
                 <span>{s.pointId !== null ? "measuring point of the line" : "survey-only spot"}</span>
                 <label className="flex items-center gap-1">
                   after neutralizer
-                  <input aria-label={`Spot ${i + 1} after neutralizer`} className={clsx(inputClass, "w-36 py-0.5 text-xs")} value={s.afterNeutralizer ?? ""} maxLength={80} placeholder="none" onChange={(e) => change(i, { afterNeutralizer: e.target.value.trim() ? e.target.value : null })} />
+                  <input aria-label={`Spot ${i + 1} after neutralizer`} className={clsx(inputClass.replace("w-full", "w-36"), "py-0.5 text-xs")} value={s.afterNeutralizer ?? ""} maxLength={80} placeholder="none" onChange={(e) => change(i, { afterNeutralizer: e.target.value.trim() ? e.target.value : null })} />
                 </label>
               </div>
             </li>

@@ -8,7 +8,8 @@ import clsx from "clsx";
 import { checkReading, EQUIVALENCE_FORMULA, EQUIVALENCE_LIMITS, type MeterUnit } from "@/lib/surveys/judge";
 import type { StoredReading } from "./round-store";
 
-const input = "block w-full rounded border border-paper-line bg-white px-3 py-2 text-base outline-none focus:border-brand focus:ring-2 focus:ring-brand-soft";
+const base = "block rounded border border-paper-line bg-white px-3 py-2 text-base outline-none focus:border-brand focus:ring-2 focus:ring-brand-soft";
+const input = `${base} w-full`;
 
 export function ReadingForm({
   spotKey,
@@ -65,8 +66,8 @@ export function ReadingForm({
               </button>
             ))}
           </div>
-          <input aria-label="Reading magnitude" inputMode="decimal" className={clsx(input, "num min-w-0 flex-1")} value={magnitude} onChange={(e) => setMagnitude(e.target.value)} placeholder="e.g. 12.5" />
-          <select aria-label="Unit" className={clsx(input, "w-20 shrink-0")} value={unit} onChange={(e) => setUnit(e.target.value === "V" ? "V" : "kV")}>
+          <input aria-label="Reading magnitude" inputMode="decimal" className={clsx(base, "num w-0 min-w-0 flex-1")} value={magnitude} onChange={(e) => setMagnitude(e.target.value)} placeholder="e.g. 12.5" />
+          <select aria-label="Unit" className={clsx(base, "w-20 shrink-0 px-2")} value={unit} onChange={(e) => setUnit(e.target.value === "V" ? "V" : "kV")}>
             <option value="kV">kV</option>
             <option value="V">V</option>
           </select>

@@ -30,7 +30,8 @@ async function noSideways(page: import("@playwright/test").Page) {
 
 async function enter(page: import("@playwright/test").Page, spot: string, sign: "+" | "−", magnitude: string) {
   const card = page.locator(`[data-testid="spot"][data-spot="${spot}"]`);
-  if (!(await card.getByTestId("reading-form").isVisible())) await card.locator("button[aria-expanded]").click();
+  // the next spot to measure opens by itself, in web-path order
+  await expect(card.getByTestId("reading-form")).toBeVisible();
   await card.getByRole("button", { name: sign, exact: true }).click();
   await card.getByLabel("Reading magnitude").fill(magnitude);
   await card.getByLabel("Speed m/min").fill("380");
@@ -72,6 +73,8 @@ test("a whole round on a phone with the network cut half-way is sent once when i
   card = await enter(page, "knife-exit", "+", "4.2");
   await card.getByRole("button", { name: "Save reading" }).click();
   await expect(page.getByTestId("queue-status")).toHaveText("Offline · 1 reading waiting to be sent");
+  await noSideways(page);
+  await page.screenshot({ path: path.join(SHOTS, "survey-round-phone.png"), fullPage: true });
   card = await enter(page, "rewind", "+", "9.5");
   await card.getByRole("button", { name: "Save reading" }).click();
   await expect(page.getByTestId("queue-status")).toHaveText("Offline · 2 readings waiting to be sent");
@@ -129,6 +132,10 @@ test("the findings of a survey and an action made from one, on the due list", as
   await spreader.getByRole("button", { name: "Add to the due list" }).click();
   await expect(page.locator('[data-testid="survey-action"][data-state="open"]').filter({ hasText: "Move bar S2-1 closer" })).toContainText("owner Priya Lund");
   await noSideways(page);
+  const pdf = await page.request.get(`/api/surveys/${surveyId}/pdf`);
+  expect(pdf.status()).toBe(200);
+  fs.mkdirSync(SHOTS, { recursive: true });
+  fs.writeFileSync(path.join(SHOTS, "survey-report-full.pdf"), await pdf.body());
   await page.goto("/checks");
   await expect(page.getByTestId("survey-actions").getByText("Move bar S2-1 closer to the spreader roller")).toBeVisible();
 });

@@ -63,7 +63,7 @@ export async function buildSurveyPdf(rep: SurveyReport, opts: { timeZone: string
   // line sketch in web-path order
   doc.x = 40;
   doc.font("Helvetica-Bold").fontSize(11).fillColor(INK).text("Line in web-path order", 40, doc.y);
-  const sy = doc.y + 22;
+  const sy = doc.y + 30;
   const n = Math.max(rep.spots.length, 1);
   const step = W / n;
   doc.moveTo(40, sy).lineTo(40 + W, sy).lineWidth(2).strokeColor(LINE).stroke();
