@@ -17,7 +17,8 @@ export const edgeNodes = mysqlTable(
     groupId: varchar("group_id", { length: 64 }).notNull(),
     nodeId: varchar("node_id", { length: 64 }).notNull(),
     label: varchar("label", { length: 120 }).notNull(),
-    secretHash: varchar("secret_hash", { length: 100 }).notNull(),
+    // salted hash, and the secret sealed for an MQTT broker that keeps its own credentials (lib/device-secrets.ts)
+    secretHash: varchar("secret_hash", { length: 255 }).notNull(),
     enabled: boolean("enabled").notNull().default(true),
     online: boolean("online").notNull().default(false),
     bdSeq: int("bd_seq"),

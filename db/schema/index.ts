@@ -6,4 +6,5 @@ export * from "./records";
 export * from "./surveys";
 export * from "./gateways";
 export * from "./notify";
+export * from "./coordination";
 export * from "./relations";

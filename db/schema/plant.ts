@@ -71,7 +71,8 @@ export const devices = mysqlTable(
     code: varchar("code", { length: 64 }).notNull().unique(),
     kind: mysqlEnum("kind", DEVICE_KINDS).notNull(),
     label: varchar("label", { length: 120 }).notNull(),
-    secretHash: varchar("secret_hash", { length: 100 }).notNull(),
+    // salted hash, and the secret sealed for an MQTT broker that keeps its own credentials (lib/device-secrets.ts)
+    secretHash: varchar("secret_hash", { length: 255 }).notNull(),
     pointId: int("point_id").references(() => points.id),
     areaId: int("area_id").references(() => areas.id),
     lineId: int("line_id").references(() => lines.id),
