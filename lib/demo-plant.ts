@@ -38,7 +38,7 @@ export const DEMO_PLANT_NAME = "Harrow Fen Packaging";
 export const DEMO_AREAS: DemoArea[] = [
   { slug: "press-hall", name: "Press Hall", rhMinPct: 40, rhMaxPct: 60, tempSetpointC: 22, humidifierKgPerH: 12, airflowM3PerH: 9000 },
   { slug: "converting-hall", name: "Converting Hall", rhMinPct: 40, rhMaxPct: 60, tempSetpointC: 21, humidifierKgPerH: 6, airflowM3PerH: 7000 },
-  { slug: "labelling-room", name: "Labelling Room", rhMinPct: 40, rhMaxPct: 60, tempSetpointC: 21, humidifierKgPerH: 0, airflowM3PerH: 2000 },
+  { slug: "labelling-room", name: "Labelling Room", rhMinPct: 40, rhMaxPct: 60, tempSetpointC: 21, humidifierKgPerH: 3, airflowM3PerH: 2000 },
 ];
 
 // MIE values: vapour in air at the most easily ignited concentration (NFPA 77 Annex, from memory).

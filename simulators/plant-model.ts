@@ -10,20 +10,28 @@
 //   W_eq(t); the hall follows it with a first-order lag (air-change time constant HALL_TAU_MIN),
 //   computed as an exponentially weighted mean of W_eq over the past 6 h, so it stays a pure
 //   function of time. RH = RH(T_hall, W).
-//   Cold snap: outdoor temperature falls by COLD_SNAP.deltaTempC over rampInH and the air is
+//   Cold snap: outdoor temperature falls by the spell's deltaTempC over rampInH and the air is
 //   drier; the heated halls dry out over hours (typ. 43 % → under 20 %).
 // Charge at a measuring point (common-practice model):
-//   q = polarity · baseKv · (speed / nominal)^0.7 · f(RH) · (1 − η) + CARRY · q(previous point)
+//   fresh charge g = polarity · baseKv · (speed / nominal)^0.7 · f(RH) at each point's process;
+//   after a bar, q = before · (1 − η) + PICKUP · g, where "before" is the charge the web carries
+//   into the bar (the previous point's meter reading; the unwind's own fresh charge for the
+//   first point) and PICKUP · g what the web picks up on the rollers between bar and meter. So a
+//   healthy bar shows its real reduction between the meters before and after it.
 //   f(RH) = 10^(−(RH − 20)/40): tenfold less from 20 % to 60 % RH (published tables of generated
 //   voltages at 10–20 % vs 65–90 % RH show ratios of 10–40; from memory, common practice).
 //   η is the effect of the point's neutralizer: 0.92 clean, decaying as exp(−age/τ) as it
 //   fouls (τ shorter on solvent presses, where ink mist builds up), restored by each cleaning;
-//   a power-unit fault sets η = 0 at once. A stopped web carries almost no fresh charge.
+//   a power-unit fault sets η = 0 at once. A bar's ion output is fixed, so above nominal speed
+//   it neutralizes less of a faster web: η × √(nominal / speed) (a simulator assumption: fewer
+//   ions per metre of web, partly made up by the stronger field of a more charged web).
+//   A stopped web carries almost no fresh charge.
 //   Readings are clipped to 95 % of what air breakdown allows at 25 mm (lib/physics).
-// Scenario, relative to the anchor (the moment the demo first started, "now" for a fresh demo):
-//   cold snap from 30 h before to 12 h after; the unwind neutralizer of Gravure Press 1 last
+// Scenario, relative to the anchor (the moment the demo first started, "now" for a fresh demo),
+// unless the scenario carries its own incident plan (simulators/incident-plan.ts):
+//   cold snap from 30 h before to 12 h after; the infeed neutralizer of Gravure Press 1 last
 //   cleaned 6.5 days before, then skipped, fouling fast (τ 3.5 d) until it has lost most of its
-//   effect (η 0.92 → 0.14 at the anchor; the charge there rises about tenfold); a
+//   effect (η 0.92 → 0.14 at the anchor; the charge after it approaches the charge before it); a
 //   power-unit fault on Flexo Press 2 at the print exit 6 h before (90 min) and again 40 min
 //   after the anchor (15 min); the knife-exit field meter of Slitter S1 silent 10 h before (2 h)
 //   and 25 min after (6 min). The live simulator also sends the odd malformed message.
@@ -39,6 +47,16 @@ import {
 import { maxReadingKv } from "../lib/physics/electrostatics";
 import { dryAirMassFlowKgPerH, humidityRatioKgPerKg, rhFromHumidityRatioPct } from "../lib/physics/psychrometrics";
 import type { Channel, DeviceKind } from "../lib/contract/readings-payload";
+import {
+  coldSpellAt,
+  demoIncidentPlan,
+  foulingAt,
+  humidifierFailed,
+  isSilentIn,
+  powerFaultAt,
+  speedFactorAt,
+  type IncidentPlan,
+} from "./incident-plan";
 
 const MIN = 60_000;
 const HOUR = 3_600_000;
@@ -46,19 +64,12 @@ const DAY = 86_400_000;
 
 export const HALL_TAU_MIN = 50;
 export const CLEAN_EFFECT = 0.92;
-export const CARRY = 0.15;
+/** Share of a point's fresh charge the web picks up between the bar and the meter after it. */
+export const PICKUP = 0.005;
 export const MAX_KV = 0.95 * maxReadingKv(25);
 
-export const COLD_SNAP = { startH: -30, rampInH: 6, endH: 12, rampOutH: 10, deltaTempC: -14, outdoorRhPct: 76 };
-export const FOULED_NEUTRALIZER = { lineSlug: "gravure-1", pointSlug: "unwind", cleanedDaysBefore: 6.5, tauDays: 3.5 };
-export const POWER_FAULTS = [
-  { lineSlug: "flexo-2", pointSlug: "print-exit", startH: -6, durationH: 1.5 },
-  { lineSlug: "flexo-2", pointSlug: "print-exit", startH: 40 / 60, durationH: 0.25 },
-];
-export const SILENT_WINDOWS = [
-  { code: fieldMeterCode("slitter-1", "knife-exit"), startH: -10, durationH: 2 },
-  { code: fieldMeterCode("slitter-1", "knife-exit"), startH: 25 / 60, durationH: 0.1 },
-];
+// The demo's incidents (cold snap, fouling bar, power-unit faults, silent meter) are its plan:
+// demoIncidentPlan in simulators/incident-plan.ts.
 /** water added inside each hall by people and process, kg/h (an assumption for the demo) */
 const INTERNAL_MOISTURE_KG_PER_H: Record<string, number> = { "press-hall": 1.5, "converting-hall": 1.0, "labelling-room": 0.3 };
 
@@ -75,7 +86,19 @@ export type SimDevice = {
   area: DemoArea;
 };
 
-export type Scenario = { anchorMs: number; seed: number };
+export type Scenario = { anchorMs: number; seed: number; /** the incidents to play; the demo's own when absent */ incidents?: IncidentPlan };
+
+const planCache = new WeakMap<Scenario, IncidentPlan>();
+/** The scenario's incident plan (the demo's, relative to its anchor, unless it carries one). */
+export function planOf(sc: Scenario): IncidentPlan {
+  if (sc.incidents) return sc.incidents;
+  let plan = planCache.get(sc);
+  if (!plan) {
+    plan = demoIncidentPlan(sc.anchorMs);
+    planCache.set(sc, plan);
+  }
+  return plan;
+}
 
 export function listSimDevices(): SimDevice[] {
   const out: SimDevice[] = [];
@@ -125,16 +148,11 @@ function wobble(seed: number, stream: number, tMs: number, periodH: number): num
   return 0.65 * Math.sin(x + p1) + 0.35 * Math.sin(2.7 * x + p2);
 }
 
-const smoothstep = (x: number) => (x <= 0 ? 0 : x >= 1 ? 1 : x * x * (3 - 2 * x));
-
 // ---- weather and halls ----
 
 /** 0 outside the cold snap, 1 at its depth. */
 export function coldSnapDepth(sc: Scenario, tMs: number): number {
-  const h = (tMs - sc.anchorMs) / HOUR;
-  const into = smoothstep((h - COLD_SNAP.startH) / COLD_SNAP.rampInH);
-  const out = smoothstep((h - COLD_SNAP.endH) / COLD_SNAP.rampOutH);
-  return into * (1 - out);
+  return coldSpellAt(planOf(sc), tMs).depth;
 }
 
 /** Hour of day (UTC) as a fraction of a day's cycle peaking mid-afternoon. */
@@ -144,11 +162,12 @@ function dailyCycle(tMs: number): number {
 }
 
 export function outdoorAir(sc: Scenario, tMs: number): { tempC: number; rhPct: number } {
-  const snap = coldSnapDepth(sc, tMs);
+  const spell = coldSpellAt(planOf(sc), tMs);
+  const snap = spell.depth;
   const daily = dailyCycle(tMs);
-  const tempC = 8 + 3 * daily + 2 * wobble(sc.seed, 901, tMs, 80) + COLD_SNAP.deltaTempC * snap;
+  const tempC = 8 + 3 * daily + 2 * wobble(sc.seed, 901, tMs, 80) + spell.deltaTempC * snap;
   const normalRh = 88 - 7 * daily + 3 * wobble(sc.seed, 902, tMs, 50);
-  const rhPct = normalRh + (COLD_SNAP.outdoorRhPct - normalRh) * snap;
+  const rhPct = normalRh + (spell.outdoorRhPct - normalRh) * snap;
   return { tempC, rhPct: Math.min(99, Math.max(30, rhPct)) };
 }
 
@@ -165,7 +184,8 @@ function equilibriumHumidityRatio(sc: Scenario, area: DemoArea, areaIndex: numbe
   const internal = INTERNAL_MOISTURE_KG_PER_H[area.slug] ?? 0.5;
   const wTarget = humidityRatioKgPerKg(tIn, Math.min(95, area.rhMinPct + 5));
   const needKgPerH = Math.max(0, dryAirKgPerH * (wTarget - wOut) - internal);
-  const humidifierKgPerH = Math.min(area.humidifierKgPerH, needKgPerH);
+  const capacityKgPerH = humidifierFailed(planOf(sc), area.slug, tMs) ? 0 : area.humidifierKgPerH;
+  const humidifierKgPerH = Math.min(capacityKgPerH, needKgPerH);
   return wOut + (internal + humidifierKgPerH) / dryAirKgPerH;
 }
 
@@ -238,7 +258,7 @@ export function lineState(sc: Scenario, line: DemoLine, lineIndex: number, tMs: 
   const prevStopEnd = stoppedUntil(sc, line, lineIndex, tMs - 90_000);
   if (prevStopEnd !== null && prevStopEnd <= tMs) sinceStartS = (tMs - prevStopEnd) / 1000;
   const ramp = Math.min(1, sinceStartS / 90);
-  const speed = line.nominalSpeedMpm * (0.93 + 0.05 * wobble(sc.seed, 300 + lineIndex, tMs, 1.5)) * ramp;
+  const speed = line.nominalSpeedMpm * (0.93 + 0.05 * wobble(sc.seed, 300 + lineIndex, tMs, 1.5)) * ramp * speedFactorAt(planOf(sc), line.slug, tMs);
   return { running: true, speedMpm: Math.max(0, speed) };
 }
 
@@ -268,14 +288,10 @@ function stoppedUntil(sc: Scenario, line: DemoLine, lineIndex: number, tMs: numb
 /** Effect of the neutralizer serving a point, 0…1. */
 export function neutralizerEffect(sc: Scenario, line: DemoLine, lineIndex: number, pointIndex: number, tMs: number): number {
   const point = line.points[pointIndex];
-  for (const f of POWER_FAULTS) {
-    const start = sc.anchorMs + f.startH * HOUR;
-    if (f.lineSlug === line.slug && f.pointSlug === point.slug && tMs >= start && tMs < start + f.durationH * HOUR) return 0;
-  }
-  if (line.slug === FOULED_NEUTRALIZER.lineSlug && point.slug === FOULED_NEUTRALIZER.pointSlug) {
-    const ageDays = Math.max(0, (tMs - (sc.anchorMs - FOULED_NEUTRALIZER.cleanedDaysBefore * DAY)) / DAY);
-    return CLEAN_EFFECT * Math.exp(-ageDays / FOULED_NEUTRALIZER.tauDays);
-  }
+  const plan = planOf(sc);
+  if (powerFaultAt(plan, line.slug, point.slug, tMs)) return 0;
+  const fouling = foulingAt(plan, line.slug, point.slug, tMs);
+  if (fouling !== null) return CLEAN_EFFECT * Math.exp(-fouling.ageDays / fouling.tauDays);
   // cleaned on schedule (7 days on solvent presses, 14 elsewhere), phase staggered per unit
   const intervalDays = line.solventName ? 7 : 14;
   const tauDays = line.solventName ? 40 : 90;
@@ -308,27 +324,29 @@ export class PlantModel {
   }
 
   isSilent(code: string, tMs: number): boolean {
-    return SILENT_WINDOWS.some((w) => {
-      const start = this.scenario.anchorMs + w.startH * HOUR;
-      return w.code === code && tMs >= start && tMs < start + w.durationH * HOUR;
-    });
+    return isSilentIn(planOf(this.scenario), code, tMs);
   }
 
-  /** Field-meter readings (without noise) of every point of a line at one instant. */
-  private lineCharges(line: DemoLine, lineIndex: number, tMs: number): number[] {
+  /** Field-meter readings (without noise) of every point of a line at one instant (ground truth reads them too). */
+  lineCharges(line: DemoLine, lineIndex: number, tMs: number): number[] {
     const hit = this.lineCache.get(lineIndex);
     if (hit && hit.tMs === tMs) return hit.charges;
     const state = lineState(this.scenario, line, lineIndex, tMs);
     const hall = this.climate.at(DEMO_AREAS.find((a) => a.slug === line.areaSlug)!, tMs);
-    const speedFactor = state.running ? Math.pow(state.speedMpm / line.nominalSpeedMpm, 0.7) : 0.03;
+    const speedRatio = state.speedMpm / line.nominalSpeedMpm;
+    const speedFactor = state.running ? Math.pow(speedRatio, 0.7) : 0.03;
     const rhFactor = humidityFactor(hall.rhPct);
+    // a bar's fixed ion output covers less of a faster web
+    const barCover = state.running && speedRatio > 1 ? 1 / Math.sqrt(speedRatio) : 1;
     const charges: number[] = [];
-    let upstream = 0;
+    let before = 0;
     line.points.forEach((p, i) => {
-      const eta = neutralizerEffect(this.scenario, line, lineIndex, i, tMs);
-      const q = p.polarity * p.baseKv * speedFactor * rhFactor * (1 - eta) + CARRY * upstream;
+      const eta = neutralizerEffect(this.scenario, line, lineIndex, i, tMs) * barCover;
+      const fresh = p.polarity * p.baseKv * speedFactor * rhFactor;
+      // the first bar sees the unwind's own fresh charge; later bars what the meter before them read
+      const q = (i === 0 ? fresh : before) * (1 - eta) + PICKUP * fresh;
       charges.push(q);
-      upstream = q;
+      before = q;
     });
     this.lineCache.set(lineIndex, { tMs, charges });
     return charges;

@@ -68,10 +68,11 @@ describe("backfilled week", () => {
     expect(hi - lo).toBeGreaterThan(15);
   });
 
-  it("shows the Gravure Press 1 unwind neutralizer fouling while the hall's humidity stays the same", async () => {
-    // two stretches before the cold snap, soon after its last cleaning and days later
-    const early = await mean("fm-gravure-1-unwind", "charge_kv", -6.4 * 24, -5.9 * 24, "AVG(ABS(value))");
-    const late = await mean("fm-gravure-1-unwind", "charge_kv", -3 * 24, -2.5 * 24, "AVG(ABS(value))");
+  it("shows the Gravure Press 1 infeed neutralizer fouling while the hall's humidity stays the same", async () => {
+    // two stretches before the cold snap, soon after its last cleaning and days later; the
+    // meter after the fouling bar (the infeed) reads more and more of the charge before it
+    const early = await mean("fm-gravure-1-infeed", "charge_kv", -6.4 * 24, -5.9 * 24, "AVG(ABS(value))");
+    const late = await mean("fm-gravure-1-infeed", "charge_kv", -3 * 24, -2.5 * 24, "AVG(ABS(value))");
     const rhEarly = await mean("th-press-hall", "rh_pct", -6.4 * 24, -5.9 * 24);
     const rhLate = await mean("th-press-hall", "rh_pct", -3 * 24, -2.5 * 24);
     expect(Math.abs(rhEarly - rhLate)).toBeLessThan(4);

@@ -8,6 +8,12 @@ import { requirePagePermission } from "@/app/_server/session";
 import { getDb } from "@/db/client";
 import {
   BENCHMARK_ACCEPTABLE_PER_10_MIN,
+  BENCHMARK_ACCEPTABLE_PER_DAY,
+  BENCHMARK_ACCEPTABLE_PER_HOUR,
+  BENCHMARK_MANAGEABLE_PER_DAY,
+  BENCHMARK_MANAGEABLE_PER_HOUR,
+  CHATTER_RAISES,
+  CHATTER_SPAN_MS,
   BENCHMARK_FLOOD_TIME_FRACTION,
   BENCHMARK_MANAGEABLE_PER_10_MIN,
   FLOOD_PER_10_MIN,
@@ -34,8 +40,11 @@ const SPANS = [
 const VERDICT: Record<AlertLoad["verdict"], { word: string; tone: string; text: string }> = {
   acceptable: { word: "Very likely acceptable", tone: "border-paper-line bg-paper-raised", text: `About ${BENCHMARK_ACCEPTABLE_PER_10_MIN} alert per 10 minutes or fewer on average.` },
   manageable: { word: "Manageable", tone: "border-paper-line bg-paper-raised", text: `Between ${BENCHMARK_ACCEPTABLE_PER_10_MIN} and ${BENCHMARK_MANAGEABLE_PER_10_MIN} alerts per 10 minutes on average.` },
-  demanding: { word: "Over the benchmark", tone: "border-near/40 bg-near-soft", text: `More than ${BENCHMARK_MANAGEABLE_PER_10_MIN} alerts per 10 minutes on average: likely to be missed.` },
-  overloaded: { word: "Overloaded", tone: "border-over/40 bg-over-soft", text: "Above the benchmark rate and in flood too often: people cannot keep up." },
+  overloaded: {
+    word: "Overloaded",
+    tone: "border-over/40 bg-over-soft",
+    text: `In flood ${BENCHMARK_FLOOD_TIME_FRACTION * 100} % of the time or more, or more than ${BENCHMARK_MANAGEABLE_PER_10_MIN} alerts per 10 minutes on average: people cannot keep up.`,
+  },
 };
 
 export default async function AlertLoadPage({ searchParams }: { searchParams: Promise<Record<string, string | string[] | undefined>> }) {
@@ -50,7 +59,7 @@ export default async function AlertLoadPage({ searchParams }: { searchParams: Pr
   }
   const sp = await searchParams;
   const daysParam = Array.isArray(sp.days) ? sp.days[0] : sp.days;
-  const days = SPANS.find((s) => String(s.days) === daysParam)?.days ?? 7;
+  const days = SPANS.find((s) => String(s.days) === daysParam)?.days ?? 30;
   const db = getDb();
   const now = Date.now();
   const to = Math.ceil(now / 600_000) * 600_000;
@@ -90,7 +99,8 @@ export default async function AlertLoadPage({ searchParams }: { searchParams: Pr
           <div className="text-xs text-ink-soft">{verdict.text}</div>
         </div>
         <div className="grid grid-cols-2 gap-3 lg:grid-cols-3">
-          <Figure label="Alerts raised" value={String(load.total)} note={`${(load.total / days).toFixed(1)} a day`} />
+          <Figure label="Alerts raised" value={String(load.total)} note={`${load.averagePerDay.toFixed(1)} a day (busiest ${load.peakPerDay}); benchmark about ${BENCHMARK_ACCEPTABLE_PER_DAY}, at most ${BENCHMARK_MANAGEABLE_PER_DAY}`} />
+          <Figure label="Per hour" value={load.averagePerHour.toFixed(2)} note={`busiest hour ${load.peakPerHour}; benchmark about ${BENCHMARK_ACCEPTABLE_PER_HOUR}, at most ${BENCHMARK_MANAGEABLE_PER_HOUR}`} warn={load.peakPerHour > BENCHMARK_MANAGEABLE_PER_HOUR} />
           <Figure label="Busiest 10 minutes" value={String(load.peakPer10Min)} note={load.peakPer10Min > FLOOD_PER_10_MIN ? "a flood" : "no flood"} warn={load.peakPer10Min > FLOOD_PER_10_MIN} />
           <Figure
             label="Time in flood"
@@ -98,8 +108,8 @@ export default async function AlertLoadPage({ searchParams }: { searchParams: Pr
             note={`target under ${BENCHMARK_FLOOD_TIME_FRACTION * 100} %`}
             warn={load.floodTimeFraction >= BENCHMARK_FLOOD_TIME_FRACTION}
           />
-          <Figure label="Floods" value={String(load.floods.length)} note={`more than ${FLOOD_PER_10_MIN} alerts in 10 min`} />
-          <Figure label="Chattering alerts" value={String(load.chatteringCount)} note="raised again within 60 s of clearing; target none" warn={load.chatteringCount > 0} />
+          <Figure label="Floods" value={String(load.floods.length)} note={`more than ${FLOOD_PER_10_MIN} alerts in any 10 min (sliding)`} />
+          <Figure label="Chattering alerts" value={String(load.chatteringRules.length)} note={`raised ${CHATTER_RAISES} times or more within ${CHATTER_SPAN_MS / 60_000} min; target none`} warn={load.chatteringRules.length > 0} />
           <Figure label="Standing over 24 h" value={String(load.standing.length)} note="still active now" warn={load.standing.length > 0} />
         </div>
       </div>
@@ -109,17 +119,20 @@ export default async function AlertLoadPage({ searchParams }: { searchParams: Pr
       </Card>
 
       <div className="grid gap-5 xl:grid-cols-2">
-        <Card title="Ten noisiest rules" aside={<span className="text-xs text-ink-faint">share of all alerts raised</span>}>
+        <Card title="Ten noisiest alerts" aside={<span className="text-xs text-ink-faint">rule and place, share of all alerts raised</span>}>
           {load.noisiest.length === 0 ? (
             <p className="text-sm text-ink-faint">No alerts in this span.</p>
           ) : (
             <table className="w-full text-sm" data-testid="noisiest">
               <tbody>
                 {load.noisiest.map((r) => (
-                  <tr key={r.ruleId} className="border-t border-paper-line first:border-0">
+                  <tr key={`${r.ruleId}-${r.subjectKey}`} className="border-t border-paper-line first:border-0">
                     <td className="py-1.5 pr-2">
                       <div className="font-medium">{r.ruleName ?? `Rule ${r.ruleId}`}</div>
-                      {r.ruleName && r.ruleName !== RULE_KIND_WORDS[r.kind] ? <div className="text-xs text-ink-faint">{RULE_KIND_WORDS[r.kind]}</div> : null}
+                      <div className="text-xs text-ink-faint">
+                        {where(r.subjectKey)}
+                        {r.ruleName && r.ruleName !== RULE_KIND_WORDS[r.kind] ? ` · ${RULE_KIND_WORDS[r.kind]}` : ""}
+                      </div>
                     </td>
                     <td className="w-40 py-1.5 pr-2">
                       <span className="block h-2.5 rounded-sm bg-paper-sunk">
@@ -186,8 +199,14 @@ export default async function AlertLoadPage({ searchParams }: { searchParams: Pr
       <p className="mt-5 text-xs leading-relaxed text-ink-faint">
         Benchmarks, as published for operators of process plants (EEMUA Publication 191, 3rd edition, 2013; ANSI/ISA-18.2-2016 and its international counterpart IEC 62682:2022; quoted from memory): an average of about 1 alarm per 10 minutes is
         &ldquo;very likely acceptable&rdquo; and about 2 &ldquo;manageable&rdquo;; more than 10 alarms in 10 minutes is a flood, and a plant should be in flood less than 1 %
-        of the time; chattering alarms should be none, and the ten most frequent alarms should make up only a small share of the total. Stillfield&apos;s alerts are counted
-        the same way (every raise counts once).
+        of the time; about 6 per hour and 150 per day are very likely acceptable, 12 and 300 the most manageable; chattering alarms should be none, and the ten most
+        frequent alarms should make up only a small share of the total. Stillfield&apos;s alerts are counted the same way (every raise counts once, floods in a sliding
+        10-minute window, chattering as {CHATTER_RAISES} raises of one alert within {CHATTER_SPAN_MS / 60_000} minutes whatever its delays), and &ldquo;overloaded&rdquo; means in
+        flood 1 % of the time or more, or above 2 per 10 minutes on average.
+      </p>
+      <p className="mt-2 text-xs leading-relaxed text-ink-faint" data-testid="load-scope-note">
+        These figures are for the whole plant. The published figures are per operator position (one person&apos;s console); where several people share the alerts, each
+        one&apos;s load is lower than the plant&apos;s, so read the verdict as the plant-wide, stricter case.
       </p>
     </div>
   );

@@ -44,11 +44,11 @@ describe("plant model", () => {
     expect(during).toBeLessThan(25);
   });
 
-  it("fouls the Gravure Press 1 unwind neutralizer until most of its effect is gone, and faults a power unit", () => {
+  it("fouls the Gravure Press 1 infeed neutralizer (meters before and after it) until most of its effect is gone, and faults a power unit", () => {
     const g1 = DEMO_LINES.findIndex((l) => l.slug === "gravure-1");
     const f2 = DEMO_LINES.findIndex((l) => l.slug === "flexo-2");
-    expect(neutralizerEffect(sc, DEMO_LINES[g1], g1, 0, ANCHOR - 6.4 * 24 * H)).toBeGreaterThan(0.85);
-    expect(neutralizerEffect(sc, DEMO_LINES[g1], g1, 0, ANCHOR)).toBeLessThan(0.2);
+    expect(neutralizerEffect(sc, DEMO_LINES[g1], g1, 1, ANCHOR - 6.4 * 24 * H)).toBeGreaterThan(0.85);
+    expect(neutralizerEffect(sc, DEMO_LINES[g1], g1, 1, ANCHOR)).toBeLessThan(0.2);
     const printExit = DEMO_LINES[f2].points.findIndex((p) => p.slug === "print-exit");
     expect(neutralizerEffect(sc, DEMO_LINES[f2], f2, printExit, ANCHOR - 5.5 * H)).toBe(0);
     expect(neutralizerEffect(sc, DEMO_LINES[f2], f2, printExit, ANCHOR - 3 * H)).toBeGreaterThan(0.7);
@@ -73,5 +73,17 @@ describe("plant model", () => {
     const d = m.devices.find((x) => x.code === "fm-slitter-1-knife-exit")!;
     expect(m.valuesAt(d, ANCHOR - 9 * H)).toBeNull();
     expect(m.valuesAt(d, ANCHOR - 7 * H)).not.toBeNull();
+  });
+
+  it("shows a healthy bar's real reduction: after = before × (1 − η) + pickup (simulators/plant-model.ts)", () => {
+    const m = new PlantModel({ ...sc, incidents: { coldSpells: [], humidifierFailures: [], fouling: [], powerFaults: [], silences: [], speedUps: [] } });
+    const g1 = DEMO_LINES.findIndex((l) => l.slug === "gravure-1");
+    const line = DEMO_LINES[g1];
+    const t = ANCHOR - 3 * H;
+    const [unwind, infeed] = m.lineCharges(line, g1, t);
+    const eta = neutralizerEffect(m.scenario, line, g1, 1, t);
+    // the pickup term is at most PICKUP × |fresh charge| of the infeed, well under the bar's share
+    expect(Math.abs(infeed - unwind * (1 - eta))).toBeLessThan(0.1 * Math.abs(unwind));
+    expect(1 - Math.abs(infeed) / Math.abs(unwind)).toBeGreaterThan(0.75);
   });
 });

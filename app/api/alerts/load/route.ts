@@ -1,4 +1,4 @@
-// GET /api/alerts/load?from=&to= — alert load over a span (default the last 7 days): alerts per
+// GET /api/alerts/load?from=&to= — alert load over a span (default the last 30 days): alerts per
 // 10 minutes and per day, floods, chattering, standing alerts and the noisiest rules, with the
 // EEMUA 191 / ISA-18.2 benchmark figures.
 import { NextResponse } from "next/server";
@@ -17,7 +17,7 @@ export const GET = route("view", async ({ request }) => {
   const q = parseOrThrow(querySchema, queryObject(request), "alert-load query");
   const now = Date.now();
   const to = q.to ?? now;
-  const from = q.from ?? to - 7 * 86_400_000;
+  const from = q.from ?? to - 30 * 86_400_000;
   if (to - from > 93 * 86_400_000) return NextResponse.json({ error: "At most 93 days at a time.", code: "bad_input" }, { status: 400 });
   return NextResponse.json(await getAlertLoad(getDb(), from, to, now));
 });

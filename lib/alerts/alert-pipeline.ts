@@ -1,0 +1,50 @@
+/**
+ * The alert pipeline the live worker, the demo backfill and `npm run bench:alerts` share:
+ * rules engine (one transition per rule and subject) → one alert per condition
+ * (condition-merge.ts) → causes before symptoms (dependency-hold.ts). Pure: time is reading
+ * time, and ticks come from the caller.
+ */
+import { createRuleEngine, type RuleEngine } from "../rules/engine";
+import type { AlertTransition, Reading, RuleDefinitionInput, Topology } from "../rules/types";
+import { createConditionMerger, type ConditionEvent, type ConditionMerger, type ConditionMergerState } from "./condition-merge";
+import { createDependencyHold, type DependencyHold, type DependencyParent } from "./dependency-hold";
+
+export type AlertPipeline = {
+  push(reading: Reading): ConditionEvent[];
+  tick(nowTs: number): ConditionEvent[];
+  /** The engine underneath (its snapshot and active alerts). */
+  readonly engine: RuleEngine;
+  readonly merger: ConditionMerger;
+  readonly hold: DependencyHold;
+};
+
+export type AlertPipelineOptions = {
+  rules: readonly RuleDefinitionInput[];
+  topology: Topology;
+  parents?: readonly DependencyParent[];
+  engineState?: unknown;
+  mergerState?: ConditionMergerState;
+  /** Take an existing engine instead of building one (the worker reloads rules this way). */
+  engine?: RuleEngine;
+};
+
+export function createAlertPipeline(options: AlertPipelineOptions): AlertPipeline {
+  const engine = options.engine ?? createRuleEngine({ rules: options.rules, topology: options.topology, state: options.engineState });
+  const merger = createConditionMerger(options.mergerState);
+  const hold = createDependencyHold(options.parents ?? []);
+
+  function through(transitions: AlertTransition[], ts: number): ConditionEvent[] {
+    const out: ConditionEvent[] = [];
+    for (const t of transitions) for (const e of merger.push(t)) for (const h of hold.push(e)) out.push(h);
+    for (const e of hold.advance(ts)) out.push(e);
+    return out;
+  }
+
+  return {
+    push: (reading) => through(engine.push(reading), reading.ts),
+    tick: (nowTs) => through(engine.tick(nowTs), nowTs),
+    engine,
+    merger,
+    hold,
+  };
+}
