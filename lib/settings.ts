@@ -62,6 +62,13 @@ const schema = z.object({
   DB_NAME: z.string().regex(/^[A-Za-z0-9_]+$/, "DB_NAME may hold letters, digits and _ only").default("stillfield"),
   DB_POOL_SIZE: z.coerce.number().int().min(1).max(100).default(10),
   RAW_RETENTION_DAYS: z.coerce.number().int().min(1).max(3650).default(14),
+  /** a read-only GTID replica (scripts/mariadb-replica.sh) for chart, report and export reads; port 0 = none */
+  DB_REPLICA_HOST: z.string().default("127.0.0.1"),
+  DB_REPLICA_PORT: portOrOff(0),
+  /** reads go to the primary while the replica is further behind than this (or not replicating) */
+  DB_REPLICA_MAX_LAG_S: int(10, 0),
+  /** how long one check of the replica's lag is trusted */
+  DB_REPLICA_CHECK_MS: int(3000, 100),
   // broker: plain MQTT on loopback only (local services), MQTT over TLS for devices
   MQTT_HOST: z.string().default("127.0.0.1"),
   MQTT_PORT: port(1884),
@@ -178,6 +185,10 @@ export function parseSettings(env: Record<string, string | undefined>): Settings
   return { ...s, ...secrets, STILLFIELD_MODE: mode };
 }
 
+  /** how long one app process reuses a Floor snapshot (per hall) for every screen asking */
+  FLOOR_CACHE_MS: int(1000, 0),
+  /** bearer token for GET /api/health from a plant's monitoring (unset: admin sessions only) */
+  HEALTH_TOKEN: z.string().min(24, "HEALTH_TOKEN needs at least 24 characters").optional(),
 let cached: Settings | undefined;
 
 /** This process's settings, parsed once. */

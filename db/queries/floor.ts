@@ -1,12 +1,13 @@
 // Read models for the live screens: plant settings (time zone, shifts, units), the Floor's
-// current-state snapshot (structure, limits, open alerts, the last 15 minutes of every sensor)
-// and the alerts drawn on a line's time axis.
+// current-state snapshot (structure, limits, open alerts, the last 15 minutes of every sensor as
+// 1-minute means from the rollups, db/queries/floor-trends.ts) and the alerts drawn on a line's
+// time axis.
 import { and, desc, eq, gte, isNull, lte, ne, or } from "drizzle-orm";
 import type { Db } from "../client";
 import { alerts, devices } from "../schema";
 import type { FloorArea, FloorSnapshot, TimelineAlert } from "../../lib/views/floor";
 import { getPlantLayout, type PlantArea } from "./plant";
-import { getRecentTrends } from "./history";
+import { getFloorTrends } from "./floor-trends";
 import { listLimitRules } from "./limits";
 import { chartChargeLimit, chartRhLimit } from "../../lib/rules/limits-in-force";
 
@@ -14,7 +15,6 @@ import { getPlantSettings } from "./plant-settings";
 export { getPlantSettings };
 
 export const FLOOR_TREND_MS = 15 * 60_000;
-export const FLOOR_TREND_BUCKET_MS = 10_000;
 
 type OpenAlertRow = { areaId: number | null; lineId: number | null; pointId: number | null; shelvedUntilTs: number | null };
 
@@ -88,12 +88,15 @@ export function deviceIdsOf(areas: FloorArea[]): number[] {
   return ids;
 }
 
-/** The Floor (or one hall for the wallboard): structure plus the last 15 minutes of every sensor. */
-export async function getFloorSnapshot(db: Db, opts: { nowMs?: number; areaId?: number } = {}): Promise<FloorSnapshot> {
+/**
+ * The Floor (or one hall for the wallboard): structure plus the last 15 minutes of every sensor.
+ * `trendDb` (the read replica when fit, db/client.ts getReadDb) serves the trends; the rest is
+ * read from `db`.
+ */
+export async function getFloorSnapshot(db: Db, opts: { nowMs?: number; areaId?: number; trendDb?: Db } = {}): Promise<FloorSnapshot> {
   const nowTs = opts.nowMs ?? Date.now();
   const [plantSettings, areas] = await Promise.all([getPlantSettings(db), getFloorStructure(db, { nowMs: nowTs, areaId: opts.areaId })]);
-  const fromTs = Math.floor((nowTs - FLOOR_TREND_MS) / FLOOR_TREND_BUCKET_MS) * FLOOR_TREND_BUCKET_MS;
-  const series = await getRecentTrends(db, deviceIdsOf(areas), fromTs, nowTs, FLOOR_TREND_BUCKET_MS);
+  const series = await getFloorTrends(opts.trendDb ?? db, deviceIdsOf(areas), nowTs, FLOOR_TREND_MS);
   return { nowTs, settings: plantSettings, areas, series, trendMs: FLOOR_TREND_MS };
 }
 

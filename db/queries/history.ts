@@ -193,46 +193,6 @@ export async function getRecentReadings(db: Db, deviceIds: number[], sinceTs: nu
   return [...out.values()];
 }
 
-/**
- * Bucketed trend of several devices over a short recent window (the Floor's small trends):
- * the mean per bucket, stamped with the newest reading time in it, plus the exact newest sample.
- */
-export async function getRecentTrends(db: Db, deviceIds: number[], fromTs: number, toTs: number, bucketMs: number): Promise<RecentSeries[]> {
-  if (deviceIds.length === 0) return [];
-  const ids = sql.join(deviceIds.map((id) => sql`${id}`), sql`, `);
-  const [trendRes, latestRes] = await Promise.all([
-    db.execute(sql`
-      SELECT device_id AS d, channel AS c, (ts - ${fromTs}) DIV ${bucketMs} AS b, MAX(ts) AS t, AVG(value) AS v
-        FROM readings WHERE device_id IN (${ids}) AND ts >= ${fromTs} AND ts <= ${toTs}
-       GROUP BY device_id, channel, b ORDER BY device_id, channel, b`),
-    db.execute(sql`
-      SELECT r.device_id AS d, r.channel AS c, r.ts AS t, r.value AS v FROM readings r
-        JOIN (SELECT device_id, channel, MAX(ts) AS mt FROM readings
-               WHERE device_id IN (${ids}) AND ts >= ${fromTs} AND ts <= ${toTs} GROUP BY device_id, channel) m
-          ON r.device_id = m.device_id AND r.channel = m.channel AND r.ts = m.mt`),
-  ]);
-  const out = new Map<string, RecentSeries>();
-  const take = (res: unknown) => {
-    const rows = (Array.isArray(res) ? res[0] : res) as unknown;
-    return Array.isArray(rows) ? (rows as Array<Record<string, unknown>>) : [];
-  };
-  for (const r of take(trendRes)) {
-    const key = `${r.d}:${r.c}`;
-    let s = out.get(key);
-    if (!s) out.set(key, (s = { deviceId: Number(r.d), channel: String(r.c), samples: [] }));
-    s.samples.push([Number(r.t), Number(r.v)]);
-  }
-  for (const r of take(latestRes)) {
-    const s = out.get(`${r.d}:${r.c}`);
-    if (!s) continue;
-    // replace the last bucket's mean by the exact newest reading (same timestamp)
-    const last = s.samples[s.samples.length - 1];
-    if (last && last[0] === Number(r.t)) last[1] = Number(r.v);
-    else s.samples.push([Number(r.t), Number(r.v)]);
-  }
-  return [...out.values()];
-}
-
 export type HistoryDevice = { id: number; kind: "field_meter" | "th_logger" | "speed_gateway"; pointId: number | null; lineId: number | null; areaId: number | null };
 
 /** The device behind a history request: by device id, or the field meter of a point. */

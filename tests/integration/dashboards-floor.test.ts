@@ -5,6 +5,7 @@ import { alerts, ruleVersions, rules, settings } from "@/db/schema";
 import { eq } from "drizzle-orm";
 import { getFloorSnapshot, getPlantSettings, listLineAlerts } from "@/db/queries/floor";
 import { DEMO_AREAS, DEMO_LINES } from "@/lib/demo-plant";
+import { writeReadings } from "@/db/queries/readings-write";
 
 let tdb: TestDatabase;
 const now = Math.floor(Date.now() / 1000) * 1000;
@@ -102,5 +103,30 @@ describe("floor snapshot", () => {
     expect(await getPlantSettings(tdb.db)).toMatchObject({ timeZone: "America/Chicago", shifts: [{ name: "Days", start: "07:00" }], chargeUnit: "kV" });
     await tdb.db.update(settings).set({ value: { shifts: "three" } }).where(eq(settings.key, "plant"));
     expect((await getPlantSettings(tdb.db)).timeZone).toBe("Europe/London");
+  });
+
+  it("draws the last 15 minutes from the 1-minute rollups and ends each trend on the exact newest reading", async () => {
+    const minute = 60_000;
+    const at = Math.floor(now / minute) * minute + 42_000; // 42 s into the open minute
+    const snap0 = await getFloorSnapshot(tdb.db, { nowMs: at });
+    const meter = snap0.areas[0].lines[0].points[0].fieldMeter!;
+    const value = (ts: number) => Number((Math.sin(ts / 61_000) * 4 - 2).toFixed(3));
+    // 20 minutes at 1 Hz through the worker's writer, which adds each minute to rollup_1m
+    const rows = [];
+    for (let ts = at - 20 * minute; ts <= at; ts += 1000) rows.push({ deviceId: meter.deviceId, channel: "charge_kv" as const, ts, value: value(ts) });
+    await writeReadings(tdb.pool, rows);
+    const snap = await getFloorSnapshot(tdb.db, { nowMs: at });
+    const s = snap.series.find((x) => x.deviceId === meter.deviceId && x.channel === "charge_kv")!;
+    // minutes from the one holding (now − 15 min) to the open one: 16 minute means, then the newest reading
+    const firstMinute = Math.floor((at - 15 * minute) / minute) * minute;
+    expect(s.samples.slice(0, -1).map((x) => x[0])).toEqual(Array.from({ length: 16 }, (_, i) => firstMinute + i * minute));
+    expect(s.samples[s.samples.length - 1]).toEqual([at, value(at)]);
+    // each minute's point is the arithmetic mean of its readings (computed here from the rows written)
+    for (const [ts, mean] of s.samples.slice(0, -1)) {
+      const vals = rows.filter((r) => r.ts >= ts && r.ts < ts + minute).map((r) => r.value);
+      expect(mean).toBeCloseTo(vals.reduce((a, b) => a + b, 0) / vals.length, 3);
+    }
+    // the answer stays small: a few hundred bytes per series, not one point per 10 s
+    expect(JSON.stringify(s).length).toBeLessThan(600);
   });
 });

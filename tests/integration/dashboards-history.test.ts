@@ -2,7 +2,7 @@
 // buckets agree with aggregates computed here, independently, from the rows written.
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { createTestDatabase, type TestDatabase } from "../helpers/test-db";
-import { getHistory, getRecentReadings, getRecentTrends, findHistoryDevice } from "@/db/queries/history";
+import { getHistory, getRecentReadings, findHistoryDevice } from "@/db/queries/history";
 
 let tdb: TestDatabase;
 let deviceId: number;
@@ -138,16 +138,5 @@ describe("empty ranges and the live stream's helpers", () => {
       expect(s.samples[0][0]).toBe(since + 1000);
       expect(s.samples.every((x, i) => i === 0 || x[0] > s.samples[i - 1][0])).toBe(true);
     }
-  });
-
-  it("gives the Floor 10-second trends ending on the exact newest reading", async () => {
-    const series = await getRecentTrends(tdb.db, [deviceId], now - 15 * MIN, now, 10_000);
-    const s = series[0];
-    expect(s.samples.length).toBe(90);
-    expect(s.samples[s.samples.length - 1]).toEqual([now - 1000, value(now - 1000)]);
-    const first = s.samples[0];
-    const vals = Array.from({ length: 10 }, (_, i) => value(now - 15 * MIN + i * 1000));
-    expect(first[0]).toBe(now - 15 * MIN + 9000);
-    expect(first[1]).toBeCloseTo(vals.reduce((a, b) => a + b, 0) / 10, 9);
   });
 });

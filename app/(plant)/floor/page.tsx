@@ -3,8 +3,7 @@
 // client keeps it current from the live stream.
 import type { Metadata } from "next";
 import { requirePagePermission } from "@/app/_server/session";
-import { getDb } from "@/db/client";
-import { getFloorSnapshot } from "@/db/queries/floor";
+import { getCachedFloor } from "@/app/_server/floor-cache";
 import { Forbidden } from "@/components/ui/page";
 import { FloorBoard } from "@/components/floor/floor-board";
 
@@ -14,6 +13,6 @@ export const dynamic = "force-dynamic";
 export default async function FloorPage() {
   const { allowed } = await requirePagePermission("view", "/floor");
   if (!allowed) return <Forbidden what="see the Floor" />;
-  const snapshot = await getFloorSnapshot(getDb());
+  const { snapshot } = await getCachedFloor();
   return <FloorBoard initial={snapshot} />;
 }

@@ -5,7 +5,7 @@
 import { NextResponse } from "next/server";
 import { z } from "zod";
 import { parseOrThrow, queryObject, route } from "@/app/_server/route";
-import { getDb } from "@/db/client";
+import { getReadDb } from "@/db/client";
 import { getEnv } from "@/db/env";
 import { findHistoryDevice, getHistory, MAX_HISTORY_POINTS } from "@/db/queries/history";
 import { CHANNELS, CHANNELS_BY_KIND } from "@/lib/contract/readings-payload";
@@ -31,7 +31,7 @@ const querySchema = z
 
 export const GET = route("view", async ({ request }) => {
   const q = parseOrThrow(querySchema, queryObject(request), "history query");
-  const db = getDb();
+  const db = await getReadDb();
   const device = await findHistoryDevice(db, { deviceId: q.deviceId, pointId: q.pointId });
   if (!device) throw notFound(q.pointId !== undefined ? `Point ${q.pointId} has no field meter.` : `No sensor with id ${q.deviceId}.`);
   const channel = q.channel ?? (device.kind === "field_meter" ? "charge_kv" : undefined);

@@ -2,8 +2,7 @@
 import type { Metadata } from "next";
 import { z } from "zod";
 import { notFound, requirePagePermission } from "@/app/_server/session";
-import { getDb } from "@/db/client";
-import { getFloorSnapshot } from "@/db/queries/floor";
+import { getCachedFloor } from "@/app/_server/floor-cache";
 import { Wallboard } from "@/components/floor/wallboard";
 
 export const dynamic = "force-dynamic";
@@ -15,7 +14,7 @@ export default async function WallboardPage({ params }: { params: Promise<{ area
   if (!allowed) return <p className="p-10 text-2xl">Your role cannot see the wallboard (403).</p>;
   const id = z.coerce.number().int().positive().safeParse(areaId);
   if (!id.success) notFound();
-  const snapshot = await getFloorSnapshot(getDb(), { areaId: id.data });
+  const { snapshot } = await getCachedFloor(id.data);
   if (snapshot.areas.length === 0) notFound();
   return <Wallboard initial={snapshot} areaId={id.data} />;
 }

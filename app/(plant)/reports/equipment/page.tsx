@@ -1,7 +1,7 @@
 // Equipment compliance for a period (default: the last 90 days).
 import type { Metadata } from "next";
 import { requirePagePermission } from "@/app/_server/session";
-import { getDb } from "@/db/client";
+import { getReadDb } from "@/db/client";
 import { getPlantSettings } from "@/db/queries/reports";
 import { getComplianceReport } from "@/db/use-cases/compliance-report";
 import { formatDay, formatDayTime } from "@/lib/reports/format";
@@ -25,7 +25,7 @@ export default async function EquipmentReportPage({ searchParams }: { searchPara
       </div>
     );
   }
-  const db = getDb();
+  const db = await getReadDb();
   const now = Date.now();
   const settings = await getPlantSettings(db);
   const raw = firstValues(await searchParams);

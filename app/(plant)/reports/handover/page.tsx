@@ -3,7 +3,7 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { requirePagePermission } from "@/app/_server/session";
-import { getDb } from "@/db/client";
+import { getReadDb } from "@/db/client";
 import { getPlantSettings, listHandoverRecipients } from "@/db/queries/reports";
 import { getHandoverReport } from "@/db/use-cases/handover-report";
 import { can } from "@/lib/permissions";
@@ -31,7 +31,7 @@ export default async function HandoverPage({ searchParams }: { searchParams: Pro
       </div>
     );
   }
-  const db = getDb();
+  const db = await getReadDb();
   const now = Date.now();
   const settings = await getPlantSettings(db);
   const raw = firstValues(await searchParams);

@@ -2,7 +2,7 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { requirePagePermission } from "@/app/_server/session";
-import { getDb } from "@/db/client";
+import { getReadDb } from "@/db/client";
 import { getPlantLayout } from "@/db/queries/plant";
 import { getPlantSettings } from "@/db/queries/reports";
 import { getWeeklyReport } from "@/db/use-cases/weekly-report";
@@ -28,7 +28,7 @@ export default async function WeeklyPage({ searchParams }: { searchParams: Promi
       </div>
     );
   }
-  const db = getDb();
+  const db = await getReadDb();
   const now = Date.now();
   const [settings, plant] = await Promise.all([getPlantSettings(db), getPlantLayout(db)]);
   const raw = firstValues(await searchParams);

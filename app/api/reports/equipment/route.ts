@@ -1,6 +1,6 @@
 // GET /api/reports/equipment?from=YYYY-MM-DD&to=YYYY-MM-DD — equipment compliance as JSON
 // (default: the last 90 days).
-import { getDb } from "@/db/client";
+import { getReadDb } from "@/db/client";
 import { getPlantSettings } from "@/db/queries/reports";
 import { getComplianceReport } from "@/db/use-cases/compliance-report";
 import { complianceParamsSchema, resolveComplianceParams } from "@/lib/reports/params";
@@ -11,7 +11,7 @@ export const dynamic = "force-dynamic";
 
 export const GET = route("view", async ({ request }) => {
   const params = parseOrThrow(complianceParamsSchema, queryObject(request), "report request");
-  const db = getDb();
+  const db = await getReadDb();
   const now = Date.now();
   const settings = await getPlantSettings(db);
   const report = await getComplianceReport(db, resolveComplianceParams(params, settings.timeZone, now), now);

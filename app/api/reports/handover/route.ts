@@ -1,6 +1,6 @@
 // GET /api/reports/handover?date=YYYY-MM-DD&shift=Early — the shift handover as JSON
 // (without date and shift: the last completed shift).
-import { getDb } from "@/db/client";
+import { getReadDb } from "@/db/client";
 import { getPlantSettings } from "@/db/queries/reports";
 import { getHandoverReport } from "@/db/use-cases/handover-report";
 import { notFound } from "@/lib/errors";
@@ -12,7 +12,7 @@ export const dynamic = "force-dynamic";
 
 export const GET = route("view", async ({ request }) => {
   const params = parseOrThrow(handoverParamsSchema, queryObject(request), "report request");
-  const db = getDb();
+  const db = await getReadDb();
   const now = Date.now();
   const which = resolveHandoverParams(params, await getPlantSettings(db), now);
   const report = await getHandoverReport(db, which, now);

@@ -1,5 +1,5 @@
 // GET /api/reports/handover/csv?date=…&shift=…&table=alerts|points|halls|neutralizers|notes
-import { getDb } from "@/db/client";
+import { getReadDb } from "@/db/client";
 import { getPlantSettings } from "@/db/queries/reports";
 import { getHandoverReport } from "@/db/use-cases/handover-report";
 import { notFound } from "@/lib/errors";
@@ -13,7 +13,7 @@ export const dynamic = "force-dynamic";
 
 export const GET = route("view", async ({ request }) => {
   const params = parseOrThrow(handoverCsvParamsSchema, queryObject(request), "download request");
-  const db = getDb();
+  const db = await getReadDb();
   const now = Date.now();
   const which = resolveHandoverParams(params, await getPlantSettings(db), now);
   const report = await getHandoverReport(db, which, now);

@@ -1,5 +1,5 @@
 // GET /api/reports/weekly/csv?line=<id>&week=YYYY-MM-DD&table=points|rules|pairs
-import { getDb } from "@/db/client";
+import { getReadDb } from "@/db/client";
 import { getPlantSettings } from "@/db/queries/reports";
 import { getWeeklyReport } from "@/db/use-cases/weekly-report";
 import { badInput, notFound } from "@/lib/errors";
@@ -14,7 +14,7 @@ export const dynamic = "force-dynamic";
 export const GET = route("view", async ({ request }) => {
   const params = parseOrThrow(weeklyCsvParamsSchema, queryObject(request), "download request");
   if (params.line === undefined) throw badInput("Choose a line.", { line: ["Choose a line"] });
-  const db = getDb();
+  const db = await getReadDb();
   const now = Date.now();
   const settings = await getPlantSettings(db);
   const report = await getWeeklyReport(db, { lineId: params.line, date: resolveWeek(params, settings.timeZone, now) }, now);
