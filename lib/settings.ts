@@ -135,6 +135,27 @@ const schema = z.object({
   MAILER_MAX_PERMANENT: int(3),
   MAILER_SCHEDULE_EVERY_MS: int(60_000),
   MAILER_BATCH: int(20),
+  // texts and push (ingest/notifier.ts); the SMS provider's SDK is pointed at SMS_API_BASE when
+  // set (the local fake in the demo and tests), else at the provider itself
+  SMS_API_BASE: optionalText,
+  SMS_ACCOUNT_SID: z.string().regex(/^AC[0-9a-f]{32}$/, "an account SID is AC followed by 32 hex digits").default("AC00000000000000000000000000000000"),
+  SMS_AUTH_TOKEN: z.string().min(8).default("demo-only-sms-token"),
+  /** the sending number, E.164 (a reserved example number in the demo) */
+  SMS_FROM: z.string().regex(/^\+[1-9]\d{6,14}$/, "E.164, e.g. +447700900123").default("+447700900100"),
+  SMS_FAKE_PORT: port(9466),
+  /** what the fake SMS service does: "ok", "fail" (every message), "fail:<n>" (the first n), "delay:<ms>" */
+  SMS_FAKE_MODE: z.string().regex(/^(ok|fail|fail:\d+|delay:\d+)$/).default("ok"),
+  PUSH_FAKE_PORT: port(9467),
+  /** contact the push services may reach the sender at (VAPID "sub") */
+  VAPID_SUBJECT: z.string().default("mailto:alerts@stillfield.invalid"),
+  WEATHER_FAKE_PORT: port(9468),
+  /** the forecast service's URL (the local fake in the demo and tests) */
+  WEATHER_API_URL: optionalText,
+  NOTIFIER_POLL_MS: int(1000, 10),
+  NOTIFIER_BACKOFF_BASE_MS: int(5_000, 1),
+  NOTIFIER_BACKOFF_MAX_MS: int(300_000, 1),
+  /** failed attempts after which a text gives up and falls back to e-mail */
+  NOTIFIER_MAX_ATTEMPTS: int(4, 1),
   // app
   APP_URL: z.string().url().default("http://127.0.0.1:3000"),
   /** how many proxies in front of the app add X-Forwarded-For (0: trust none) */

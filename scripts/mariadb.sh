@@ -152,11 +152,18 @@ local_infile=0
 character-set-server=utf8mb4
 collation-server=utf8mb4_unicode_ci
 innodb_buffer_pool_size=${DB_BUFFER_POOL:-512M}
-innodb_log_file_size=256M
+innodb_log_file_size=${DB_LOG_FILE_SIZE:-256M}
 innodb_flush_log_at_trx_commit=2
 max_connections=300
 log-error=$LOG
+server_id=1
 CNF
+      # the binary log (and with it GTIDs) only where a replica needs it: it costs every write
+      # some time and disk. On at the next start once scripts/mariadb-replica.sh made its folder,
+      # or with DB_BINLOG=1; an existing data folder takes it on without any other change.
+      if [ "${DB_BINLOG:-0}" = "1" ] || [ -d "$DATA_DIR/mariadb-replica" ]; then
+        printf 'log_bin=mariadb-bin\nbinlog_format=ROW\nbinlog_expire_logs_seconds=259200\ngtid_strict_mode=1\n' >>"$CNF"
+      fi
       if [ "$initialise" = "1" ]; then
         echo "Initialising a private MariaDB in $MDB_DIR…"
         # root gets socket sign-in only: its OS user (unix_socket) or the per-install password

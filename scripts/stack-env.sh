@@ -24,6 +24,9 @@ if [ "$STACK" = "test" ]; then
   export SMTP_PORT=$((2535 + SLOT))
   export WORKER_HEALTH_PORT=$((9474 + SLOT))
   export BROKER_HEALTH_PORT=$((9484 + SLOT))
+  export SMS_FAKE_PORT=$((9494 + SLOT))
+  export PUSH_FAKE_PORT=$((9504 + SLOT))
+  export WEATHER_FAKE_PORT=$((9514 + SLOT))
   export NEXT_DIST_DIR=".next-test${SLOT}"
 else
   export DB_NAME="${DB_NAME:-stillfield}"
@@ -33,10 +36,16 @@ else
   export SMTP_PORT="${SMTP_PORT:-2525}"
   export WORKER_HEALTH_PORT="${WORKER_HEALTH_PORT:-9464}"
   export BROKER_HEALTH_PORT="${BROKER_HEALTH_PORT:-9465}"
+  export SMS_FAKE_PORT="${SMS_FAKE_PORT:-9466}"
+  export PUSH_FAKE_PORT="${PUSH_FAKE_PORT:-9467}"
+  export WEATHER_FAKE_PORT="${WEATHER_FAKE_PORT:-9468}"
   export NEXT_DIST_DIR="${NEXT_DIST_DIR:-.next}"
 fi
 export APP_URL="${APP_URL:-http://127.0.0.1:${APP_PORT}}"
 export NEXTAUTH_URL="${NEXTAUTH_URL:-$APP_URL}"
+# the SMS provider's SDK and the forecast SDK are pointed at the local fakes unless a plant sets its own
+export SMS_API_BASE="${SMS_API_BASE:-http://127.0.0.1:${SMS_FAKE_PORT}}"
+export WEATHER_API_URL="${WEATHER_API_URL:-http://127.0.0.1:${WEATHER_FAKE_PORT}/v1/forecast}"
 mkdir -p "$DATA_DIR"
 # others may pass through (the MariaDB server's own user must), but not list or read
 chmod 711 "$DATA_DIR" 2>/dev/null || true
