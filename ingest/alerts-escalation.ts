@@ -11,8 +11,9 @@ import { alertEvents, alerts } from "../db/schema";
 import { listNotifyCandidates, type NotifyCandidate } from "../db/queries/alert-notify-candidates";
 import { getAlertingSettings, listOnCallAt, type AlertingSettings, type RosterShift } from "../db/queries/oncall";
 import { enqueueMail } from "../db/queries/outbox";
+import { queueAlertPhoneMessages } from "../db/queries/phone-outbox";
 import type { AlertSubject } from "../db/queries/topology";
-import { SEVERITY_RANK, type Severity } from "../lib/vocabulary";
+import { RULE_KIND_WORDS, SEVERITY_RANK, type Severity } from "../lib/vocabulary";
 import { composeAlertEmail } from "../lib/mail/alert-emails";
 
 export function severitiesAtOrAbove(min: Severity): Severity[] {
@@ -101,6 +102,21 @@ async function notifyOrder(
       await enqueueMail(tx, { dedupeKey: `alert:${a.id}:order:${order}:person:${r.personId}`, toAddress: r.personEmail, subject: mail.subject, bodyText: mail.text, bodyHtml: mail.html }, nowMs);
       names.push(`${r.personName} <${r.personEmail}>`);
     }
+    // texts and pushes to the same people, as each opted in for this severity (ingest/notifier.ts sends them)
+    const phones = await queueAlertPhoneMessages(
+      tx,
+      {
+        alertId: a.id,
+        order,
+        severity: a.severity,
+        personIds: recipients.map((r) => r.personId),
+        title: `${order > 1 ? "Escalated: " : ""}${RULE_KIND_WORDS[a.kind]} — ${subject?.where ?? ([a.areaName, a.lineName, a.pointName].filter(Boolean).join(" › ") || "the plant")}`,
+        body: a.message,
+        url: `${opts.appUrl.replace(/\/$/, "")}/alerts/${a.id}`,
+      },
+      nowMs,
+    );
+    if (phones.sms + phones.push > 0) names.push(`${phones.sms} text(s), ${phones.push} push(es)`);
     await tx.insert(alertEvents).values({
       alertId: a.id,
       ts: nowMs,

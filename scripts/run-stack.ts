@@ -29,6 +29,9 @@ const services: Service[] = [
   { name: "broker", needs: "ingest/broker.ts", cmd: [...tsx, "ingest/broker.ts"], port: num(env.MQTT_PORT, 1884) },
   { name: "worker", needs: "ingest/worker.ts", cmd: [...tsx, "ingest/worker.ts"], port: num(env.WORKER_HEALTH_PORT, 9464) },
   { name: "mailer", needs: "ingest/mailer.ts", cmd: [...tsx, "ingest/mailer.ts"] },
+  // local fakes of the hosted SMS, push and weather services (the SDKs are pointed at them), and the notifier
+  { name: "sms-fake", needs: "ingest/sms-fake.ts", cmd: [...tsx, "ingest/sms-fake.ts"], port: num(env.SMS_FAKE_PORT, 9466) },
+  { name: "notifier", needs: "ingest/notifier.ts", cmd: [...tsx, "ingest/notifier.ts"] },
   {
     name: "app",
     // our own server around Next: it hands the socket address to the sign-in throttle
