@@ -27,6 +27,7 @@ import { internalTopics } from "../lib/contract/topics";
 import { CHANNELS, createRuleEngine, RuleEngineStateError, type AlertTransition, type Channel, type RuleDefinition, type RuleEngine } from "../lib/rules";
 import type { AlertState, Severity } from "../lib/vocabulary";
 import { runEscalation } from "./alerts-escalation";
+import { createLateRecheck } from "./late-recheck";
 import { getSettings } from "../lib/settings";
 import { describeError } from "./log";
 import type { CommittedReading, ReadingSink, SinkContext } from "./sinks";
@@ -239,13 +240,15 @@ async function startCore(ctx: SinkContext): Promise<Core> {
     for (const n of r.notified) log.info(`alert ${n.alertId}: e-mail queued for on-call order ${n.order}`, { to: n.recipients });
   }
 
+  // late and historical readings bypass the live engine and are re-checked on their own (ingest/late-recheck.ts)
+  const late = createLateRecheck(ctx, () => ({ engine, rules, topo, timeZone }));
   log.info("alerts engine running", { rules: rules.length, openAlerts: openIds.size });
   return {
     async onCommitted(readings: CommittedReading[]) {
       if (closed) return;
       // the worker hands them over per device in time order; the engine wants time order
       const sorted = readings.length > 1 ? [...readings].sort((a, b) => a.ts - b.ts) : readings;
-      for (const r of sorted) {
+      for (const r of late.takeLive(sorted)) {
         if (!isChannel(r.channel)) continue;
         const out = engine.push({ sensorKey: r.deviceCode, channel: r.channel, ts: r.ts, value: r.value });
         if (out.length) take(out);
@@ -257,6 +260,7 @@ async function startCore(ctx: SinkContext): Promise<Core> {
       if (closed) return;
       take(engine.tick(nowMs));
       await flush();
+      await late.onTick(nowMs);
       try {
         await refreshIfChanged(nowMs);
       } catch (err) {

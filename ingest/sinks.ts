@@ -8,7 +8,8 @@ import type { Db } from "../db/client";
 import type { Env } from "../db/env";
 import type { Logger } from "./log";
 
-export type CommittedReading = { deviceId: number; deviceCode: string; channel: string; ts: number; value: number };
+/** `historical`: a store-and-forward upload (Sparkplug is_historical), never fed to the live rules. */
+export type CommittedReading = { deviceId: number; deviceCode: string; channel: string; ts: number; value: number; historical?: boolean };
 
 export type ReadingSink = {
   name: string;

@@ -139,7 +139,7 @@ export async function startWorker() {
     const readings: CommittedReading[] = [];
     for (const r of rows) {
       const d = directory.getById(r.deviceId);
-      readings.push({ deviceId: r.deviceId, deviceCode: d?.code ?? String(r.deviceId), channel: r.channel, ts: r.ts, value: r.value });
+      readings.push({ deviceId: r.deviceId, deviceCode: d?.code ?? String(r.deviceId), channel: r.channel, ts: r.ts, value: r.value, historical: r.historical === true });
     }
     // per device in reading-time order (usually already so: skip the sort then)
     const order = (a: CommittedReading, b: CommittedReading) =>

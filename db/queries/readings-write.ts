@@ -19,7 +19,8 @@
 import type mysql from "mysql2/promise";
 import { CHANNELS, type Channel } from "../../lib/contract/readings-payload";
 
-export type ReadingRow = { deviceId: number; channel: Channel; ts: number; value: number };
+/** `historical` rides along to the reading sinks (ingest/sinks.ts); it is not stored. */
+export type ReadingRow = { deviceId: number; channel: Channel; ts: number; value: number; historical?: boolean };
 export type WriteResult = { inserted: ReadingRow[]; duplicates: number; attempts: number };
 export type RollupAggregate = {
   deviceId: number;

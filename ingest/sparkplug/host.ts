@@ -179,7 +179,7 @@ export async function startSparkplugHost(deps: SparkplugHostDeps) {
     for (const r of fx.readings) {
       let rows = byDevice.get(r.deviceId);
       if (!rows) byDevice.set(r.deviceId, (rows = []));
-      rows.push({ deviceId: r.deviceId, channel: r.channel, ts: r.ts, value: r.value });
+      rows.push(r.historical ? { deviceId: r.deviceId, channel: r.channel, ts: r.ts, value: r.value, historical: true } : { deviceId: r.deviceId, channel: r.channel, ts: r.ts, value: r.value });
     }
     stats.readings += fx.readings.length;
     deps.countReadings(node.code, fx.readings.length, now, byDevice.keys());
