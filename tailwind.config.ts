@@ -11,7 +11,7 @@ const config: Config = {
     extend: {
       colors: {
         paper: { DEFAULT: "#f6f5f1", raised: "#ffffff", sunk: "#ecebe5", line: "#d9d7cf" },
-        ink: { DEFAULT: "#23262b", soft: "#4b5058", faint: "#7b8089", ghost: "#a9adb3" },
+        ink: { DEFAULT: "#23262b", soft: "#4b5058", faint: "#62676f", ghost: "#a9adb3" },
         night: { DEFAULT: "#111417", raised: "#1a1e23", line: "#2c3238", ink: "#e8eaec", soft: "#a7adb4" },
         brand: { DEFAULT: "#35566f", soft: "#dfe7ed", deep: "#213849" },
         // charge polarity: two colour-blind-safe hues, always shown with the sign as well

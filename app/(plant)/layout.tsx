@@ -4,7 +4,9 @@ import Link from "next/link";
 import { redirect } from "next/navigation";
 import { getSession } from "@/app/_server/session";
 import { Providers } from "@/components/providers";
-import { NavLinks, type NavItem } from "@/components/shell/nav-links";
+import { type NavItem } from "@/components/shell/nav-links";
+import { NavMenu, OfflineNotice } from "@/components/shell/nav-menu";
+import { ServiceWorkerRegistration } from "@/components/shell/service-worker";
 import { SignOutButton } from "@/components/shell/sign-out-button";
 import { Wordmark } from "@/components/ui/logo";
 import { can, ROLE_LABELS } from "@/lib/permissions";
@@ -37,16 +39,18 @@ export default async function PlantLayout({ children }: { children: React.ReactN
             <Link href="/floor" className="text-brand-deep">
               <Wordmark />
             </Link>
-            <NavLinks items={items} />
-            <div className="ml-auto flex items-center gap-3 text-sm">
-              <span className="text-ink-soft" data-testid="signed-in-as">
-                {session.name} · <span className="text-ink-faint">{ROLE_LABELS[session.role]}</span>
+            <NavMenu items={items} />
+            <div className="ml-auto flex min-w-0 items-center gap-3 text-sm">
+              <span className="min-w-0 truncate text-ink-soft" data-testid="signed-in-as">
+                {session.name} <span className="hidden text-ink-faint sm:inline">· {ROLE_LABELS[session.role]}</span>
               </span>
               <SignOutButton />
             </div>
           </div>
+          <OfflineNotice />
+          <ServiceWorkerRegistration />
         </header>
-        <main className="mx-auto max-w-[1600px] px-4 py-5">{children}</main>
+        <main className="mx-auto max-w-[1600px] px-3 py-4 sm:px-4 sm:py-5">{children}</main>
       </div>
     </Providers>
   );

@@ -7,7 +7,7 @@ import { useQueryClient } from "@tanstack/react-query";
 import Link from "next/link";
 import { Fragment, useEffect, useMemo, useState } from "react";
 import clsx from "clsx";
-import { ActionForm, Field, inputClass, SubmitButton, type FormResult } from "@/components/forms/action-form";
+import { ActionForm, Field, inputClass, SubmitButton } from "@/components/forms/action-form";
 import { useNow } from "@/components/live/use-now";
 import { EmptyState } from "@/components/ui/page";
 import { formatPlantTime } from "@/lib/plant-time";
@@ -17,9 +17,10 @@ import { formatAlertValue, formatDuration } from "@/lib/vocabulary";
 import { ALERT_STATE_WORDS, ALERT_STATE_SHORT, RULE_KIND_WORDS, type AlertState } from "@/lib/vocabulary";
 import { isStateChoice, type AlertFilterState } from "./filters";
 import { useAlertDetail, useAlerts, type AlertsResponse } from "./use-alerts";
+import { SHELVE_CHOICES, type AlertFormActions } from "./alert-actions";
+import { AlertCards, usePhoneWidth } from "./alert-cards";
 
-export type FormAction = (prev: FormResult, fd: FormData) => Promise<FormResult>;
-export type AlertFormActions = { ack: FormAction; comment: FormAction; shelve: FormAction; unshelve: FormAction };
+export type { FormAction, AlertFormActions } from "./alert-actions";
 export type FilterArea = { id: number; name: string; lines: Array<{ id: number; name: string }> };
 
 const STATE_CHOICES: Array<{ value: AlertFilterState["state"]; label: string }> = [
@@ -39,16 +40,7 @@ const TIME_CHOICES: Array<{ value: string; label: string }> = [
   { value: "", label: "Any time" },
 ];
 
-export const SHELVE_CHOICES: Array<{ min: number; label: string }> = [
-  { min: 30, label: "30 minutes" },
-  { min: 60, label: "1 hour" },
-  { min: 120, label: "2 hours" },
-  { min: 240, label: "4 hours" },
-  { min: 480, label: "8 hours (a shift)" },
-  { min: 1440, label: "24 hours" },
-  { min: 4320, label: "3 days" },
-  { min: 10080, label: "7 days (longest)" },
-];
+export { SHELVE_CHOICES } from "./alert-actions";
 
 function filtersToUrl(f: AlertFilterState): string {
   const p = new URLSearchParams();
@@ -79,6 +71,7 @@ export function AlertsBoard({
   const [openId, setOpenId] = useState<number | null>(null);
   const { query, live } = useAlerts(filters, initial);
   const now = useNow(15_000, 0, initial.serverTs);
+  const phone = usePhoneWidth();
 
   useEffect(() => {
     window.history.replaceState(null, "", filtersToUrl(filters));
@@ -136,6 +129,8 @@ export function AlertsBoard({
         <EmptyState title={filters.state === "open" ? "No open alerts" : "No alerts match these filters"}>
           {filters.state === "open" ? "Every alert is closed. New ones appear here as they are raised." : "Try another hall, line, state or time span."}
         </EmptyState>
+      ) : phone ? (
+        <AlertCards alerts={alerts} now={now} timeZone={timeZone} canRespond={canRespond} actions={actions} />
       ) : (
         <div className="overflow-x-auto rounded-card border border-paper-line bg-paper-raised">
           <table className="w-full min-w-[1000px] text-sm" data-testid="alerts-table">
@@ -194,9 +189,9 @@ function CountChip({ n, label, strong }: { n: number; label: string; strong?: bo
 
 function FilterSelect({ label, value, onChange, options }: { label: string; value: string; onChange: (v: string) => void; options: Array<{ value: string; label: string }> }) {
   return (
-    <label className="block">
+    <label className="block min-w-[9rem] flex-1 sm:flex-none">
       <span className="text-xs font-medium text-ink-soft">{label}</span>
-      <select className={`${inputClass} mt-1 w-48`} value={value} onChange={(e) => onChange(e.target.value)} aria-label={label}>
+      <select className={`${inputClass} mt-1 w-full sm:w-48`} value={value} onChange={(e) => onChange(e.target.value)} aria-label={label}>
         {options.map((o) => (
           <option key={o.value} value={o.value}>
             {o.label}

@@ -55,7 +55,7 @@ export function LineNotesPanel({ notes, points, tz }: { notes: LineEvents["notes
       {notes.length === 0 ? (
         <p className="text-sm text-ink-faint">No notes in this range.</p>
       ) : (
-        <ol className="max-h-96 space-y-2 overflow-y-auto" data-testid="line-notes">
+        <ol className="max-h-96 space-y-2 overflow-y-auto" data-testid="line-notes" tabIndex={0} aria-label="Notes on this line">
           {notes.map((n, i) => (
             <li key={n.id} className="grid grid-cols-[1.5rem_1fr] gap-2 text-sm">
               <span className="num mt-0.5 inline-flex h-4 min-w-4 items-center justify-center rounded-sm bg-brand px-1 text-[10px] font-semibold text-white">

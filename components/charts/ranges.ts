@@ -47,6 +47,9 @@ export function resolveRange(r: RangeState, now: number, spec: ShiftSpec): [numb
 
 export function parseRangeParams(get: (key: string) => string | null): RangeState {
   const kind = get("range");
+  // a link to a moment (?at=… from an e-mail or the alerts list) without a range: the hour around it
+  const at = Number(get("at"));
+  if (!kind && Number.isFinite(at) && at > 0) return { kind: "custom", from: at - 30 * 60_000, to: at + 30 * 60_000 };
   if (!kind || !(RANGE_KINDS as readonly string[]).includes(kind)) return { kind: "live" };
   if (kind === "custom") {
     const from = Number(get("from"));
