@@ -6,8 +6,8 @@
  *
  * - A "sensor silent" raise of a sensor that sits behind a parent (gateway, edge node, logger,
  *   or the whole data feed) waits `graceMs` of reading time for its siblings.
- * - When at least `needed(parent)` of a parent's sensors are silent together, one alert is
- *   raised for the parent ("gateway:<key>") and the sensors' raises are held (recorded as held,
+ * - When the first of them has waited its grace and at least `needed(parent)` of a parent's
+ *   sensors are silent together, one alert is raised for the parent ("gateway:<key>") and the sensors' raises are held (recorded as held,
  *   never notified). The widest parent that qualifies wins: a broker outage is one alert, not
  *   one per gateway.
  * - When the grace runs out and no parent qualifies, the sensor's own raise goes out with its
@@ -104,9 +104,6 @@ export function createDependencyHold(parents: readonly DependencyParent[], grace
         return [];
       }
       pending.set(sensor, e);
-      for (const p of parentsOf.get(sensor)!) {
-        if (silentCount(p) >= neededSilent(p)) return [raiseParent(p, e)];
-      }
       return [];
     }
     if (holder !== undefined) {
@@ -131,6 +128,16 @@ export function createDependencyHold(parents: readonly DependencyParent[], grace
 
   function advance(ts: number): ConditionEvent[] {
     const out: ConditionEvent[] = [];
+    if (pending.size === 0) return out;
+    const isDue = (s: string) => {
+      const e = pending.get(s);
+      return e !== undefined && e.ts + graceMs <= ts;
+    };
+    // once a silence has waited its grace, the widest parent with enough silent sensors takes it
+    for (const p of ordered) {
+      if (down.has(p.key) || !p.sensorKeys.some(isDue)) continue;
+      if (silentCount(p) >= neededSilent(p)) out.push(raiseParent(p, pending.get(p.sensorKeys.find(isDue)!)!));
+    }
     for (const [sensor, e] of pending) {
       if (e.ts + graceMs > ts) continue;
       pending.delete(sensor);
