@@ -45,7 +45,7 @@ function alertKey(ruleId: number, subjectKey: string, raisedTs: number): string 
   return `${ruleId}|${subjectKey}|${raisedTs}`;
 }
 
-type Core = Required<Pick<ReadingSink, "onCommitted" | "onTick" | "close">>;
+export type Core = Required<Pick<ReadingSink, "onCommitted" | "onTick" | "close">>;
 
 /**
  * The sink factory. It returns at once and loads rules, plant and saved state in the background
@@ -80,7 +80,18 @@ export async function createAlertsRunner(ctx: SinkContext): Promise<ReadingSink>
   };
 }
 
-async function startCore(ctx: SinkContext): Promise<Core> {
+/**
+ * Where the engine's state lives when not in the settings row: the alert owner's store of
+ * rows per rule and subject (ingest/alert-engine-rows.ts). `save` runs inside the transaction
+ * that writes the alert transitions and may refuse it (a fenced-off owner).
+ */
+export type EngineStateStore = {
+  load(args: { rules: RuleDefinition[]; topology: PlantTopology["topology"] }): Promise<unknown>;
+  save(tx: Pick<SinkContext["db"], "insert" | "select" | "execute">, engine: RuleEngine, nowMs: number): Promise<void>;
+};
+
+/** The engine and its alert writes; `store` replaces the settings-row snapshot (the alert owner's hook). */
+export async function startCore(ctx: SinkContext, store?: EngineStateStore): Promise<Core> {
   const { db, log, env } = ctx;
   const { ALERTS_RULES_POLL_MS: RULES_POLL_MS, ALERTS_ESCALATE_EVERY_MS: ESCALATE_EVERY_MS, ALERTS_SNAPSHOT_EVERY_MS: SNAPSHOT_EVERY_MS } = getSettings();
   const MAX_PENDING_TRANSITIONS = 20_000;
@@ -92,7 +103,9 @@ async function startCore(ctx: SinkContext): Promise<Core> {
   let timeZone = (await getPlantSettings(db)).timeZone;
 
   // the engine, from the saved snapshot when there is a usable one
-  const [saved] = await db.select({ value: settings.value }).from(settings).where(eq(settings.key, ENGINE_STATE_KEY)).limit(1);
+  const [saved] = store
+    ? [{ value: await store.load({ rules, topology: topo.topology }) }]
+    : await db.select({ value: settings.value }).from(settings).where(eq(settings.key, ENGINE_STATE_KEY)).limit(1);
   let engine: RuleEngine;
   try {
     engine = createRuleEngine({ rules, topology: topo.topology, state: saved?.value ?? undefined });
@@ -152,7 +165,13 @@ async function startCore(ctx: SinkContext): Promise<Core> {
     publish(changes);
   }
 
-  async function saveSnapshot(tx: Pick<typeof db, "insert">, nowMs: number): Promise<void> {
+  async function saveSnapshot(tx: Pick<typeof db, "insert" | "select" | "execute">, nowMs: number): Promise<void> {
+    if (store) {
+      await store.save(tx, engine, nowMs);
+      dirty = false;
+      lastSnapshotTs = nowMs;
+      return;
+    }
     const state = engine.snapshot();
     await tx
       .insert(settings)

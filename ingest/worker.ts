@@ -20,12 +20,13 @@ import {
   parseDevicePayload,
   type RejectionReason,
 } from "../lib/contract/readings-payload";
-import { ALL_DEVICE_READINGS, ALL_DEVICE_STATUS, internalTopics, parseDeviceTopic } from "../lib/contract/topics";
+import { internalTopics, parseDeviceTopic } from "../lib/contract/topics";
 import type { DeviceStatusChange } from "../lib/live";
 import { SERVICE_ACCOUNTS } from "../lib/settings";
 import { getIngestConfig } from "./config";
 import { DeferredAcks, type AckToken } from "./deferred-acks";
 import { DeviceDirectory } from "./device-directory";
+import { ingestProtocol, ingestSubscriptions } from "./ingest-subscriptions";
 import { startHealthServer } from "./health-server";
 import { LiveSnapshots } from "./live-snapshots";
 import { createLogger, describeError } from "./log";
@@ -88,7 +89,7 @@ export async function startWorker() {
   client = mqtt.connect({
     host: env.MQTT_HOST,
     port: env.MQTT_PORT,
-    protocolVersion: 4,
+    ...ingestProtocol(cfg),
     clientId: cfg.INGEST_CLIENT_ID,
     clean: false,
     username: SERVICE_ACCOUNTS.worker,
@@ -307,7 +308,7 @@ export async function startWorker() {
     counters.mqttConnected = true;
     log.info(`connected to the broker at ${env.MQTT_HOST}:${env.MQTT_PORT}`, { sessionPresent: connack.sessionPresent });
     mqttClient.subscribe(
-      { [ALL_DEVICE_READINGS]: { qos: 1 }, [ALL_DEVICE_STATUS]: { qos: 1 } },
+      Object.fromEntries(ingestSubscriptions(cfg).map((t) => [t, { qos: 1 as const }])),
       (err, granted) => {
         if (err) return log.error("subscribe failed", { error: describeError(err) });
         if (granted?.some((g) => g.qos === 128)) log.error("the broker refused a subscription", { granted });

@@ -70,6 +70,19 @@ const schema = z.object({
   /** how long one check of the replica's lag is trusted */
   DB_REPLICA_CHECK_MS: int(3000, 100),
   // broker: plain MQTT on loopback only (local services), MQTT over TLS for devices
+  /** embedded (aedes, the default), mosquitto (Debian's, run privately by ingest/mosquitto/run.ts), external (MQTT_HOST/MQTT_PORT of the plant's own MQTT 5 broker) */
+  BROKER: z.enum(["embedded", "mosquitto", "external"]).default("embedded"),
+  /** the dynamic-security admin of the private Mosquitto (scripts/stack-env.sh makes it) */
+  MQTT_ADMIN_PASSWORD: optionalText,
+  /** long random text whose SHA-256 is the AES-256 key that seals device secrets for a broker keeping its own credentials (lib/device-secrets.ts) */
+  BROKER_SEAL_KEY: optionalText,
+  /** folder of the private Mosquitto's configuration, credentials and persistence; default DATA_DIR/mosquitto/<DB_NAME> */
+  MOSQUITTO_DIR: optionalText,
+  MOSQUITTO_BIN: z.string().default("/usr/sbin/mosquitto"),
+  /** ingest workers started by scripts/run-stack.ts; more than one needs an MQTT 5 broker (shared subscriptions) */
+  WORKERS: z.coerce.number().int().min(1).max(16).default(1),
+  /** shared-subscription group of the workers ($share/<group>/…) */
+  INGEST_SHARE_GROUP: z.string().regex(/^[A-Za-z0-9_-]{1,40}$/).default("stillfield-ingest"),
   MQTT_HOST: z.string().default("127.0.0.1"),
   MQTT_PORT: port(1884),
   /** 0 = no TLS listener */
@@ -108,6 +121,15 @@ const schema = z.object({
   INGEST_MAINTENANCE_INTERVAL_MS: int(3_600_000, 1000),
   INGEST_RETRY_MAX_MS: int(5000, 50),
   ALERTS_RUNNER: z.enum(["on", "off"]).default("on"),
+  /** local: the worker's own committed readings feed its engine (one worker); lease: one owner among the workers holds a lease in MariaDB and reads every worker's readings from the journal (ingest/alerts-owner.ts) */
+  ALERTS_OWNER: z.enum(["local", "lease"]).default("local"),
+  ALERTS_LEASE_TTL_MS: int(10_000, 1000),
+  ALERTS_LEASE_RENEW_MS: int(3000, 100),
+  ALERTS_JOURNAL_POLL_MS: int(250, 10),
+  /** how much journal a new owner replays to rebuild the rules' windows */
+  ALERTS_WARMUP_MS: int(1_800_000, 0),
+  /** journal rows older than this are deleted by the owner */
+  ALERTS_JOURNAL_KEEP_MS: int(7_200_000, 60_000),
   /** the Sparkplug B host application in the worker (ingest/sparkplug/start.ts) */
   SPARKPLUG_HOST: z.enum(["on", "off"]).default("on"),
   /** its host id in spBv1.0/STATE/<host id> */
@@ -163,6 +185,10 @@ const schema = z.object({
   /** header name, random per process, in which the app's server passes the socket's address */
   STILLFIELD_PEER_HEADER: optionalText,
   PLANT_TIME_ZONE: z.string().default("Europe/London"),
+  /** how long one app process reuses a Floor snapshot (per hall) for every screen asking */
+  FLOOR_CACHE_MS: int(1000, 0),
+  /** bearer token for GET /api/health from a plant's monitoring (unset: admin sessions only) */
+  HEALTH_TOKEN: z.string().min(24, "HEALTH_TOKEN needs at least 24 characters").optional(),
   // simulators (their command-line flags win)
   SIM_SEED: optionalText,
   SIM_ANCHOR_MS: optionalText,
@@ -202,14 +228,13 @@ export function parseSettings(env: Record<string, string | undefined>): Settings
     }
     secrets[key] = value || DEMO_SECRETS[key];
   }
+  if (s.BROKER === "mosquitto" && mode === "production" && !building && (s.MQTT_ADMIN_PASSWORD ?? "").length < MIN_SECRET_LENGTH) {
+    problems.push("MQTT_ADMIN_PASSWORD must be set (at least 16 characters) for BROKER=mosquitto; scripts/stack-env.sh makes one in DATA_DIR");
+  }
   if (problems.length) throw new SettingsError(problems);
   return { ...s, ...secrets, STILLFIELD_MODE: mode };
 }
 
-  /** how long one app process reuses a Floor snapshot (per hall) for every screen asking */
-  FLOOR_CACHE_MS: int(1000, 0),
-  /** bearer token for GET /api/health from a plant's monitoring (unset: admin sessions only) */
-  HEALTH_TOKEN: z.string().min(24, "HEALTH_TOKEN needs at least 24 characters").optional(),
 let cached: Settings | undefined;
 
 /** This process's settings, parsed once. */

@@ -1,6 +1,7 @@
 #!/usr/bin/env bash
 # Installs the Debian packages Stillfield needs when they are missing:
-#   mariadb-server/mariadb-client and openssl (always), chromium (when called with --browser).
+#   mariadb-server/mariadb-client and openssl (always), chromium (when called with --browser),
+#   mosquitto and mosquitto-clients (with --mosquitto: the Mosquitto broker profile and its tests).
 # Safe to run again: it installs nothing that is already there.
 set -euo pipefail
 
@@ -11,9 +12,15 @@ fi
 if ! command -v openssl >/dev/null 2>&1; then
   need+=(openssl)
 fi
-if [ "${1:-}" = "--browser" ] && [ ! -x /usr/bin/chromium ]; then
-  need+=(chromium)
-fi
+for flag in "$@"; do
+  if [ "$flag" = "--browser" ] && [ ! -x /usr/bin/chromium ]; then
+    need+=(chromium)
+  fi
+  if [ "$flag" = "--mosquitto" ]; then
+    if [ ! -x /usr/sbin/mosquitto ]; then need+=(mosquitto); fi
+    if ! command -v mosquitto_ctrl >/dev/null 2>&1; then need+=(mosquitto-clients); fi
+  fi
+done
 if [ ${#need[@]} -eq 0 ]; then
   exit 0
 fi
@@ -29,7 +36,7 @@ fi
 echo "Installing Debian packages: ${need[*]} (apt-get, once per machine)…"
 export DEBIAN_FRONTEND=noninteractive
 $SUDO apt-get update -qq
-# policy-rc.d stops the package from starting a system-wide MariaDB service we do not use
+# policy-rc.d stops the packages from starting system-wide MariaDB or Mosquitto services we do not use
 if [ ! -e /usr/sbin/policy-rc.d ]; then
   printf '#!/bin/sh\nexit 101\n' | $SUDO tee /usr/sbin/policy-rc.d >/dev/null
   $SUDO chmod +x /usr/sbin/policy-rc.d

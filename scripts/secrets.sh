@@ -5,6 +5,8 @@
 #   secrets/db-root-password       MariaDB's root, reachable by its socket only (scripts/mariadb.sh)
 #   secrets/mqtt-worker-password   the broker account svc-worker (the ingest worker)
 #   secrets/mqtt-app-password      the broker account svc-app (the app)
+#   secrets/mqtt-admin-password    the dynamic-security admin of the private Mosquitto (BROKER=mosquitto)
+#   secrets/broker-seal-key        seals device secrets for Mosquitto (lib/device-secrets.ts)
 # Several runs may start at once (parallel test stacks): a lock makes each secret exactly once.
 
 # ensure_secret <file under DATA_DIR>: prints the secret, making it first if need be

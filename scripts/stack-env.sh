@@ -55,7 +55,9 @@ if [ -z "${NEXTAUTH_SECRET:-}" ]; then NEXTAUTH_SECRET="$(ensure_secret auth-sec
 if [ -z "${DB_PASSWORD:-}" ]; then DB_PASSWORD="$(ensure_secret secrets/db-password)"; fi
 if [ -z "${MQTT_WORKER_PASSWORD:-}" ]; then MQTT_WORKER_PASSWORD="$(ensure_secret secrets/mqtt-worker-password)"; fi
 if [ -z "${MQTT_APP_PASSWORD:-}" ]; then MQTT_APP_PASSWORD="$(ensure_secret secrets/mqtt-app-password)"; fi
-export NEXTAUTH_SECRET DB_PASSWORD MQTT_WORKER_PASSWORD MQTT_APP_PASSWORD
+if [ -z "${MQTT_ADMIN_PASSWORD:-}" ]; then MQTT_ADMIN_PASSWORD="$(ensure_secret secrets/mqtt-admin-password)"; fi
+if [ -z "${BROKER_SEAL_KEY:-}" ]; then BROKER_SEAL_KEY="$(ensure_secret secrets/broker-seal-key)"; fi
+export NEXTAUTH_SECRET DB_PASSWORD MQTT_WORKER_PASSWORD MQTT_APP_PASSWORD MQTT_ADMIN_PASSWORD BROKER_SEAL_KEY
 if [ "${MQTT_TLS_PORT:-0}" != "0" ] || [ -n "${TLS_SERVER_NAMES:-}" ]; then
   bash scripts/tls.sh >&2 || return 1 2>/dev/null || exit 1
 fi

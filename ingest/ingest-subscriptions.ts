@@ -1,0 +1,23 @@
+// How an ingest worker connects and subscribes, by broker (BROKER in lib/settings.ts):
+// - embedded (aedes, MQTT 3.1.1): one worker, plain subscriptions.
+// - mosquitto / external (MQTT 5): each worker subscribes through the shared subscription
+//   $share/<INGEST_SHARE_GROUP>/…, so the broker hands every message to exactly one of the
+//   workers; each keeps a persistent session (its own client id, a long session expiry), so what
+//   a stopped or killed worker had not acknowledged waits for it and is sent again when it returns.
+import type { IClientOptions } from "mqtt";
+import { ALL_DEVICE_READINGS, ALL_DEVICE_STATUS } from "../lib/contract/topics";
+import type { Settings } from "../lib/settings";
+
+/** a week: a worker down for longer than that loses its queued messages */
+export const WORKER_SESSION_EXPIRY_S = 7 * 24 * 3600;
+
+export function ingestProtocol(s: Pick<Settings, "BROKER">): Pick<IClientOptions, "protocolVersion" | "properties"> {
+  if (s.BROKER === "embedded") return { protocolVersion: 4 };
+  return { protocolVersion: 5, properties: { sessionExpiryInterval: WORKER_SESSION_EXPIRY_S, receiveMaximum: 1000 } };
+}
+
+export function ingestSubscriptions(s: Pick<Settings, "BROKER" | "INGEST_SHARE_GROUP">): string[] {
+  const topics = [ALL_DEVICE_READINGS, ALL_DEVICE_STATUS];
+  if (s.BROKER === "embedded") return topics;
+  return topics.map((t) => `$share/${s.INGEST_SHARE_GROUP}/${t}`);
+}
