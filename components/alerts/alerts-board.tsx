@@ -17,6 +17,7 @@ import { formatAlertValue, formatDuration } from "@/lib/vocabulary";
 import { ALERT_STATE_WORDS, ALERT_STATE_SHORT, RULE_KIND_WORDS, type AlertState } from "@/lib/vocabulary";
 import { isStateChoice, type AlertFilterState } from "./filters";
 import { useAlertDetail, useAlerts, type AlertsResponse } from "./use-alerts";
+import { FoundLateMark } from "./found-late-mark";
 import { SHELVE_CHOICES, type AlertFormActions } from "./alert-actions";
 import { AlertCards, usePhoneWidth } from "./alert-cards";
 
@@ -250,6 +251,7 @@ function AlertRow({
         <div className={clsx("font-medium", closed ? "text-ink-soft" : "text-ink")}>
           {RULE_KIND_WORDS[a.kind]}
           {a.chattering ? <span className="ml-1.5 rounded bg-paper-sunk px-1 py-0.5 text-[11px] font-normal text-ink-soft">chattering</span> : null}
+          <FoundLateMark a={a} timeZone={timeZone} />
         </div>
         <div className="text-xs text-ink-soft">{a.message}</div>
       </td>

@@ -34,6 +34,9 @@ export type AlertListItem = {
   notifiedLevel: number;
   /** the line page to open: the alert's line, else the first line of its hall */
   linkLineId: number | null;
+  /** found by the re-check of late readings (ingest/late-recheck.ts): when, and whether it paged nobody */
+  foundLateTs?: number | null;
+  foundLateQuiet?: boolean | null;
 };
 
 export type AlertEvent = { id: number; ts: number; kind: string; personId: number | null; personName: string | null; comment: string | null; value: string | null };

@@ -10,6 +10,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { createTestDatabase, type TestDatabase } from "../helpers/test-db";
 import { readDeviceSecrets } from "../../db/seed";
 import { createEdgeNode, saveMapping } from "../../db/queries/gateways";
+import { listAlerts } from "../../db/queries/alert-list";
 import { hashDeviceSecret } from "../../lib/device-secrets";
 import { EdgeNode } from "../../simulators/sparkplug-edge-node";
 import { connectDevice, endClient, publishAsync, startIngestStack, waitFor, type IngestStack } from "./ingest-support/processes";
@@ -104,6 +105,7 @@ describe("late re-check of a historical upload", () => {
       60_000,
     );
     expect(findings).toHaveLength(2);
+    await new Promise((r) => setTimeout(r, 1500)); // the re-check stores its findings one by one
     // other rules on the point may find their own excursions in the same span (a steep rise: charge_rate)
     const others = await q<{ kind: string }>("SELECT a.kind FROM alerts a JOIN late_findings f ON f.alert_id = a.id WHERE a.rule_id <> ?", [medium.id]);
     console.info("other found-late alerts:", others.map((o) => o.kind).join(", ") || "none");
@@ -126,13 +128,17 @@ describe("late re-check of a historical upload", () => {
     expect(Number(b.end_ts)).toBeGreaterThanOrEqual(bTo + 30_000);
 
     // the long-ended one queued no mail; the recent one paged on call (order 1 of the seeded roster this week)
-    await new Promise((r) => setTimeout(r, 1500));
     expect(await q("SELECT id FROM outbox WHERE dedupe_key LIKE ?", [`alert:${a.id}:%`])).toEqual([]);
     const mails = await q<{ to_address: string; subject: string }>("SELECT to_address, subject FROM outbox WHERE dedupe_key LIKE ?", [`alert:${b.id}:%`]);
     expect(mails).toHaveLength(1);
     const [first] = await q<{ email: string }>("SELECT p.email FROM oncall_shifts s JOIN people p ON p.id = s.person_id WHERE s.start_ts <= ? AND s.end_ts > ? AND s.escalation_order = 1", [now, now]);
     expect(mails[0].to_address).toBe(first.email);
     expect(mails[0].subject.startsWith("[Found late]")).toBe(true);
+
+    // the alert history's read model carries the mark
+    const listed = await listAlerts(tdb.db, { ids: [a.id, b.id] });
+    expect(listed.find((x) => x.id === a.id)).toMatchObject({ foundLateQuiet: true, foundLateTs: expect.any(Number) });
+    expect(listed.find((x) => x.id === b.id)).toMatchObject({ foundLateQuiet: false, foundLateTs: expect.any(Number) });
 
     // no live alert for the point: the historical readings never reached the live engine
     expect(await q("SELECT a.id FROM alerts a LEFT JOIN late_findings f ON f.alert_id = a.id WHERE a.subject_key = ? AND f.alert_id IS NULL", [subjectKey])).toEqual([]);
@@ -142,9 +148,9 @@ describe("late re-check of a historical upload", () => {
     expect(after?.sensors.find((x) => x.sensorKey === FM)?.channelLastTs.charge_kv).toBe(lastLiveTs);
     expect(after?.evaluators.filter((e) => e.subjectKey === subjectKey)).toEqual(pointEvaluatorsBefore);
 
-    // the same upload again finds nothing new
+    // part of the same upload sent again: nothing new is stored, so nothing new is found
     node.offline = true;
-    for (let ts = bFrom - MIN; ts < bTo + MIN; ts += 10_000) await node.data("unwind", { Charge: (ts >= bFrom && ts < bTo ? -15 : -3) * 1000 }, ts);
+    for (let ts = upStart; ts < now - MIN; ts += 10_000) if (ts >= bFrom - MIN && ts < bTo + MIN) await node.data("unwind", { Charge: (ts >= bFrom && ts < bTo ? -15 : -3) * 1000 }, ts);
     node.offline = false;
     await node.uploadBuffer(50);
     await new Promise((r) => setTimeout(r, 3000));
