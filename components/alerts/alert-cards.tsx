@@ -11,6 +11,7 @@ import type { AlertListItem } from "@/lib/views/alerts";
 import { ALERT_STATE_SHORT, RULE_KIND_WORDS, formatAlertValue, formatDuration } from "@/lib/vocabulary";
 import { AlertCode, SeverityTag } from "./alert-bits";
 import { AlertActionBar, type AlertFormActions } from "./alert-actions";
+import { FoundLateMark } from "./found-late-mark";
 
 const PHONE_QUERY = "(max-width: 767.98px)";
 
@@ -49,6 +50,7 @@ export function AlertCards({ alerts, now, timeZone, canRespond, actions }: { ale
             <div className="flex flex-wrap items-center justify-between gap-2">
               <AlertCode kind={a.kind} state={a.state} shelved={shelved} />
               <SeverityTag severity={a.severity} />
+              <FoundLateMark a={a} timeZone={timeZone} />
             </div>
             <Link href={`/alerts/${a.id}`} className="mt-2 block" data-testid="alert-card-link">
               <span className={clsx("block font-medium", closed ? "text-ink-soft" : "text-ink")}>

@@ -19,6 +19,7 @@ import { can } from "@/lib/permissions";
 import { formatPlantTime } from "@/lib/plant-time";
 import { ALERT_STATE_WORDS, RULE_KIND_WORDS, formatAlertValue, formatDuration } from "@/lib/vocabulary";
 import { ackAlert, commentAlert, shelveAlert, unshelveAlert } from "../actions";
+import { FoundLateMark } from "@/components/alerts/found-late-mark";
 
 export const dynamic = "force-dynamic";
 export const metadata: Metadata = { title: "Alert" };
@@ -80,6 +81,7 @@ export default async function AlertPage({ params }: { params: Promise<{ id: stri
         <div className="flex flex-wrap items-center gap-3">
           <AlertCode kind={a.kind} state={a.state} shelved={shelved} />
           <SeverityTag severity={a.severity} />
+          <FoundLateMark a={a} timeZone={tz} />
         </div>
         <h1 className="text-xl font-semibold tracking-tight text-ink">
           {RULE_KIND_WORDS[a.kind]} — {where}
