@@ -12,6 +12,8 @@ import { listNotifyCandidates, type NotifyCandidate } from "../db/queries/alert-
 import { getAlertingSettings, listOnCallAt, type AlertingSettings, type RosterShift } from "../db/queries/oncall";
 import { enqueueMail } from "../db/queries/outbox";
 import { queueAlertPhoneMessages } from "../db/queries/phone-outbox";
+import { getAlertChartSpec } from "../db/queries/alert-chart";
+import { ALERT_CHART_CID, frozenLineLink } from "../lib/charts/alert-chart";
 import type { AlertSubject } from "../db/queries/topology";
 import { RULE_KIND_WORDS, SEVERITY_RANK, type Severity } from "../lib/vocabulary";
 import { composeAlertEmail } from "../lib/mail/alert-emails";
@@ -73,6 +75,11 @@ async function notifyOrder(
   opts: { appUrl: string; timeZone: string; subjects: ReadonlyMap<string, AlertSubject> },
 ): Promise<boolean> {
   const subject = opts.subjects.get(a.subjectKey);
+  // the chart of the hour up to now, drawn by the mailer when it sends; its link is frozen to that hour
+  const spec = (await getAlertChartSpec(db, a.id, nowMs))?.spec ?? null;
+  const chart = spec
+    ? { cid: ALERT_CHART_CID, frozenLink: spec.lineId !== null ? frozenLineLink(opts.appUrl, spec.lineId, spec) : `${opts.appUrl.replace(/\/$/, "")}/alerts/${a.id}`, alt: `Chart of ${spec.title.toLowerCase()}, the last hour, with the limit and the moment it was raised` }
+    : undefined;
   return db.transaction(async (tx) => {
     const [res] = await tx
       .update(alerts)
@@ -97,9 +104,9 @@ async function notifyOrder(
           where: subject?.where ?? null,
           linkLineId: a.lineId ?? subject?.linkLineId ?? null,
         },
-        { level: order, recipientName: r.personName, appUrl: opts.appUrl, timeZone: opts.timeZone, nowMs, unackedForMs: nowMs - a.startTs },
+        { level: order, recipientName: r.personName, appUrl: opts.appUrl, timeZone: opts.timeZone, nowMs, unackedForMs: nowMs - a.startTs, chart },
       );
-      await enqueueMail(tx, { dedupeKey: `alert:${a.id}:order:${order}:person:${r.personId}`, toAddress: r.personEmail, subject: mail.subject, bodyText: mail.text, bodyHtml: mail.html }, nowMs);
+      await enqueueMail(tx, { dedupeKey: `alert:${a.id}:order:${order}:person:${r.personId}`, toAddress: r.personEmail, subject: mail.subject, bodyText: mail.text, bodyHtml: mail.html, chart: spec }, nowMs);
       names.push(`${r.personName} <${r.personEmail}>`);
     }
     // texts and pushes to the same people, as each opted in for this severity (ingest/notifier.ts sends them)

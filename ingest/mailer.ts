@@ -33,6 +33,7 @@ import { getSettings, tlsFiles } from "../lib/settings";
 import { formatPlantTime, previousPlantDay } from "../lib/plant-time";
 import { composeDigestEmail } from "../lib/mail/alert-emails";
 import { createLogger, describeError } from "./log";
+import { renderMailChart } from "./mail-chart";
 
 const log = createLogger("mailer");
 
@@ -146,6 +147,11 @@ export async function startMailer(opts: { db?: Db; config?: MailerConfig } = {})
   async function sendOne(m: Awaited<ReturnType<typeof claimDueMails>>[number]): Promise<void> {
     const messageId = outboxMessageId(m.id, env.DB_NAME, env.MAIL_FROM);
     try {
+      // the chart is drawn at send time from the readings; a chart that cannot be drawn never holds the mail back
+      const chart = m.chart ? await renderMailChart(db, m.chart, (await getPlantSettings(db)).timeZone).catch((err: unknown) => {
+        log.warn(`mail ${m.id}: chart not drawn`, { error: describeError(err) });
+        return null;
+      }) : null;
       await transport.sendMail({
         from: env.MAIL_FROM,
         to: m.toAddress,
@@ -154,6 +160,7 @@ export async function startMailer(opts: { db?: Db; config?: MailerConfig } = {})
         html: m.bodyHtml ?? undefined,
         messageId,
         headers: { "X-Stillfield-Key": m.dedupeKey },
+        attachments: chart ? [chart] : undefined,
       });
     } catch (err) {
       const now = Date.now();

@@ -13,7 +13,7 @@ import type { Db } from "../client";
 import { outbox } from "../schema";
 import type { DbWriter } from "./alert-rows";
 
-export type NewMail = { dedupeKey: string; toAddress: string; subject: string; bodyText: string; bodyHtml?: string | null };
+export type NewMail = { dedupeKey: string; toAddress: string; subject: string; bodyText: string; bodyHtml?: string | null; chart?: unknown };
 
 /**
  * The one outbox insert. Queues a mail unless one with the same dedupe key exists (queued or
@@ -31,6 +31,7 @@ export async function enqueueMail(tx: Pick<Db, "insert">, mail: NewMail, nowMs: 
       subject: mail.subject.slice(0, 300),
       bodyText: mail.bodyText,
       bodyHtml: mail.bodyHtml ?? null,
+      chart: mail.chart ?? null,
       state: "pending",
       attempts: 0,
       nextAttemptTs: nowMs,
@@ -39,7 +40,7 @@ export async function enqueueMail(tx: Pick<Db, "insert">, mail: NewMail, nowMs: 
   return res.affectedRows === 1 ? { queued: true, id: Number(res.insertId) } : { queued: false, id: null };
 }
 
-export type ClaimedMail = { id: number; dedupeKey: string; toAddress: string; subject: string; bodyText: string; bodyHtml: string | null; attempts: number; createdTs: number };
+export type ClaimedMail = { id: number; dedupeKey: string; toAddress: string; subject: string; bodyText: string; bodyHtml: string | null; attempts: number; createdTs: number; chart: unknown };
 
 /** Claims up to `max` due mails for this mailer (see the header). */
 export async function claimDueMails(db: Db, nowMs: number, leaseMs: number, max = 20): Promise<ClaimedMail[]> {
@@ -57,7 +58,7 @@ export async function claimDueMails(db: Db, nowMs: number, leaseMs: number, max 
       .where(and(eq(outbox.id, id), or(eq(outbox.state, "pending"), eq(outbox.state, "sending")), lte(outbox.nextAttemptTs, nowMs)));
     if (res.affectedRows !== 1) continue; // another mailer took it
     const [row] = await db
-      .select({ id: outbox.id, dedupeKey: outbox.dedupeKey, toAddress: outbox.toAddress, subject: outbox.subject, bodyText: outbox.bodyText, bodyHtml: outbox.bodyHtml, attempts: outbox.attempts, createdTs: outbox.createdTs })
+      .select({ id: outbox.id, dedupeKey: outbox.dedupeKey, toAddress: outbox.toAddress, subject: outbox.subject, bodyText: outbox.bodyText, bodyHtml: outbox.bodyHtml, attempts: outbox.attempts, createdTs: outbox.createdTs, chart: outbox.chart })
       .from(outbox)
       .where(eq(outbox.id, id));
     if (row) claimed.push(row);

@@ -1,6 +1,7 @@
 // What an alert's chart shows (pure): which channel, in which unit, over which hour, with which
 // limit lines and which moment marked; and the rule in words. Used by the alert page, the
 // on-call e-mail (the mailer draws it) and the frozen link that opens the same view later.
+import { z } from "zod";
 import type { RuleKind } from "../vocabulary";
 
 export const ALERT_CHART_SPAN_MS = 3_600_000;
@@ -86,3 +87,20 @@ export function describeRule(kind: RuleKind, params: Record<string, unknown>, on
 export function frozenLineLink(appUrl: string, lineId: number, spec: { fromTs: number; toTs: number; markTs: number }): string {
   return `${appUrl.replace(/\/$/, "")}/lines/${lineId}?at=${spec.markTs}&range=custom&from=${spec.fromTs}&to=${spec.toTs}`;
 }
+
+/** The chart spec as stored on an outbox mail and read back by the mailer. */
+export const alertChartSpecSchema = z.object({
+  alertId: z.number().int(),
+  deviceId: z.number().int(),
+  channel: z.enum(["charge_kv", "rh_pct", "temp_c", "speed_mpm"]),
+  unit: z.string().max(20),
+  fromTs: z.number().int(),
+  toTs: z.number().int(),
+  markTs: z.number().int(),
+  limits: z.array(z.object({ value: z.number(), label: z.string().max(60) })).max(4),
+  title: z.string().max(120),
+  lineId: z.number().int().nullable(),
+});
+
+/** The content id of the inline chart image in an alert e-mail. */
+export const ALERT_CHART_CID = "alert-chart@stillfield";

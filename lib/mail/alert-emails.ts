@@ -34,7 +34,16 @@ function whereText(a: AlertMailInput): string {
  */
 export function composeAlertEmail(
   a: AlertMailInput,
-  opts: { level: number; recipientName: string; appUrl: string; timeZone: string; nowMs: number; unackedForMs: number },
+  opts: {
+    level: number;
+    recipientName: string;
+    appUrl: string;
+    timeZone: string;
+    nowMs: number;
+    unackedForMs: number;
+    /** the inline chart (drawn by the mailer) and the link frozen to its span */
+    chart?: { cid: string; frozenLink: string; alt: string };
+  },
 ): MailText {
   const code = alertStateCode({ kind: a.kind, state: a.state, shelved: false });
   const codeText = stateCodeText(code);
@@ -62,6 +71,7 @@ export function composeAlertEmail(
     ...(a.kind === "rh_forecast" && a.expectedCrossingTs !== null ? [`Expected to cross the limit at: ${formatPlantTime(a.expectedCrossingTs, opts.timeZone, "HH:mm")}`] : []),
     `Severity: ${SEVERITY_WORDS[a.severity]}`,
     "",
+    ...(opts.chart ? [`The chart in this e-mail, to open later at the same moment: ${opts.chart.frozenLink}`] : []),
     `Open the chart at that time: ${link}`,
     `Acknowledge it in Stillfield: ${alertsLink}`,
     "",
@@ -74,6 +84,9 @@ export function composeAlertEmail(
     `<div style="font-family:sans-serif;font-size:14px;color:#23262b">`,
     `<p>Hello ${escapeHtml(opts.recipientName)},</p>`,
     `<p>${escapeHtml(lines[2])}</p>`,
+    ...(opts.chart
+      ? [`<p><a href="${escapeHtml(opts.chart.frozenLink)}"><img src="cid:${escapeHtml(opts.chart.cid)}" width="600" style="max-width:100%;height:auto;border:1px solid #d9d7cf" alt="${escapeHtml(opts.chart.alt)}"></a><br><span style="font-size:12px;color:#555">Dashed red: the limit · purple line: when it was raised · <a href="${escapeHtml(opts.chart.frozenLink)}">open this view later</a></span></p>`]
+      : []),
     `<table style="border-collapse:collapse;font-size:14px">`,
     row("State", `<b>${escapeHtml(codeText)}</b> — ${escapeHtml(ALERT_STATE_WORDS[a.state])}`),
     row("What", `<b>${escapeHtml(what)}</b>: ${escapeHtml(a.message)}`),

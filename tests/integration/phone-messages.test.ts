@@ -21,6 +21,9 @@ import { startSmsFake } from "@/ingest/sms-fake";
 import { deviceTopics } from "@/lib/contract/topics";
 import { DEMO_PEOPLE, fieldMeterCode } from "@/lib/demo-plant";
 import { createHash } from "node:crypto";
+import { simpleParser } from "mailparser";
+import { mailDir, readSinkIndex } from "@/ingest/smtp-sink";
+import { parseRangeParams } from "@/components/charts/ranges";
 
 const NAME = "phone_msgs";
 const dataDir = path.join(ROOT, ".data", "test-ingest", `${NAME}-phone`);
@@ -34,6 +37,9 @@ let stack: IngestStack;
 let sms: Awaited<ReturnType<typeof startSmsFake>>;
 let push: Awaited<ReturnType<typeof startPushFake>>;
 let notifier: Proc;
+let sink: Proc;
+let mailer: Proc;
+const mailDataDir = path.join(dataDir, "mail-sink");
 const clients: MqttClient[] = [];
 let engineerId = 0;
 let leadId = 0;
@@ -78,6 +84,10 @@ beforeAll(async () => {
   pushSubId = sub.id;
   await tdb.db.insert(pushSubscriptions).values({ personId: engineerId, endpointHash: createHash("sha256").update(sub.endpoint).digest("hex"), endpoint: sub.endpoint, p256dh: sub.keys.p256dh, auth: sub.keys.auth, createdTs: now });
 
+  const smtpPort = await freePort();
+  sink = spawnTs("smtp-sink", "ingest/smtp-sink.ts", [], { SMTP_PORT: String(smtpPort), DATA_DIR: mailDataDir });
+  await waitFor("the SMTP sink", async () => /listening/.test(sink.output()), 60_000);
+  mailer = spawnTs("mailer", "ingest/mailer.ts", [], { ...tdb.env, SMTP_HOST: "127.0.0.1", SMTP_PORT: String(smtpPort), MAILER_POLL_MS: "300", DATA_DIR: mailDataDir });
   sms = await startSmsFake({ port: await freePort(), dir: path.join(dataDir, "sms"), accountSid: SID, authToken: TOKEN });
   stack = await startIngestStack(NAME, tdb.env, { env: { ALERTS_ESCALATE_EVERY_MS: "500", ALERTS_RULES_POLL_MS: "500", APP_URL: "http://127.0.0.1:3998" } });
   notifier = spawnTs("notifier", "ingest/notifier.ts", [], {
@@ -96,6 +106,8 @@ beforeAll(async () => {
 afterAll(async () => {
   for (const c of clients) await endClient(c).catch(() => undefined);
   await notifier?.stop("SIGTERM").catch(() => undefined);
+  await mailer?.stop("SIGTERM").catch(() => undefined);
+  await sink?.stop("SIGTERM").catch(() => undefined);
   await stack?.stop();
   await sms?.close();
   await push?.close();
@@ -131,6 +143,29 @@ describe("texts and push from an excursion", () => {
       expect(await tdb.db.select().from(phoneOutbox).where(eq(phoneOutbox.alertId, alert.id))).toHaveLength(3);
       expect(fs.readdirSync(path.join(dataDir, "sms"))).toHaveLength(2);
       expect(push.received).toHaveLength(1);
+
+      // the on-call e-mail of the same alert: the chart inline as a PNG under 60 kB, the value with
+      // its unit, the plain-text part, and a link frozen to the chart's hour
+      const key = `alert:${alert.id}:order:1:person:${engineerId}`;
+      const entry = await waitFor("the on-call e-mail", async () => readSinkIndex(mailDataDir).find((e) => e.key === key && e.file), 30_000);
+      const mail = await simpleParser(fs.readFileSync(path.join(mailDir(mailDataDir), entry.file!)));
+      const image = mail.attachments.find((x) => x.contentType === "image/png");
+      expect(image).toBeDefined();
+      expect(image!.cid).toBe("alert-chart@stillfield");
+      expect(image!.size).toBeLessThan(60 * 1024);
+      expect(image!.content.subarray(1, 4).toString("latin1")).toBe("PNG");
+      expect(String(mail.html)).toContain("cid:alert-chart@stillfield");
+      expect(mail.text).toContain("Peak:    \u221224.5 kV");
+      const frozen = /(http:\/\/127\.0\.0\.1:3998\/lines\/(\d+)\?at=(\d+)&range=custom&from=(\d+)&to=(\d+))/.exec(mail.text ?? "");
+      expect(frozen, mail.text).not.toBeNull();
+      expect(Number(frozen![2])).toBe(alert.lineId);
+      expect(Number(frozen![3])).toBe(alert.startTs);
+      // the frozen link names the same hour the chart shows, and the line page reads it as that range
+      const url = new URL(frozen![1]);
+      const range = parseRangeParams((k) => url.searchParams.get(k));
+      expect(range).toEqual({ kind: "custom", from: Number(frozen![4]), to: Number(frozen![5]) });
+      expect(Number(frozen![5]) - Number(frozen![4])).toBe(3_600_000);
+      expect(Number(frozen![4])).toBeLessThan(alert.startTs);
     },
     120_000,
   );
