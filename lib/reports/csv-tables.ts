@@ -144,7 +144,7 @@ export function weeklyCsv(report: WeeklyReport, table: (typeof WEEKLY_TABLES)[nu
         { header: "Point", value: (r) => r.point },
         { header: "Against", value: (r) => r.against },
         { header: "x (hourly mean)", value: (r) => round(r.x, 3) },
-        { header: "|charge| kV (hourly mean)", value: (r) => round(r.y, 3) },
+        { header: "charge kV (hourly RMS)", value: (r) => round(r.y, 3) },
       ], rows);
     }
   }

@@ -4,7 +4,7 @@
 // report), and a week of 1-minute and 1-hour rollups of Gravure Press 1 (the weekly review).
 // The generators are plain functions of time so the tests can recompute every expected figure
 // on their own. Relative imports: the browser tests (Playwright) load this file too.
-import { and, eq, gte, lt } from "drizzle-orm";
+import { and, eq, gte, isNotNull, lt } from "drizzle-orm";
 import type { Db } from "../../db/client";
 import * as s from "../../db/schema";
 import { DEMO_PEOPLE } from "../../lib/demo-plant";
@@ -234,6 +234,10 @@ export async function seedReportFixture(db: Db, nowTs: number) {
   await db.update(s.neutralizers).set({ state: "faulty" }).where(eq(s.neutralizers.tag, "N-GRAVURE-1-UNWIND"));
   await db.update(s.neutralizers).set({ lastCleanedTs: E - 30 * DAY }).where(eq(s.neutralizers.tag, "N-LAMINATOR-1-REWIND"));
   await db.update(s.neutralizers).set({ lastCleanedTs: E - 6 * DAY - 12 * HOUR }).where(eq(s.neutralizers.tag, "N-FLEXO-2-UNWIND"));
+  // the fixture owns the checks of its database: the demo seed's own charged-plate history would
+  // change the counts the compliance report is checked against
+  await db.delete(s.equipmentEvents).where(isNotNull(s.equipmentEvents.checkId));
+  await db.delete(s.checks);
   const checkRows: (typeof s.checks.$inferInsert)[] = [];
   for (const n of ids.neutralizers) {
     if (n.tag === "N-BAGGER-1-UNWIND") continue; // never checked
