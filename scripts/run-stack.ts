@@ -32,6 +32,7 @@ const services: Service[] = [
   // local fakes of the hosted SMS, push and weather services (the SDKs are pointed at them), and the notifier
   { name: "sms-fake", needs: "ingest/sms-fake.ts", cmd: [...tsx, "ingest/sms-fake.ts"], port: num(env.SMS_FAKE_PORT, 9466) },
   { name: "notifier", needs: "ingest/notifier.ts", cmd: [...tsx, "ingest/notifier.ts"] },
+  { name: "weather-fake", needs: "ingest/weather-fake.ts", cmd: [...tsx, "ingest/weather-fake.ts"], port: num(env.WEATHER_FAKE_PORT, 9468) },
   {
     name: "app",
     // our own server around Next: it hands the socket address to the sign-in throttle
@@ -41,7 +42,8 @@ const services: Service[] = [
   },
 ];
 if (mode === "demo") {
-  services.push({ name: "plant", needs: "simulators/plant.ts", cmd: [...tsx, "simulators/plant.ts"] });
+  // Labeller LB1 comes through the simulated Sparkplug edge node, with its network outages (simulators/sparkplug-line.ts)
+  services.push({ name: "plant", needs: "simulators/plant.ts", cmd: [...tsx, "simulators/plant.ts"], env: { SIM_SPARKPLUG_LINE: env.SIM_SPARKPLUG_LINE ?? "on" } });
 }
 
 const colours = ["36", "35", "33", "32", "34", "31", "90"];
