@@ -17,7 +17,6 @@ const VAR_TEMPERATURE = 47;
 const VAR_RELATIVE_HUMIDITY = 29;
 const UNIT_CELSIUS = 1;
 const UNIT_PERCENTAGE = 35;
-const H = 3_600_000;
 
 /** The scripted forecast: 48 hours from today's 00:00 UTC; the cold snap is tomorrow. */
 export function scriptedForecast(nowMs: number): { startS: number; temps: number[]; rhs: number[] } {
