@@ -67,6 +67,10 @@ test("a whole round on a phone with the network cut half-way is sent once when i
   await expect(page.getByTestId("queue-status")).toHaveText("All readings sent");
   await expect(card).toContainText("−18.0 kV");
   await expect(card).toContainText("Over");
+  // the first half has reached the server (reading and photo) before the network goes
+  await expect(card.getByTestId("spot-judgement")).toContainText("Sent");
+  await expect(page.getByTestId("photo-queue")).toHaveCount(0);
+  await expect(page.getByTestId("queue-status")).toHaveText("All readings sent");
 
   // the network goes; the rest of the round is kept on the phone
   await context.setOffline(true);
@@ -75,6 +79,7 @@ test("a whole round on a phone with the network cut half-way is sent once when i
   await expect(page.getByTestId("queue-status")).toHaveText("Offline · 1 reading waiting to be sent");
   await noSideways(page);
   await page.screenshot({ path: path.join(SHOTS, "survey-round-phone.png"), fullPage: true });
+  await expect(page.getByTestId("queue-status")).toHaveText("Offline · 1 reading waiting to be sent");
   card = await enter(page, "rewind", "+", "9.5");
   await card.getByRole("button", { name: "Save reading" }).click();
   await expect(page.getByTestId("queue-status")).toHaveText("Offline · 2 readings waiting to be sent");
