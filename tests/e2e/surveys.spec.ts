@@ -78,7 +78,10 @@ test("a whole round on a phone with the network cut half-way is sent once when i
   await card.getByRole("button", { name: "Save reading" }).click();
   await expect(page.getByTestId("queue-status")).toHaveText("Offline · 1 reading waiting to be sent");
   await noSideways(page);
-  await page.screenshot({ path: path.join(SHOTS, "survey-round-phone.png"), fullPage: true });
+  // what the phone shows: the queue, then the spots in web-path order (viewport, not full page:
+  // a full-page capture paints the sticky header over the middle of the page)
+  await page.getByText(/^Meter Handheld HF-07/).scrollIntoViewIfNeeded();
+  await page.screenshot({ path: path.join(SHOTS, "survey-round-phone.png") });
   await expect(page.getByTestId("queue-status")).toHaveText("Offline · 1 reading waiting to be sent");
   card = await enter(page, "rewind", "+", "9.5");
   await card.getByRole("button", { name: "Save reading" }).click();
