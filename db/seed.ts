@@ -23,6 +23,7 @@ import {
   speedGatewayCode,
 } from "../lib/demo-plant";
 import { defaultCheckLimits, judgeCheck, STANDARD_PLATE } from "../lib/physics/neutralizer";
+import { seedDemoGateway } from "./seed-gateway";
 import { generateDeviceSecret, hashDeviceSecret } from "../lib/device-secrets";
 import { DEFAULT_PLANT_SETTINGS } from "../lib/plant-settings";
 
@@ -39,7 +40,11 @@ export async function isSeeded(db: Db): Promise<boolean> {
 }
 
 export async function seedDemoPlant(db: Db, opts: { nowMs?: number; secretsFile?: string } = {}): Promise<{ seeded: boolean }> {
-  if (await isSeeded(db)) return { seeded: false };
+  if (await isSeeded(db)) {
+    // an installation seeded before the demo gateway existed gets it now (db/seed-gateway.ts)
+    await seedDemoGateway(db, opts.nowMs ?? Date.now(), { secretsFile: opts.secretsFile ?? deviceSecretsFile() });
+    return { seeded: false };
+  }
   const now = opts.nowMs ?? Date.now();
   const secrets: Record<string, string> = {};
 
@@ -211,6 +216,7 @@ export async function seedDemoPlant(db: Db, opts: { nowMs?: number; secretsFile?
   }
   await db.insert(s.oncallShifts).values(rows);
   await seedDemoSurveys(db, now);
+  await seedDemoGateway(db, now, { secrets });
 
   const file = opts.secretsFile ?? deviceSecretsFile();
   fs.mkdirSync(path.dirname(file), { recursive: true });

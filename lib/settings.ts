@@ -196,6 +196,12 @@ const schema = z.object({
   SIM_BACKFILL_THIN: optionalText,
   SIM_FULL_RATE_HOURS: optionalText,
   SIM_MALFORMED_EVERY_S: optionalText,
+  /** "on": the demo gateway's line (lib/demo-gateway.ts) comes through a simulated Sparkplug edge node (simulators/sparkplug-line.ts) */
+  SIM_SPARKPLUG_LINE: z.enum(["on", "off"]).default("off"),
+  /** its network outages: the first this long after it starts, each lasting so long, then one every so often */
+  SIM_SPARKPLUG_OUTAGE_AFTER_S: int(120, 0),
+  SIM_SPARKPLUG_OUTAGE_S: int(1200, 1),
+  SIM_SPARKPLUG_OUTAGE_EVERY_S: int(14_400, 60),
 });
 
 type Parsed = z.infer<typeof schema>;

@@ -33,6 +33,7 @@ import { deviceTopics } from "../lib/contract/topics";
 import { getSettings } from "../lib/settings";
 import { resolveAnchor, writeHistory } from "./backfill";
 import { PlantModel, SAMPLE_PERIOD_MS, type SimDevice } from "./plant-model";
+import { sparkplugLine } from "./sparkplug-line";
 
 const DAY = 86_400_000;
 
@@ -281,7 +282,11 @@ async function main() {
     liveFrom = opts.from ?? end;
   }
   await closeDb();
-  if (opts.live) await runLive(opts, model, simDevices, liveFrom);
+  // the demo gateway's line comes through a simulated Sparkplug edge node (simulators/sparkplug-line.ts)
+  const spb = opts.live ? sparkplugLine(model, log) : null;
+  let liveDone = false;
+  const jsonDevices = spb ? simDevices.filter((d) => !spb.codes.has(d.code)) : simDevices;
+  if (opts.live) await Promise.all([runLive(opts, model, jsonDevices, liveFrom).finally(() => (liveDone = true)), spb?.run(liveFrom, () => liveDone)]);
 }
 
 const isMain = process.argv[1] && path.resolve(process.argv[1]) === path.resolve(import.meta.filename);
