@@ -58,6 +58,9 @@ export async function startWorker() {
     if (attempt % 10 === 0) log.warn("waiting for the database to load the device list");
     await new Promise((r) => setTimeout(r, 1000));
   }
+  // device clocks too: nothing may be awaited between the MQTT client's creation and its handlers
+  const clocks = new DeviceClocks();
+  await clocks.reload(db).catch((err: unknown) => log.warn("could not load device clocks yet", { error: describeError(err) }));
 
   try {
     const report = await runRetention(pool, db, { retentionDays: env.RAW_RETENTION_DAYS });
@@ -168,8 +171,6 @@ export async function startWorker() {
   // ---- devices: online/offline and last seen ----
   const lastSeen = new Map<number, number>();
   const pendingOnline = new Map<number, boolean>();
-  const clocks = new DeviceClocks();
-  await clocks.reload(db).catch((err: unknown) => log.warn("could not load device clocks yet", { error: describeError(err) }));
   function changeOnline(device: IngestDevice, online: boolean, now: number) {
     if (online) lastSeen.set(device.id, now);
     if (device.online === online) return;
@@ -304,9 +305,9 @@ export async function startWorker() {
 
   let subscribed: () => void = () => undefined;
   const firstSubscription = new Promise<void>((resolve) => (subscribed = resolve));
-  mqttClient.on("connect", (connack) => {
+  const onConnect = (sessionPresent: boolean) => {
     counters.mqttConnected = true;
-    log.info(`connected to the broker at ${env.MQTT_HOST}:${env.MQTT_PORT}`, { sessionPresent: connack.sessionPresent });
+    log.info(`connected to the broker at ${env.MQTT_HOST}:${env.MQTT_PORT}`, { sessionPresent });
     mqttClient.subscribe(
       Object.fromEntries(ingestSubscriptions(cfg).map((t) => [t, { qos: 1 as const }])),
       (err, granted) => {
@@ -315,7 +316,11 @@ export async function startWorker() {
         subscribed();
       },
     );
-  });
+  };
+  mqttClient.on("connect", (connack) => onConnect(connack.sessionPresent));
+  // the client was created before the sinks and the directory were ready: when it signed in
+  // meanwhile, its first "connect" has already passed and nobody subscribed
+  if (mqttClient.connected) onConnect(false);
   mqttClient.on("close", () => {
     if (counters.mqttConnected && !closing) log.warn("lost the broker connection; reconnecting");
     counters.mqttConnected = false;
