@@ -125,15 +125,19 @@ export async function startPrivateMariadb(name: string, opts: { bufferPoolMb?: n
 
 /**
  * createTestDatabase (tests/helpers/test-db.ts) on the private server: it reads DB_HOST/DB_PORT
- * from the environment at call time, so point it there for the call.
+ * and the account from the environment at call time, so point them there for the call.
  */
 export async function withDbPort<T>(port: number, fn: () => Promise<T>): Promise<T> {
-  const saved = process.env.DB_PORT;
-  process.env.DB_PORT = String(port);
+  // the private server has its own account, not the shared server's per-install one
+  const point = { DB_PORT: String(port), DB_USER: USER, DB_PASSWORD: PASSWORD };
+  const saved = Object.fromEntries(Object.keys(point).map((k) => [k, process.env[k]]));
+  Object.assign(process.env, point);
   try {
     return await fn();
   } finally {
-    if (saved === undefined) delete process.env.DB_PORT;
-    else process.env.DB_PORT = saved;
+    for (const [k, v] of Object.entries(saved)) {
+      if (v === undefined) delete process.env[k];
+      else process.env[k] = v;
+    }
   }
 }
