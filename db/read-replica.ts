@@ -7,16 +7,9 @@
 // check finds it fit again.
 import type mysql from "mysql2/promise";
 
-export type ReplicaState = {
-  configured: boolean;
-  /** reads go to the replica now */
-  usable: boolean;
-  /** Seconds_Behind_Master at the last check (null: unknown or not replicating) */
-  lagS: number | null;
-  /** why reads go where they go, in words */
-  reason: string;
-  checkedTs: number | null;
-};
+import type { ReplicaView } from "../lib/views/replica";
+
+export type ReplicaState = ReplicaView;
 
 type SlaveStatusRow = { Slave_IO_Running?: unknown; Slave_SQL_Running?: unknown; Seconds_Behind_Master?: unknown; Last_IO_Error?: unknown; Last_SQL_Error?: unknown };
 

@@ -38,6 +38,7 @@ import { createLogger, describeError } from "./log";
 import { guardConnection } from "./mqtt-frame-guard";
 import { EdgeNodeSignIn } from "./sparkplug/broker-edge-nodes";
 import { isSparkplugWillTopic } from "../lib/sparkplug/topics";
+import { RateWindow } from "../lib/rate-window";
 
 const log = createLogger("broker");
 
@@ -66,6 +67,7 @@ export async function startBroker() {
     credentialsError: null as string | null,
     unknownCodesRemembered: 0,
   };
+  const messageRate = new RateWindow(startedTs);
 
   // ---- device credentials cache ----
   let credentials = new Map<string, DeviceCredential>();
@@ -224,6 +226,7 @@ export async function startBroker() {
         return done(new Error("topic not allowed"));
       }
       stats.messagesIn++;
+      messageRate.add(1, Date.now());
       stats.bytesIn += size;
       done(null);
     },
@@ -266,6 +269,8 @@ export async function startBroker() {
     clients: broker.connectedClients,
     devicesConnected: [...principals.values()].filter((p) => p.kind === "device").length,
     ...stats,
+    // over the last minute (the Health page)
+    rates: { messagesPerS: messageRate.perSecond(Date.now(), startedTs) },
   });
   const statusTimer = setInterval(() => {
     upsertIngestStatus(db, cfg.BROKER_ID, Date.now(), snapshot()).catch((err: unknown) =>

@@ -1,6 +1,7 @@
 // Counters of the ingest worker, shown on /health and written to `ingest_status`.
 import type { WorkerStats } from "../db/queries/ingest-diagnostics";
 import type { RejectionReason } from "../lib/contract/readings-payload";
+import { RateWindow } from "../lib/rate-window";
 
 /** Percentile of an unsorted sample by nearest rank (null when empty). */
 export function percentile(values: ArrayLike<number>, p: number): number | null {
@@ -78,6 +79,8 @@ export class WorkerCounters {
   private readonly flushMs = new Ring(2000);
   private readonly lag = new LagWindow(250_000);
   private readonly devices = new Map<string, DeviceCounters>();
+  private readonly committedRate = new RateWindow(Date.now());
+  private readonly messageRate = new RateWindow(Date.now());
 
   constructor(readonly workerId: string) {}
 
@@ -101,6 +104,7 @@ export class WorkerCounters {
   countMessage(code: string, readings: number, now: number) {
     this.acceptedMessages++;
     this.acceptedReadings += readings;
+    this.messageRate.add(1, now);
     const d = this.device(code, now);
     d.messages++;
     d.readings += readings;
@@ -124,6 +128,7 @@ export class WorkerCounters {
     this.lastFlushTs = now;
     this.lastFlushRows = rows;
     this.committedReadings += inserted;
+    this.committedRate.add(inserted, now);
     this.duplicateReadings += duplicates;
   }
 
@@ -178,6 +183,8 @@ export class WorkerCounters {
       },
       freshness: { p50Ms: percentile(lag, 50), p95Ms: percentile(lag, 95), samples: lag.length },
       sinks: { errors: { ...this.sinkErrors }, dropped: { ...this.sinkDropped } },
+      // over the last minute (the Health page)
+      rates: { readingsPerS: this.committedRate.perSecond(now, this.startedTs), messagesPerS: this.messageRate.perSecond(now, this.startedTs) },
       memory: { rssMb: Math.round(mem.rss / 1048576), heapUsedMb: Math.round(mem.heapUsed / 1048576) },
       devices,
     };

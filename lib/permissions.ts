@@ -23,6 +23,7 @@ export const ACTIONS = [
   // them (they are on the floor every shift); engineers and up edit the survey plans
   "survey.record",
   "survey.plan",
+  "health.view", // the Health page and /api/health: every process's figures
 ] as const;
 export type Action = (typeof ACTIONS)[number];
 
@@ -40,7 +41,7 @@ const engineer: Action[] = [
   "survey.plan",
   "gateways.map",
 ];
-const admin: Action[] = [...engineer, "people.manage", "oncall.manage", "devices.manage"];
+const admin: Action[] = [...engineer, "people.manage", "oncall.manage", "devices.manage", "health.view"];
 
 export const PERMISSIONS: Record<Role, ReadonlySet<Action>> = {
   viewer: new Set(viewer),

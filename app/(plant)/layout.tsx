@@ -31,6 +31,7 @@ export default async function PlantLayout({ children }: { children: React.ReactN
     { href: "/oncall", label: "On-call" },
   ];
   if (can(session.role, "people.manage")) items.push({ href: "/people", label: "People" });
+  if (can(session.role, "health.view")) items.push({ href: "/health", label: "Health" });
   return (
     <Providers>
       <div className="min-h-screen">

@@ -16,7 +16,7 @@ const PRIMARY_PORT = 3440 + slot;
 const REPLICA_PORT = 3450 + slot;
 const DATA_DIR = path.resolve(`.data/replica-test${slot}`);
 const DB_NAME = `stillfield_replica_t${slot}`;
-const env = {
+const env: NodeJS.ProcessEnv = {
   ...process.env,
   DATA_DIR,
   DB_PORT: String(PRIMARY_PORT),

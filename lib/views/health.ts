@@ -1,0 +1,46 @@
+// View types of the Health page and GET /api/health (db/queries/health.ts builds them).
+import type { ReplicaView } from "./replica";
+
+export type BrokerHealth = {
+  id: string;
+  updatedTs: number;
+  /** no status for longer than HEALTH_STALE_MS */
+  stale: boolean;
+  clients: number | null;
+  messagesPerS: number | null;
+  messagesIn: number | null;
+};
+
+export type WorkerHealth = {
+  id: string;
+  updatedTs: number;
+  stale: boolean;
+  mqttConnected: boolean | null;
+  dbHealthy: boolean | null;
+  readingsPerS: number | null;
+  messagesPerS: number | null;
+  /** readings received and not yet committed, and messages not yet acknowledged */
+  inFlightReadings: number | null;
+  unackedMessages: number | null;
+  /** readings waiting in spill files now, and spilled since the worker started */
+  spillPendingReadings: number | null;
+  spilledReadings: number | null;
+  commitP95Ms: number | null;
+  rssMb: number | null;
+};
+
+export type LeaseHealth = { name: string; holder: string | null; sinceTs: number | null; expiresTs: number; token: number; held: boolean };
+
+export type QueueHealth = { pending: number; sending: number; failed: number; oldestPendingTs: number | null };
+
+export type HealthReport = {
+  nowTs: number;
+  brokers: BrokerHealth[];
+  workers: WorkerHealth[];
+  /** the alert owner's lease; null when no process has reported one */
+  alertOwner: LeaseHealth | null;
+  leases: LeaseHealth[];
+  mail: QueueHealth;
+  texts: QueueHealth | null;
+  replica: ReplicaView;
+};
