@@ -18,9 +18,9 @@ const config: Config = {
         pos: { DEFAULT: "#2563a8", soft: "#dce8f6" },
         neg: { DEFAULT: "#2f7d5b", soft: "#dbefe5" },
         // attention states
-        near: { DEFAULT: "#a46a00", soft: "#fbefd2", bright: "#f2b441" },
+        near: { DEFAULT: "#8f5d00", soft: "#fbefd2", bright: "#f2b441" },
         over: { DEFAULT: "#b42318", soft: "#fbe1dd", bright: "#ff6b5b" },
-        silent: { DEFAULT: "#6b7079", soft: "#e7e7e4" },
+        silent: { DEFAULT: "#5c6169", soft: "#e7e7e4" },
         shelved: { DEFAULT: "#5b4f8a", soft: "#e9e5f5" },
         ok: { DEFAULT: "#4b5058" },
       },

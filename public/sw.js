@@ -1,4 +1,5 @@
-// Stillfield's service worker (hand-written; see README "Phone"). It owns three things:
+// Stillfield's service worker, written by hand: @serwist/next plugs into webpack, and Next 16
+// builds with Turbopack here; what the shell needs is small enough to keep readable. It owns three things:
 // 1. The shell: Next's hashed static files, the icons and the offline page are cached, so the
 //    app opens fast and an unreachable server shows an honest "Offline" page.
 // 2. Never stale values as live: pages and /api/ requests always go to the network; a page is

@@ -104,7 +104,7 @@ export function Section({ title, aside, children, className, testId }: { title: 
 
 export function Table({ children, className }: { children: React.ReactNode; className?: string }) {
   return (
-    <div className="overflow-x-auto print:overflow-visible">
+    <div className="overflow-x-auto print:overflow-visible" tabIndex={0} role="region" aria-label="Table (scrolls sideways on a narrow screen)">
       <table className={clsx("w-full border-collapse text-sm", className)}>{children}</table>
     </div>
   );

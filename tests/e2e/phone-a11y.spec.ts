@@ -4,7 +4,7 @@
 // every page; the sign-in page is checked signed out.
 import AxeBuilder from "@axe-core/playwright";
 import type { Page } from "@playwright/test";
-import { expect, signIn, test } from "./helpers";
+import { expect, signIn, snap, test } from "./helpers";
 import { testPool } from "./line-fixtures";
 
 type Target = { name: string; path: string };
@@ -102,6 +102,7 @@ for (const width of [1366, 390] as const) {
       if (width === 390) {
         const { scroll, inner } = await page.evaluate(() => ({ scroll: document.documentElement.scrollWidth, inner: window.innerWidth }));
         if (scroll > inner) problems.push(`${t.name}: page is ${scroll} px wide in a ${inner} px viewport`);
+        if (["floor", "alerts", "alert", "line"].includes(t.name)) await snap(page, `phone-390-${t.name}`);
       }
     }
     expect(problems, problems.join("\n")).toEqual([]);
