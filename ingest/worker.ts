@@ -119,6 +119,7 @@ export async function startWorker() {
       memoryMaxReadings: cfg.INGEST_MEMORY_MAX_READINGS,
       maxUnacked: cfg.INGEST_MAX_UNACKED,
       retryMaxMs: cfg.INGEST_RETRY_MAX_MS,
+      journal: cfg.ALERTS_OWNER === "lease",
     },
     {
       ack: (tokens) => {

@@ -38,6 +38,8 @@ export type WriterOptions = {
   memoryMaxReadings: number;
   maxUnacked: number;
   retryMaxMs: number;
+  /** note committed rows in the reading journal for the alert owner (ALERTS_OWNER=lease) */
+  journal?: boolean;
 };
 
 export type WriterHooks = {
@@ -281,7 +283,7 @@ export class ReadingWriter {
     const c = this.hooks.counters;
     const t0 = performance.now();
     try {
-      const res = await writeReadings(this.pool, rows);
+      const res = await writeReadings(this.pool, rows, { journal: this.opts.journal });
       const now = Date.now();
       c.countFlush(rows.length, res.inserted.length, res.duplicates, performance.now() - t0, now);
       if (source === "live") {

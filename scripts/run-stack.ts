@@ -1,5 +1,7 @@
 // Starts Stillfield's processes in order, waits for each to be ready, prefixes their output,
-// and stops them all (in reverse order) on Ctrl-C / SIGTERM. Used by `npm run demo` (with the
+// restarts one that stops on its own (with a growing delay: 1 s, 2 s, 4 s … 30 s; the others,
+// the app too, stay up), and stops them all (in reverse order) on Ctrl-C / SIGTERM. Which broker
+// and how many workers: scripts/stack-processes.ts (BROKER, WORKERS). Used by `npm run demo` (with the
 // simulators) and by `npm test` (without them). Written here rather than with `concurrently`
 // because start-up must be ordered by readiness (broker before worker before app) and a busy
 // port must give a clear message before anything starts.
@@ -7,6 +9,8 @@ import { spawn, type ChildProcess } from "node:child_process";
 import fs from "node:fs";
 import net from "node:net";
 import path from "node:path";
+import { getSettings } from "../lib/settings";
+import { brokerAndWorkers, restartDelayMs, STABLE_AFTER_MS } from "./stack-processes";
 
 type Service = {
   name: string;
@@ -26,8 +30,7 @@ const tsx = [process.execPath, "--import", "tsx"];
 
 const services: Service[] = [
   { name: "smtp", needs: "ingest/smtp-sink.ts", cmd: [...tsx, "ingest/smtp-sink.ts"], port: num(env.SMTP_PORT, 2525) },
-  { name: "broker", needs: "ingest/broker.ts", cmd: [...tsx, "ingest/broker.ts"], port: num(env.MQTT_PORT, 1884) },
-  { name: "worker", needs: "ingest/worker.ts", cmd: [...tsx, "ingest/worker.ts"], port: num(env.WORKER_HEALTH_PORT, 9464) },
+  ...brokerAndWorkers(getSettings(), tsx, env),
   { name: "mailer", needs: "ingest/mailer.ts", cmd: [...tsx, "ingest/mailer.ts"] },
   // local fakes of the hosted SMS, push and weather services (the SDKs are pointed at them), and the notifier
   { name: "sms-fake", needs: "ingest/sms-fake.ts", cmd: [...tsx, "ingest/sms-fake.ts"], port: num(env.SMS_FAKE_PORT, 9466) },
@@ -47,7 +50,7 @@ if (mode === "demo") {
 }
 
 const colours = ["36", "35", "33", "32", "34", "31", "90"];
-const running: { svc: Service; child: ChildProcess }[] = [];
+const running: { svc: Service; child: ChildProcess; startedTs: number; crashes: number }[] = [];
 let stopping = false;
 
 function portOpen(port: number): Promise<boolean> {
@@ -114,21 +117,41 @@ async function main() {
       process.exit(3);
     }
   }
-  for (const [i, svc] of active.entries()) {
+  let started = false;
+  const launch = (entry: (typeof running)[number], i: number) => {
+    const { svc } = entry;
     const child = spawn(svc.cmd[0], svc.cmd.slice(1), { cwd: root, env: { ...env, ...svc.env }, stdio: ["ignore", "pipe", "pipe"] });
-    running.push({ svc, child });
+    entry.child = child;
+    entry.startedTs = Date.now();
     const prefix = `\x1b[${colours[i % colours.length]}m[${svc.name}]\x1b[0m`;
     pipe(child.stdout, prefix);
     pipe(child.stderr, prefix);
     child.on("exit", (code, signal) => {
-      if (!stopping) {
-        console.error(`[stack] ${svc.name} stopped unexpectedly (${signal ?? `code ${code}`}); stopping everything.`);
+      if (stopping) return;
+      if (!started) {
+        console.error(`[stack] ${svc.name} stopped unexpectedly while starting (${signal ?? `code ${code}`}); stopping everything.`);
         void stopAll(1);
+        return;
       }
+      entry.crashes = Date.now() - entry.startedTs > STABLE_AFTER_MS ? 1 : entry.crashes + 1;
+      const delay = restartDelayMs(entry.crashes);
+      console.error(`[stack] ${svc.name} stopped unexpectedly (${signal ?? `code ${code}`}); restarting it in ${delay / 1000} s (crash ${entry.crashes} in a row)`);
+      setTimeout(() => {
+        if (stopping) return;
+        launch(entry, i);
+        console.log(`[stack] ${svc.name} restarted (pid ${entry.child.pid})`);
+      }, delay).unref();
     });
+    return child;
+  };
+  for (const [i, svc] of active.entries()) {
+    const entry = { svc, child: null as unknown as ChildProcess, startedTs: 0, crashes: 0 };
+    running.push(entry);
+    const child = launch(entry, i);
     if (svc.port) await waitForPort(svc, child);
     console.log(`[stack] ${svc.name} ready${svc.port ? ` on 127.0.0.1:${svc.port}` : ""}`);
   }
+  started = true;
   console.log("[stack] all services ready");
   if (process.env.STACK_READY_FILE) fs.writeFileSync(process.env.STACK_READY_FILE, String(Date.now()));
 }

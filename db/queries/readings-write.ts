@@ -202,6 +202,28 @@ export async function findExistingKeys(conn: Conn, rows: readonly ReadingRow[]):
   return existing;
 }
 
+/**
+ * `journal`: also note the inserted rows in `reading_journal`, in the same transaction, for the
+ * alert owner to read (ingest/alert-journal.ts): whichever worker stores a reading, the owner
+ * sees it once, in commit order.
+ */
+export type WriteOptions = { journal?: boolean };
+
+/** One journal row per transaction: "deviceId,channel,ts,value[,h]" lines (h: historical). */
+export function encodeJournal(rows: readonly ReadingRow[]): string {
+  const lines = new Array<string>(rows.length);
+  for (let i = 0; i < rows.length; i++) {
+    const r = rows[i];
+    lines[i] = `${r.deviceId},${r.channel},${r.ts},${r.value}${r.historical ? ",h" : ""}`;
+  }
+  return lines.join("\n");
+}
+
+async function insertJournal(conn: Conn, rows: readonly ReadingRow[]): Promise<void> {
+  if (rows.length === 0) return;
+  await conn.query("INSERT INTO reading_journal (created_ts, row_count, body) VALUES (?, ?, ?)", [Date.now(), rows.length, encodeJournal(rows)]);
+}
+
 function errno(err: unknown): number | undefined {
   return typeof err === "object" && err !== null && "errno" in err && typeof err.errno === "number" ? err.errno : undefined;
 }
@@ -211,7 +233,7 @@ function errno(err: unknown): number | undefined {
  * rows this call actually inserted (for live snapshots and rule sinks) and how many were
  * already stored.
  */
-export async function writeReadings(pool: mysql.Pool, input: readonly ReadingRow[]): Promise<WriteResult> {
+export async function writeReadings(pool: mysql.Pool, input: readonly ReadingRow[], opts: WriteOptions = {}): Promise<WriteResult> {
   for (const r of input) assertSafeRow(r);
   if (input.length === 0) return { inserted: [], duplicates: 0, attempts: 0 };
   const conn = await pool.getConnection();
@@ -225,6 +247,7 @@ export async function writeReadings(pool: mysql.Pool, input: readonly ReadingRow
           const affected = await insertRaw(conn, input, true);
           if (affected === input.length) {
             await addRollups(conn, input);
+            if (opts.journal) await insertJournal(conn, input);
             await conn.commit();
             return { inserted: input.slice(), duplicates: 0, attempts: attempt };
           }
@@ -239,6 +262,7 @@ export async function writeReadings(pool: mysql.Pool, input: readonly ReadingRow
           await conn.beginTransaction();
           await insertRaw(conn, fresh, false);
           await addRollups(conn, fresh);
+          if (opts.journal) await insertJournal(conn, fresh);
           await conn.commit();
         }
         return { inserted: fresh, duplicates: inBatchDuplicates + rows.length - fresh.length, attempts: attempt };
