@@ -5,11 +5,13 @@
 //   (b) end to end, one reading per message: publisher → broker → worker → MariaDB with rollups,
 //       counted when the worker reports the rows committed;
 //   (c) end to end with gateway-style batches of 10 readings per message;
+//   (c2) Sparkplug B DDATA with 10 metrics per message through the same pipeline
+//        (scripts/bench-sparkplug.ts), against the rate of (c) (target at least 0.8 of it);
 //   (d) publish-to-commit latency (p50/p95) at a steady 2,000 readings/s;
 //   (e) the worker's memory while MariaDB is down at 2,000 readings/s (default 60 s;
 //       --outage-s 600 for the full 10 minutes), and that every reading arrives afterwards.
 // The last line reads:
-//   ingest: <N> readings/s end-to-end, <M> msgs/s bare broker, ratio <R>, batched <B> readings/s
+//   ingest: <N> readings/s end-to-end, <M> msgs/s bare broker, ratio <R>, batched <B> readings/s, sparkplug <S> readings/s (<S/B> of batched)
 // Options: --readings (1000000) --batched-readings (1000000) --bare-messages (300000)
 //          --latency-s (20) --outage-s (60; 0 skips) --window (500 in-flight messages)
 // Needs the MariaDB server binaries (scripts/ensure-system.sh); writes only under .data/.
@@ -30,6 +32,7 @@ import {
   type Proc,
 } from "../tests/integration/ingest-support/processes";
 import { startPrivateMariadb, withDbPort, type PrivateMariadb } from "../tests/integration/ingest-support/private-mariadb";
+import { benchSparkplugDdata } from "./bench-sparkplug";
 
 const { values: argv } = parseArgs({
   options: {
@@ -160,7 +163,10 @@ async function main(): Promise<void> {
     mdb = await startPrivateMariadb("bench", { bufferPoolMb: 512 });
     const server = mdb;
     const tdb = await withDbPort(server.port, () => createTestDatabase("bench"));
-    // bench devices: field meters and gateways on line 1 (so live snapshots are built too)
+    // bench devices: field meters and gateways on line 1 (so live snapshots are built too); the
+    // scratch database is not seeded, so hall 1 and line 1 are made here (devices refer to them)
+    await tdb.pool.query("INSERT IGNORE INTO areas (id, slug, name) VALUES (1, 'bench-hall', 'Bench hall')");
+    await tdb.pool.query("INSERT IGNORE INTO `lines` (id, area_id, slug, name, kind, nominal_speed_mpm) VALUES (1, 1, 'bench-line', 'Bench line', 'laminator', 200)");
     const devices = Array.from({ length: 8 }, (_, i) => ({ code: `bench-fm-${i + 1}`, secret: `bench-secret-${i + 1}-${Date.now()}` }));
     for (const d of devices) {
       await tdb.pool.query(
@@ -243,6 +249,15 @@ async function main(): Promise<void> {
     );
     pubC.end(true);
 
+    // (c2) Sparkplug DDATA, 10 metrics per message, through the worker's Sparkplug host
+    const spb = await benchSparkplugDdata(stack, tdb, { readings: opts.batchedReadings, window: opts.window, committedBefore: base, waitCommitted: (t) => waitCommitted(stack!, t, 600_000) }).catch((err: unknown) => {
+      log(`(c2) Sparkplug DDATA: not measured (${err instanceof Error ? err.message : String(err)})`);
+      return { readings: 0, rate: NaN };
+    });
+    const spbStats = await stack.workerStats();
+    base = spbStats.committed.readings + spbStats.committed.duplicates;
+    if (spb.readings > 0) log(`(c2) end to end, Sparkplug DDATA with 10 metrics: ${Math.round(spb.rate)} readings/s (${spb.readings} readings), ${(spb.rate / batchedRate).toFixed(2)} of the JSON batch rate (target 0.8)`);
+
     // (d) latency at a steady 2,000 readings/s (4 devices × 500/s, stamped at publish time)
     const steady = await Promise.all(devices.slice(3, 7).map(connect));
     const lastTs = new Map<number, number>();
@@ -305,7 +320,7 @@ async function main(): Promise<void> {
     steady.forEach((cl) => cl.end(true));
     await tdb.close().catch(() => undefined);
     log(`bench: done in ${((Date.now() - started) / 1000).toFixed(0)} s`);
-    log(`ingest: ${Math.round(e2eRate)} readings/s end-to-end, ${Math.round(bareRate)} msgs/s bare broker, ratio ${(e2eRate / bareRate).toFixed(2)}, batched ${Math.round(batchedRate)} readings/s`);
+    log(`ingest: ${Math.round(e2eRate)} readings/s end-to-end, ${Math.round(bareRate)} msgs/s bare broker, ratio ${(e2eRate / bareRate).toFixed(2)}, batched ${Math.round(batchedRate)} readings/s, sparkplug ${Math.round(spb.rate)} readings/s (${(spb.rate / batchedRate).toFixed(2)} of batched)`);
   } finally {
     await cleanup();
   }
