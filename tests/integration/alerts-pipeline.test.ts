@@ -75,15 +75,24 @@ async function alertsOf(kind: (typeof alerts.$inferSelect)["kind"], subjectKey?:
 }
 
 // ---- the simulator's cold snap, worked out from the same model the simulator plays ----
-// the scenario is placed so the played span ends about an hour ago: the simulator then plays it all
-// at 3000× and never has to wait for real time to reach the end of the span
-const anchorColdSnap = Math.floor((Date.now() + 25 * H) / 1000) * 1000;
+// the scenario is placed so the played span ends in the past: the simulator then plays it all at
+// 3000× and never has to wait for real time. The hall's climate follows the time of day, so the
+// crossing moves with the anchor: shift the anchor until the crossing falls about 90 minutes ago.
 const pressHall = DEMO_AREAS.find((a) => a.slug === "press-hall")!;
-const model = new PlantModel({ anchorMs: anchorColdSnap, seed: 7 });
 /** when the Press Hall's (noise-free) humidity first falls under the 30 % limit, per the model */
-const crossing30 = (() => {
-  for (let t = anchorColdSnap - 36 * H; t < anchorColdSnap; t += MIN) if (model.climate.at(pressHall, t).rhPct < 30) return t;
+function firstUnder30(m: PlantModel, anchorMs: number): number {
+  for (let t = anchorMs - 36 * H; t < anchorMs; t += MIN) if (m.climate.at(pressHall, t).rhPct < 30) return t;
   throw new Error("the model's cold snap never takes the Press Hall under 30 %");
+}
+const { anchorColdSnap, crossing30 } = (() => {
+  const target = Date.now() - 90 * MIN;
+  let anchorMs = Math.floor((Date.now() + 25 * H) / 1000) * 1000;
+  for (let i = 0; ; i++) {
+    const m = new PlantModel({ anchorMs, seed: 7 });
+    const c = firstUnder30(m, anchorMs);
+    if (Math.abs(c - target) < 30 * MIN || i === 6) return { anchorColdSnap: anchorMs, crossing30: c };
+    anchorMs = Math.floor((anchorMs - (c - target)) / 1000) * 1000;
+  }
 })();
 
 beforeAll(async () => {
