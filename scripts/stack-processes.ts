@@ -23,6 +23,9 @@ export function brokerAndWorkers(s: Settings, tsx: string[], env: NodeJS.Process
       extra.WORKER_HEALTH_PORT = String(s.WORKER_HEALTH_PORT + 100 * (i - 1));
       if (i > 1) extra.SPARKPLUG_HOST = "off";
       if (!env.ALERTS_OWNER) extra.ALERTS_OWNER = "lease";
+      // the owner's save is small (changed rows and its journal position): save often, so a
+      // successor has little to read again
+      if (!env.ALERTS_SNAPSHOT_EVERY_MS) extra.ALERTS_SNAPSHOT_EVERY_MS = "2000";
     }
     out.push({
       name: workers > 1 ? `worker-${i}` : "worker",
