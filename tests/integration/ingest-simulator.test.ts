@@ -12,11 +12,14 @@ const H = 3_600_000;
 const DAY = 24 * H;
 let tdb: TestDatabase;
 let stack: IngestStack | null = null;
-const anchor = Math.floor(Date.now() / 1000) * 1000;
+// the scenario is anchored at the latest 05:00 UTC: the hall's climate follows the time of day, and
+// anchored late in the evening the cold snap's first hours fall in the night's dip of the
+// "before" days, so "part of the way down a few hours in" would depend on when the test runs
+const anchor = Math.floor((Date.now() - 5 * H) / DAY) * DAY + 5 * H;
 
 beforeAll(async () => {
   tdb = await createTestDatabase("ingest_sim", { seed: true });
-  // a week at one sample every two minutes per field meter (--thin 120), the scenario anchored now
+  // a week at one sample every two minutes per field meter (--thin 120)
   const plant = spawnTs(
     "plant",
     "simulators/plant.ts",
@@ -107,7 +110,10 @@ describe("backfilled week", () => {
 describe("live simulator", () => {
   it("streams through the broker and worker; its malformed messages are rejected and the rest stored", async () => {
     stack = await startIngestStack("sim", tdb.env);
-    const before = await count("fm-gravure-1-unwind", -0.25, 1);
+    // the live part plays the last ten minutes before now, which the backfill (anchored earlier)
+    // also covered at one sample every two minutes
+    const nowH = (Date.now() - anchor) / H;
+    const before = await count("fm-gravure-1-unwind", nowH - 0.25, nowH + 1);
     const plant = spawnTs(
       "plant",
       "simulators/plant.ts",
@@ -122,7 +128,7 @@ describe("live simulator", () => {
     expect(s.rejected.total).toBeGreaterThanOrEqual(20);
     expect(Object.keys(s.rejected.byReason).length).toBeGreaterThanOrEqual(4);
     // ten minutes at 1 Hz where the backfill had one sample every two minutes
-    expect(await count("fm-gravure-1-unwind", -0.25, 1)).toBeGreaterThan(before + 500);
+    expect(await count("fm-gravure-1-unwind", nowH - 0.25, nowH + 1)).toBeGreaterThan(before + 500);
     // the backfill's samples in that span were sent again and stored once
     expect(s.committed.duplicates).toBeGreaterThan(0);
   });
