@@ -46,7 +46,10 @@ fi
 
 need_browser=""
 if [ "$PART" = "all" ] || [ "$PART" = "e2e" ]; then need_browser="--browser"; fi
-bash scripts/ensure-system.sh $need_browser || exit 1
+# the Mosquitto-profile integration tests start a private mosquitto of their own
+need_mosquitto=""
+if [ "$PART" = "all" ] || [ "$PART" = "integration" ]; then need_mosquitto="--mosquitto"; fi
+bash scripts/ensure-system.sh $need_browser $need_mosquitto || exit 1
 
 db_started_here=0
 if ! bash scripts/mariadb.sh status >/dev/null 2>&1; then db_started_here=1; fi
