@@ -258,7 +258,7 @@ export class SparkplugHostState {
         fx.rejections.push({ reason: "wrong_datatype", detail: `"${def.name}" sent as ${m.datatype}, born as ${def.datatype}`, deviceName: deviceName || null });
         continue;
       }
-      if (m.isNull) {
+      if (m.isNull || m.value === null || m.value === undefined) {
         fx.lastValues.push({ deviceName, name: def.name, value: null, ts });
         continue;
       }
