@@ -24,14 +24,14 @@ import {
 } from "../lib/demo-plant";
 import { defaultCheckLimits, judgeCheck, STANDARD_PLATE } from "../lib/physics/neutralizer";
 import { seedDemoGateway } from "./seed-gateway";
-import { generateDeviceSecret, hashDeviceSecret } from "../lib/device-secrets";
+import { deviceSecretsFileName, generateDeviceSecret, hashDeviceSecret } from "../lib/device-secrets";
 import { DEFAULT_PLANT_SETTINGS } from "../lib/plant-settings";
 
 const SEED_MARKER = "seed.demo_plant";
 
 export function deviceSecretsFile(dbName?: string): string {
   const env = getEnv();
-  return path.resolve(env.DATA_DIR, `device-secrets-${dbName ?? env.DB_NAME}.json`);
+  return path.resolve(env.DATA_DIR, deviceSecretsFileName(dbName ?? env.DB_NAME));
 }
 
 export async function isSeeded(db: Db): Promise<boolean> {

@@ -59,3 +59,8 @@ export function verifyDeviceSecret(secret: string, stored: string): boolean {
   const actual = createHash("sha256").update(`${parts[1]}:${secret}`).digest();
   return expected.length === actual.length && timingSafeEqual(expected, actual);
 }
+
+/** The file (under the data folder) where the seed keeps the demo devices' plain secrets for the simulators. */
+export function deviceSecretsFileName(dbName: string): string {
+  return `device-secrets-${dbName}.json`;
+}

@@ -17,15 +17,15 @@ import fs from "node:fs";
 import path from "node:path";
 import { parseArgs } from "node:util";
 import type mysql from "mysql2/promise";
-import { inArray, max } from "drizzle-orm";
 import { z } from "zod";
 import { closeDb, getDb, getPool } from "../db/client";
 import { getEnv } from "../db/env";
-import { devices as devicesTable, rollup1m } from "../db/schema";
 import {
   aggregateRollups,
+  deviceIdsByCode,
   HOUR_MS,
   MINUTE_MS,
+  newestRollupMinute,
   writeReadings,
   writeRollups,
   type ReadingRow,
@@ -140,6 +140,11 @@ export function resolveAnchor(given: number | undefined, dataDir: string, dbName
   return anchorMs;
 }
 
+/** Closes the database pool the history writer used (the live simulator needs none). */
+export async function closeHistoryWriter(): Promise<void> {
+  await closeDb();
+}
+
 export type HistoryOptions = { days: number; thin: number; fullRateHours: number; rollupThin: number; codes?: string[] };
 
 /**
@@ -151,15 +156,13 @@ export async function writeHistory(model: PlantModel, opts: HistoryOptions, log:
   const env = getEnv();
   const db = getDb();
   const codes = opts.codes ?? model.devices.map((d) => d.code);
-  const rows = await db.select({ id: devicesTable.id, code: devicesTable.code }).from(devicesTable).where(inArray(devicesTable.code, codes));
-  const ids = new Map(rows.map((r) => [r.code, r.id]));
+  const ids = await deviceIdsByCode(db, codes);
   const toMs = Math.floor(Date.now() / 1000) * 1000;
   if (ids.size === 0) {
     log("no demo devices in the database (run the seed first); no history written");
     return toMs;
   }
-  const [last] = await db.select({ ts: max(rollup1m.bucketTs) }).from(rollup1m).where(inArray(rollup1m.deviceId, [...ids.values()]));
-  const fromMs = Math.max(toMs - opts.days * DAY, last?.ts ?? 0);
+  const fromMs = Math.max(toMs - opts.days * DAY, (await newestRollupMinute(db, [...ids.values()])) ?? 0);
   if (fromMs >= toMs - 1000) {
     log("history is up to date; nothing to write");
     return toMs;

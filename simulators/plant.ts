@@ -24,14 +24,12 @@ import path from "node:path";
 import { parseArgs } from "node:util";
 import mqtt, { type MqttClient } from "mqtt";
 import { z } from "zod";
-import { closeDb } from "../db/client";
-import { getEnv } from "../db/env";
-import { readDeviceSecrets } from "../db/seed";
+import { readSimulatorSecrets } from "./device-secrets";
 import type { ReadingSetInput } from "../lib/contract/readings-payload";
 import { MAX_BATCH_LENGTH } from "../lib/contract/readings-payload";
 import { deviceTopics } from "../lib/contract/topics";
 import { getSettings } from "../lib/settings";
-import { resolveAnchor, writeHistory } from "./backfill";
+import { closeHistoryWriter, resolveAnchor, writeHistory } from "./backfill";
 import { PlantModel, SAMPLE_PERIOD_MS, type SimDevice } from "./plant-model";
 import { sparkplugLine } from "./sparkplug-line";
 
@@ -122,8 +120,8 @@ function malformedPayload(n: number, device: SimDevice, ts: number): string {
 type Link = { device: SimDevice; client: MqttClient; nextTs: number; inFlight: number };
 
 async function runLive(opts: PlantOptions, model: PlantModel, simDevices: SimDevice[], startMs: number): Promise<void> {
-  const env = getEnv();
-  const secrets = readDeviceSecrets(env.DB_NAME);
+  const env = getSettings();
+  const secrets = readSimulatorSecrets(env.DB_NAME);
   const ackedLog = opts.logAcked ? fs.createWriteStream(opts.logAcked, { flags: "a" }) : null;
   const links: Link[] = [];
   let stopping = false;
@@ -265,7 +263,7 @@ async function runLive(opts: PlantOptions, model: PlantModel, simDevices: SimDev
 
 async function main() {
   const opts = readOptions();
-  const env = getEnv();
+  const env = getSettings();
   const anchorMs = resolveAnchor(opts.anchor, env.DATA_DIR, env.DB_NAME);
   const model = new PlantModel({ anchorMs, seed: opts.seed });
   const wanted = opts.devices ? new Set(opts.devices.split(",").map((s) => s.trim())) : null;
@@ -281,7 +279,7 @@ async function main() {
     );
     liveFrom = opts.from ?? end;
   }
-  await closeDb();
+  await closeHistoryWriter();
   // the demo gateway's line comes through a simulated Sparkplug edge node (simulators/sparkplug-line.ts)
   const spb = opts.live ? sparkplugLine(model, log) : null;
   let liveDone = false;
@@ -295,7 +293,7 @@ if (isMain) {
     .then(() => process.exit(0))
     .catch((err: unknown) => {
       process.stderr.write(`plant: ${err instanceof Error ? err.stack ?? err.message : String(err)}\n`);
-      void closeDb().catch(() => undefined);
+      void closeHistoryWriter().catch(() => undefined);
       process.exit(1);
     });
 }

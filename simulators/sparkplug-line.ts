@@ -7,8 +7,7 @@
 // session, sends its births and uploads the buffer as historical metrics, which fill the gap on
 // the line page. Switched on by SIM_SPARKPLUG_LINE=on (the demo stack, scripts/run-stack.ts);
 // the plant simulator (simulators/plant.ts) then leaves these devices to it.
-import { getEnv } from "../db/env";
-import { readDeviceSecrets } from "../db/seed";
+import { readSimulatorSecrets } from "./device-secrets";
 import { DEMO_GATEWAY, DEMO_GATEWAY_METRICS, demoGatewayDeviceCodes } from "../lib/demo-gateway";
 import { getSettings } from "../lib/settings";
 import type { PlantModel, SimDevice } from "./plant-model";
@@ -66,8 +65,8 @@ export function sparkplugLine(model: PlantModel, log: (msg: string) => void): Sp
   return {
     codes,
     async run(startMs, stopping) {
-      const env = getEnv();
-      const secret = readDeviceSecrets(env.DB_NAME)[DEMO_GATEWAY.code];
+      const env = getSettings();
+      const secret = readSimulatorSecrets(env.DB_NAME)[DEMO_GATEWAY.code];
       if (!secret) {
         log(`no secret for the Sparkplug gateway ${DEMO_GATEWAY.code} (run the seed); its line stays quiet`);
         return;

@@ -16,7 +16,10 @@
 //      actually inserted it — also with several workers at once.
 // Raw rows and rollups always commit together. Duplicates are rare (resends), so the slow path
 // costs nothing in normal running.
+import { inArray, max } from "drizzle-orm";
 import type mysql from "mysql2/promise";
+import type { Db } from "../client";
+import { devices as devicesTable, rollup1m } from "../schema";
 import { CHANNELS, type Channel } from "../../lib/contract/readings-payload";
 
 /** `historical` rides along to the reading sinks (ingest/sinks.ts); it is not stored. */
@@ -278,4 +281,20 @@ export async function writeReadings(pool: mysql.Pool, input: readonly ReadingRow
   } finally {
     conn.release();
   }
+}
+
+// ---- what the history backfill (simulators/backfill.ts) needs to know before it writes ----
+
+/** Ids of the devices with these codes (code → id). */
+export async function deviceIdsByCode(db: Db, codes: readonly string[]): Promise<Map<string, number>> {
+  if (codes.length === 0) return new Map();
+  const rows = await db.select({ id: devicesTable.id, code: devicesTable.code }).from(devicesTable).where(inArray(devicesTable.code, [...codes]));
+  return new Map(rows.map((r) => [r.code, r.id]));
+}
+
+/** The newest 1-minute rollup bucket of these devices, or null when they have none. */
+export async function newestRollupMinute(db: Db, deviceIds: readonly number[]): Promise<number | null> {
+  if (deviceIds.length === 0) return null;
+  const [last] = await db.select({ ts: max(rollup1m.bucketTs) }).from(rollup1m).where(inArray(rollup1m.deviceId, [...deviceIds]));
+  return last?.ts ?? null;
 }
