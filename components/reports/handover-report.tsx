@@ -152,7 +152,7 @@ export function HandoverReportView({ report }: { report: Report }) {
         ) : null}
       </Section>
 
-      <div className="grid gap-x-5 xl:grid-cols-2 print:grid-cols-1">
+      <div className="grid grid-cols-1 gap-x-5 xl:grid-cols-2 print:grid-cols-1">
         <Section title="Hall humidity" testId="handover-halls">
           <Table>
             <thead>
@@ -228,10 +228,10 @@ export function HandoverReportView({ report }: { report: Report }) {
         ) : (
           <ul className="divide-y divide-paper-line">
             {report.notes.map((n) => (
-              <li key={n.id} className="flex gap-3 py-1.5 text-sm break-inside-avoid">
+              <li key={n.id} className="flex flex-wrap gap-x-3 py-1.5 text-sm break-inside-avoid">
                 <span className="num w-12 shrink-0 text-ink-faint">{hhmm(n.ts)}</span>
-                <span className="w-64 shrink-0 text-ink-soft">{n.where.label.replace(/^[^›]*› /, "")}</span>
-                <span className="flex-1">
+                <span className="min-w-0 text-ink-soft sm:w-64 sm:shrink-0">{n.where.label.replace(/^[^›]*› /, "")}</span>
+                <span className="min-w-0 grow basis-full break-words sm:basis-0">
                   {n.text} <span className="text-xs text-ink-faint">— {n.personName ?? "someone"}</span>
                 </span>
               </li>

@@ -86,12 +86,17 @@ export default async function EquipmentPage() {
         <Stat label="Cleaning overdue" value={counts.cleaningOverdue} state={counts.cleaningOverdue ? "over" : undefined} />
       </div>
 
-      <div className="grid gap-5 xl:grid-cols-[minmax(0,1fr)_24rem]">
+      <div className="grid grid-cols-1 gap-5 xl:grid-cols-[minmax(0,1fr)_24rem]">
         <div className="space-y-5">
           {ns.length === 0 ? <EmptyState title="No neutralizers recorded yet">{canEdit ? "Add the first one with the form on the right." : "An engineer adds them here."}</EmptyState> : null}
           {[...halls.entries()].map(([hall, items]) => (
             <Card key={hall} title={hall} aside={<span className="text-xs text-ink-faint">{items.length} neutralizers</span>}>
-              <div className="-mx-4 -my-2 overflow-x-auto">
+              <ul className="-mx-4 -my-2 md:hidden" data-testid="neutralizer-cards">
+                {groupByLine(items).map(([line, rows]) => (
+                  <LineCards key={line} line={line} rows={rows} nowMs={nowMs} tz={tz} effects={effects} places={places} />
+                ))}
+              </ul>
+              <div className="relative -mx-4 -my-2 hidden overflow-x-auto md:block" tabIndex={0} role="region" aria-label={`Neutralizers in ${hall} (scrolls sideways on a narrow screen)`}>
                 <table className="w-full min-w-[56rem] table-fixed text-sm" data-testid="neutralizer-table">
                   <colgroup>
                     <col className="w-[15rem]" />
@@ -172,21 +177,79 @@ function groupByLine(items: NeutralizerListItem[]): Array<[string, NeutralizerLi
   return [...m.entries()];
 }
 
-function LineRows({
-  line,
-  rows,
-  nowMs,
-  tz,
-  effects,
-  places,
-}: {
-  line: string;
-  rows: NeutralizerListItem[];
-  nowMs: number;
-  tz: string;
-  effects: Map<number, { effect: number | null }[]>;
-  places: Awaited<ReturnType<typeof getPlaceOptions>>;
-}) {
+type Places = Awaited<ReturnType<typeof getPlaceOptions>>;
+type RowsProps = { line: string; rows: NeutralizerListItem[]; nowMs: number; tz: string; effects: Map<number, { effect: number | null }[]>; places: Places };
+
+const warningsOf = (n: NeutralizerListItem, places: Places) => neutralizerWarnings({ ...n, solventLine: places.lines.find((l) => l.id === n.lineId)?.solvent ?? false });
+
+function kindText(n: NeutralizerListItem): string {
+  const bar = n.kind === "ac_bar" || n.kind === "pulsed_dc_bar" || n.kind === "steady_dc_bar";
+  return `${NEUTRALIZER_KIND_LABELS[n.kind]}${n.airAssisted && bar ? ", air" : ""}`;
+}
+
+function WarningsMark({ warnings }: { warnings: ReturnType<typeof neutralizerWarnings> }) {
+  if (!warnings.length) return null;
+  return (
+    <span className="ml-2 inline-flex items-center gap-0.5 text-xs text-near" title={warnings.map((w) => w.message).join("\n")}>
+      <svg viewBox="0 0 12 12" className="h-2.5 w-2.5" aria-hidden="true">
+        <path d="M6 1 L11 11 L1 11 Z" fill="currentColor" />
+      </svg>
+      {warnings.length} warning{warnings.length === 1 ? "" : "s"}
+    </span>
+  );
+}
+
+function LastCheck({ n, tz }: { n: NeutralizerListItem; tz: string }) {
+  if (!n.lastCheck) return <span className="text-xs text-ink-faint">none yet</span>;
+  return (
+    <span className="inline-flex items-center gap-2">
+      <CheckResultBadge passed={n.lastCheck.passed} />
+      <span className="text-xs text-ink-faint">{fmtDate(n.lastCheck.ts, tz)}</span>
+    </span>
+  );
+}
+
+/** Phones: each neutralizer as a small stacked card (tag and state, where, cleaning, last check, effect). */
+function LineCards({ line, rows, nowMs, tz, effects, places }: RowsProps) {
+  return (
+    <li className="border-t border-paper-line first:border-t-0">
+      <h3 className="bg-paper/60 px-4 py-1.5 text-xs font-semibold uppercase tracking-wide text-ink-soft">{line}</h3>
+      <ul>
+        {rows.map((n) => (
+          <li key={n.id} className="space-y-1.5 border-t border-paper-line px-4 py-2.5 text-sm" data-testid="neutralizer-card" data-tag={n.tag}>
+            <div className="flex flex-wrap items-center justify-between gap-x-3 gap-y-1">
+              <span className="min-w-0 break-words">
+                <Link href={`/equipment/${n.id}`} className="font-medium text-brand hover:underline">
+                  {n.tag}
+                </Link>
+                <WarningsMark warnings={warningsOf(n, places)} />
+              </span>
+              <NeutralizerStateBadge state={n.state} />
+            </div>
+            <p className="break-words text-xs text-ink-soft">
+              {n.position !== null ? `${n.position}. ${n.pointName}` : "Not placed"} · {kindText(n)}
+              {n.mountingDistanceMm !== null ? <span className="num"> · {n.mountingDistanceMm} mm to web</span> : null}
+            </p>
+            <dl className="grid grid-cols-[auto_minmax(0,1fr)] items-center gap-x-3 gap-y-1 text-xs">
+              <dt className="text-ink-faint">Cleaning</dt>
+              <dd>{n.state === "removed" ? <span className="text-ink-faint">—</span> : <DueBadge dueTs={n.cleaningDueTs} nowMs={nowMs} />}</dd>
+              <dt className="text-ink-faint">Last check</dt>
+              <dd>
+                <LastCheck n={n} tz={tz} />
+              </dd>
+              <dt className="text-ink-faint">Effect 24 h</dt>
+              <dd className="text-sm">
+                <EffectValue effect={effects.get(n.id)?.[0]?.effect ?? null} />
+              </dd>
+            </dl>
+          </li>
+        ))}
+      </ul>
+    </li>
+  );
+}
+
+function LineRows({ line, rows, nowMs, tz, effects, places }: RowsProps) {
   return (
     <>
       <tr className="border-t border-paper-line bg-paper/60">
@@ -195,28 +258,20 @@ function LineRows({
         </th>
       </tr>
       {rows.map((n) => {
-        const warnings = neutralizerWarnings({ ...n, solventLine: places.lines.find((l) => l.id === n.lineId)?.solvent ?? false });
+        const warnings = warningsOf(n, places);
         return (
           <tr key={n.id} className="border-t border-paper-line align-middle" data-testid="neutralizer-row" data-tag={n.tag}>
             <td className="px-4 py-2">
               <Link href={`/equipment/${n.id}`} className="font-medium text-brand hover:underline">
                 {n.tag}
               </Link>
-              {warnings.length ? (
-                <span className="ml-2 inline-flex items-center gap-0.5 text-xs text-near" title={warnings.map((w) => w.message).join("\n")}>
-                  <svg viewBox="0 0 12 12" className="h-2.5 w-2.5" aria-hidden="true">
-                    <path d="M6 1 L11 11 L1 11 Z" fill="currentColor" />
-                  </svg>
-                  {warnings.length} warning{warnings.length === 1 ? "" : "s"}
-                </span>
-              ) : null}
+              <WarningsMark warnings={warnings} />
             </td>
             <td className="truncate py-2 pr-3 text-ink-soft" title={n.pointName ?? undefined}>
               {n.position !== null ? `${n.position}. ${n.pointName}` : "—"}
             </td>
             <td className="truncate py-2 pr-3 text-ink-soft">
-              {NEUTRALIZER_KIND_LABELS[n.kind]}
-              {n.airAssisted && (n.kind === "ac_bar" || n.kind === "pulsed_dc_bar" || n.kind === "steady_dc_bar") ? ", air" : ""}
+              {kindText(n)}
             </td>
             <td className="num py-2 pr-3 text-right text-ink-soft">{n.mountingDistanceMm !== null ? `${n.mountingDistanceMm} mm` : "—"}</td>
             <td className="py-2 pr-3">
@@ -224,14 +279,7 @@ function LineRows({
             </td>
             <td className="py-2 pr-3">{n.state === "removed" ? <span className="text-ink-faint">—</span> : <DueBadge dueTs={n.cleaningDueTs} nowMs={nowMs} />}</td>
             <td className="py-2 pr-3">
-              {n.lastCheck ? (
-                <span className="inline-flex items-center gap-2">
-                  <CheckResultBadge passed={n.lastCheck.passed} />
-                  <span className="text-xs text-ink-faint">{fmtDate(n.lastCheck.ts, tz)}</span>
-                </span>
-              ) : (
-                <span className="text-xs text-ink-faint">none yet</span>
-              )}
+              <LastCheck n={n} tz={tz} />
             </td>
             <td className="py-2 pr-4 text-right">
               <EffectValue effect={effects.get(n.id)?.[0]?.effect ?? null} />

@@ -71,7 +71,7 @@ function NodeCard({ node: n, nowMs, targets, mayMap }: { node: EdgeNodeView; now
         title={
           <span className="flex flex-wrap items-center gap-2">
             <span>{n.label}</span>
-            <code className="text-xs font-normal text-ink-faint">
+            <code className="break-all text-xs font-normal text-ink-faint">
               {n.groupId}/{n.nodeId}
             </code>
             {n.online ? <StateBadge state="normal" label="Online" /> : <StateBadge state="silent" label={n.lastDeathTs ? `Offline · ${fmtAgo(n.lastDeathTs, nowMs)}` : "Offline"} />}
@@ -109,7 +109,7 @@ function NodeCard({ node: n, nowMs, targets, mayMap }: { node: EdgeNodeView; now
         {n.metrics.length === 0 ? (
           <EmptyState title="No birth received yet">Metrics appear here once the node publishes its NBIRTH and DBIRTH messages.</EmptyState>
         ) : (
-          <div className="-mx-4 overflow-x-auto">
+          <div className="relative -mx-4 overflow-x-auto" tabIndex={0} role="region" aria-label={`Metrics of ${n.label} (scrolls sideways on a narrow screen)`}>
             <table className="w-full min-w-[56rem] text-sm" data-testid="metric-table">
               <thead className="text-left text-xs text-ink-faint">
                 <tr>

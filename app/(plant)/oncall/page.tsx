@@ -56,7 +56,7 @@ export default async function OnCallPage() {
   return (
     <div>
       <PageHeader title="On-call" subtitle="Who is e-mailed when an alert is not acknowledged on the floor, and who next." />
-      <div className="grid gap-5 xl:grid-cols-[1fr_24rem]">
+      <div className="grid grid-cols-1 gap-5 xl:grid-cols-[minmax(0,1fr)_24rem]">
         <div className="space-y-5">
           <Card title="On call now">
             {onCallNow.length === 0 ? (
@@ -85,40 +85,42 @@ export default async function OnCallPage() {
             {windows.size === 0 ? (
               <EmptyState title="Nothing on the roster">{isAdmin ? "Add shifts with the form beside." : "An admin fills the roster."}</EmptyState>
             ) : (
-              <table className="w-full text-sm" data-testid="roster">
-                <thead className="text-left text-xs text-ink-faint">
-                  <tr>
-                    <th className="pb-2 pr-3 font-medium">From</th>
-                    <th className="pb-2 pr-3 font-medium">Until</th>
-                    {orders.map((o) => (
-                      <th key={o} className="pb-2 pr-3 font-medium">
-                        {o === 1 ? "First called" : `Order ${o}`}
-                      </th>
-                    ))}
-                  </tr>
-                </thead>
-                <tbody>
-                  {[...windows.values()].map((w) => (
-                    <tr key={`${w.startTs}-${w.endTs}`} className="border-t border-paper-line align-top">
-                      <td className="num py-1.5 pr-3 whitespace-nowrap">{when(w.startTs)}</td>
-                      <td className="num py-1.5 pr-3 whitespace-nowrap">{when(w.endTs)}</td>
+              <div className="relative -mx-4 overflow-x-auto px-4" tabIndex={0} role="region" aria-label="Roster (scrolls sideways on a narrow screen)">
+                <table className="w-full text-sm" data-testid="roster">
+                  <thead className="text-left text-xs text-ink-faint">
+                    <tr>
+                      <th className="pb-2 pr-3 font-medium">From</th>
+                      <th className="pb-2 pr-3 font-medium">Until</th>
                       {orders.map((o) => (
-                        <td key={o} className="py-1.5 pr-3">
-                          {w.shifts
-                            .filter((s) => s.escalationOrder === o)
-                            .map((s) => (
-                              <div key={s.id} className="flex items-baseline gap-2">
-                                <span className={s.personActive ? "" : "text-ink-faint line-through"}>{s.personName}</span>
-                                {s.note ? <span className="text-xs text-ink-faint">{s.note}</span> : null}
-                                {isAdmin ? <RemoveShiftButton id={s.id} label={`${s.personName} from ${when(s.startTs)}`} /> : null}
-                              </div>
-                            ))}
-                        </td>
+                        <th key={o} className="pb-2 pr-3 font-medium">
+                          {o === 1 ? "First called" : `Order ${o}`}
+                        </th>
                       ))}
                     </tr>
-                  ))}
-                </tbody>
-              </table>
+                  </thead>
+                  <tbody>
+                    {[...windows.values()].map((w) => (
+                      <tr key={`${w.startTs}-${w.endTs}`} className="border-t border-paper-line align-top">
+                        <td className="num py-1.5 pr-3 whitespace-nowrap">{when(w.startTs)}</td>
+                        <td className="num py-1.5 pr-3 whitespace-nowrap">{when(w.endTs)}</td>
+                        {orders.map((o) => (
+                          <td key={o} className="py-1.5 pr-3">
+                            {w.shifts
+                              .filter((s) => s.escalationOrder === o)
+                              .map((s) => (
+                                <div key={s.id} className="flex items-baseline gap-2">
+                                  <span className={s.personActive ? "" : "text-ink-faint line-through"}>{s.personName}</span>
+                                  {s.note ? <span className="text-xs text-ink-faint">{s.note}</span> : null}
+                                  {isAdmin ? <RemoveShiftButton id={s.id} label={`${s.personName} from ${when(s.startTs)}`} /> : null}
+                                </div>
+                              ))}
+                          </td>
+                        ))}
+                      </tr>
+                    ))}
+                  </tbody>
+                </table>
+              </div>
             )}
           </Card>
 
@@ -126,22 +128,24 @@ export default async function OnCallPage() {
             {mails.length === 0 ? (
               <p className="text-sm text-ink-faint">No e-mail has been queued yet.</p>
             ) : (
-              <table className="w-full text-sm" data-testid="recent-mails">
-                <tbody>
-                  {mails.map((m) => (
-                    <tr key={m.id} className="border-t border-paper-line first:border-0 align-top">
-                      <td className="num w-32 py-1.5 pr-3 text-xs text-ink-faint">{when(m.createdTs)}</td>
-                      <td className="py-1.5 pr-3">
-                        <div>{m.subject}</div>
-                        <div className="text-xs text-ink-faint">to {isAdmin ? m.toAddress : m.toAddress.replace(/^[^@]*/, "…")}</div>
-                      </td>
-                      <td className="w-40 py-1.5 text-xs">
-                        {m.state === "sent" && m.sentTs !== null ? `sent ${formatPlantTime(m.sentTs, tz, "HH:mm")}` : m.state === "failed" ? <span className="text-over">failed: {m.lastError}</span> : `waiting (${m.attempts} tries)`}
-                      </td>
-                    </tr>
-                  ))}
-                </tbody>
-              </table>
+              <div className="relative -mx-4 overflow-x-auto px-4" tabIndex={0} role="region" aria-label="Recent e-mails (scrolls sideways on a narrow screen)">
+                <table className="w-full min-w-[30rem] text-sm" data-testid="recent-mails">
+                  <tbody>
+                    {mails.map((m) => (
+                      <tr key={m.id} className="border-t border-paper-line first:border-0 align-top">
+                        <td className="num w-32 py-1.5 pr-3 text-xs text-ink-faint">{when(m.createdTs)}</td>
+                        <td className="py-1.5 pr-3">
+                          <div>{m.subject}</div>
+                          <div className="text-xs text-ink-faint">to {isAdmin ? m.toAddress : m.toAddress.replace(/^[^@]*/, "…")}</div>
+                        </td>
+                        <td className="w-40 py-1.5 text-xs">
+                          {m.state === "sent" && m.sentTs !== null ? `sent ${formatPlantTime(m.sentTs, tz, "HH:mm")}` : m.state === "failed" ? <span className="text-over">failed: {m.lastError}</span> : `waiting (${m.attempts} tries)`}
+                        </td>
+                      </tr>
+                    ))}
+                  </tbody>
+                </table>
+              </div>
             )}
           </Card>
         </div>

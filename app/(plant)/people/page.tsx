@@ -22,23 +22,25 @@ export default async function PeoplePage() {
   return (
     <div>
       <PageHeader title="People" subtitle="Who can sign in, and what each role may do." />
-      <div className="grid gap-5 xl:grid-cols-[1fr_22rem]">
+      <div className="grid grid-cols-1 gap-5 xl:grid-cols-[minmax(0,1fr)_22rem]">
         <Card title={`${people.length} people`}>
-          <table className="w-full text-sm">
-            <thead className="text-left text-xs text-ink-faint">
-              <tr>
-                <th className="pb-2 font-medium">Name</th>
-                <th className="pb-2 font-medium">Role</th>
-                <th className="pb-2 font-medium">Status</th>
-                <th className="pb-2 font-medium">Reset password</th>
-              </tr>
-            </thead>
-            <tbody>
-              {people.map((p) => (
-                <PersonRow key={p.id} person={p} isSelf={p.id === session.personId} />
-              ))}
-            </tbody>
-          </table>
+          <div className="relative -mx-4 overflow-x-auto px-4" tabIndex={0} role="region" aria-label="People (scrolls sideways on a narrow screen)">
+            <table className="w-full text-sm">
+              <thead className="text-left text-xs text-ink-faint">
+                <tr>
+                  <th className="pb-2 font-medium">Name</th>
+                  <th className="pb-2 font-medium">Role</th>
+                  <th className="pb-2 font-medium">Status</th>
+                  <th className="pb-2 font-medium">Reset password</th>
+                </tr>
+              </thead>
+              <tbody>
+                {people.map((p) => (
+                  <PersonRow key={p.id} person={p} isSelf={p.id === session.personId} />
+                ))}
+              </tbody>
+            </table>
+          </div>
         </Card>
         <Card title="Add a person">
           <AddPersonForm />

@@ -80,7 +80,7 @@ export default async function NeutralizerPage({ params }: { params: Promise<{ id
 
       <SettingsWarnings warnings={warnings} />
 
-      <div className="grid grid-cols-[minmax(0,1fr)] gap-5 xl:grid-cols-[minmax(0,1fr)_25rem]">
+      <div className="grid grid-cols-1 gap-5 xl:grid-cols-[minmax(0,1fr)_25rem]">
         <div className="space-y-5">
           <Card title="Effect on the web" aside={<span className="text-xs text-ink-faint">1 − |charge after| / |charge before|, while the line runs</span>}>
             {topology?.beforePoint ? (
@@ -130,7 +130,7 @@ export default async function NeutralizerPage({ params }: { params: Promise<{ id
             {checks.length === 0 ? (
               <p className="text-sm text-ink-faint">No checks recorded yet.</p>
             ) : (
-              <div className="-mx-4 -my-2 overflow-x-auto">
+              <div className="relative -mx-4 -my-2 overflow-x-auto" tabIndex={0} role="region" aria-label="Checks (scrolls sideways on a narrow screen)">
                 <table className="w-full min-w-[44rem] text-sm" data-testid="check-table">
                   <thead className="text-left text-xs text-ink-faint">
                     <tr>
@@ -227,7 +227,7 @@ export default async function NeutralizerPage({ params }: { params: Promise<{ id
               <dt className="text-ink-soft">Verification</dt>
               <dd>{n.state === "removed" ? "—" : <DueBadge dueTs={n.checkDueTs} nowMs={nowMs} />}</dd>
               <dt className="text-ink-soft">Last check</dt>
-              <dd className="flex items-center gap-2">
+              <dd className="flex flex-wrap items-center gap-x-2">
                 {n.lastCheck ? (
                   <>
                     <CheckResultBadge passed={n.lastCheck.passed} /> {fmtDate(n.lastCheck.ts, tz)}

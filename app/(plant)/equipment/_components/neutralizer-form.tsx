@@ -136,8 +136,8 @@ export function NeutralizerForm({
             <input name="outputKv" inputMode="decimal" className={inputClass} defaultValue={v?.outputKv ?? ""} />
           </Field>
         </div>
-        <div className="grid grid-cols-3 gap-3">
-          <Field label="Installed on" name="installedOn">
+        <div className="grid grid-cols-2 gap-3 sm:grid-cols-3">
+          <Field label="Installed on" name="installedOn" className="col-span-2 sm:col-span-1">
             <input name="installedOn" type="date" className={inputClass} defaultValue={v?.installedOn ?? ""} />
           </Field>
           <Field label="Clean every, days" name="cleaningIntervalDays">

@@ -7,10 +7,12 @@ export function CleanedForm({ id, nowLocal }: { id: number; nowLocal: string }) 
   return (
     <ActionForm action={markCleaned} className="space-y-2" successMessage="Cleaning recorded; the cleaning clock starts again." resetOnSuccess>
       <input type="hidden" name="id" value={id} />
-      <div className="grid grid-cols-[1fr_auto] items-end gap-2">
-        <Field label="Cleaned at" name="cleanedAt">
-          <input type="datetime-local" name="cleanedAt" defaultValue={nowLocal} className={inputClass} />
-        </Field>
+      <div className="flex flex-wrap items-end gap-2">
+        <div className="min-w-[11rem] flex-1">
+          <Field label="Cleaned at" name="cleanedAt">
+            <input type="datetime-local" name="cleanedAt" defaultValue={nowLocal} className={inputClass} />
+          </Field>
+        </div>
         <span className="whitespace-nowrap">
           <SubmitButton>Record cleaning</SubmitButton>
         </span>
