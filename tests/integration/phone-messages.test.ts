@@ -148,7 +148,8 @@ describe("texts and push from an excursion", () => {
       // its unit, the plain-text part, and a link frozen to the chart's hour
       const key = `alert:${alert.id}:order:1:person:${engineerId}`;
       const entry = await waitFor("the on-call e-mail", async () => readSinkIndex(mailDataDir).find((e) => e.key === key && e.file), 30_000);
-      const mail = await simpleParser(fs.readFileSync(path.join(mailDir(mailDataDir), entry.file!)));
+      // keepCidLinks: mailparser otherwise swaps the cid: reference for a data: URI
+      const mail = await simpleParser(fs.readFileSync(path.join(mailDir(mailDataDir), entry.file!)), { keepCidLinks: true });
       const image = mail.attachments.find((x) => x.contentType === "image/png");
       expect(image).toBeDefined();
       expect(image!.cid).toBe("alert-chart@stillfield");
