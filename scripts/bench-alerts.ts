@@ -23,8 +23,8 @@ import { groundTruth, type GroundTruthIncident } from "../simulators/ground-trut
 import { scheduleIncidents } from "../simulators/incident-schedule";
 import { PlantModel, type Scenario } from "../simulators/plant-model";
 import { measureRulesThroughput } from "./rules-throughput";
+import { DAY_MS as DAY } from "../lib/vocabulary/time";
 
-const DAY = 86_400_000;
 const TICK_MS = 10_000;
 
 export type BenchRun = { incidents: GroundTruthIncident[]; events: ConditionEvent[]; readings: number; wallS: number };

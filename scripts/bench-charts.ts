@@ -15,9 +15,9 @@ import type { Db } from "../db/client";
 import { maintainPartitions } from "../db/partitions";
 import { getHistory } from "../db/queries/history";
 import type { HistorySource } from "../lib/views/history";
+import { DAY_MS as DAY } from "../lib/vocabulary/time";
 
 const DB_NAME = "stillfield_bench_charts";
-const DAY = 86_400_000;
 const MINUTE = 60_000;
 const HOUR = 3_600_000;
 const DEVICE_ID = 1;

@@ -33,6 +33,7 @@ import {
 import { CHANNELS } from "../lib/contract/readings-payload";
 import { getSettings } from "../lib/settings";
 import { PlantModel, SAMPLE_PERIOD_MS, type SimDevice } from "./plant-model";
+import { DAY_MS as DAY } from "../lib/vocabulary/time";
 
 const RAW_CHUNK_MS = 10 * MINUTE_MS;
 
@@ -122,7 +123,6 @@ export async function backfill(opts: BackfillOptions): Promise<BackfillReport> {
 
 // ---- history for a database: anchor, resume point, run ----
 
-const DAY = 86_400_000;
 
 /** The scenario anchor: given, or stored at the first run so restarts replay the same story. */
 export function resolveAnchor(given: number | undefined, dataDir: string, dbName: string): number {

@@ -15,9 +15,9 @@
 import { DEMO_AREAS, DEMO_LINES } from "../lib/demo-plant";
 import type { IncidentPlan } from "./incident-plan";
 import { CLEAN_EFFECT, lineState, planOf, PlantModel, type Scenario } from "./plant-model";
+import { DAY_MS as DAY } from "../lib/vocabulary/time";
 
 const MIN = 60_000;
-const DAY = 86_400_000;
 
 export const JAM_RISK_RH_PCT = 30;
 /** RH back above this ends a humidity incident (the hall is out of the jam-risk band with margin). */

@@ -4,9 +4,9 @@
 // scenario described there, and `npm run bench:alerts` draws a seeded 30-day plan
 // (simulators/incident-schedule.ts). Ground truth for either: simulators/ground-truth.ts.
 import { fieldMeterCode } from "../lib/demo-plant";
+import { DAY_MS as DAY } from "../lib/vocabulary/time";
 
 const HOUR = 3_600_000;
-const DAY = 86_400_000;
 
 export type ColdSpell = { startMs: number; rampInMs: number; endMs: number; rampOutMs: number; deltaTempC: number; outdoorRhPct: number };
 export type HumidifierFailure = { areaSlug: string; startMs: number; endMs: number };

@@ -57,10 +57,10 @@ import {
   speedFactorAt,
   type IncidentPlan,
 } from "./incident-plan";
+import { DAY_MS as DAY } from "../lib/vocabulary/time";
 
 const MIN = 60_000;
 const HOUR = 3_600_000;
-const DAY = 86_400_000;
 
 export const HALL_TAU_MIN = 50;
 export const CLEAN_EFFECT = 0.92;

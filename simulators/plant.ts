@@ -32,8 +32,8 @@ import { getSettings } from "../lib/settings";
 import { closeHistoryWriter, resolveAnchor, writeHistory } from "./backfill";
 import { PlantModel, SAMPLE_PERIOD_MS, type SimDevice } from "./plant-model";
 import { sparkplugLine } from "./sparkplug-line";
+import { DAY_MS as DAY } from "../lib/vocabulary/time";
 
-const DAY = 86_400_000;
 
 const relTime = z.string().transform((s, ctx) => {
   if (s === "now") return Date.now();

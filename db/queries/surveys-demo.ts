@@ -7,8 +7,8 @@ import { savePlan } from "./surveys";
 import { storeRound } from "./surveys-rounds";
 import { createSurveyAction } from "./surveys-report";
 import { DEMO_FIRST_SURVEY, DEMO_FULL_PLAN, DEMO_METER, DEMO_QUICK_PLAN, DEMO_RESURVEY, DEMO_SURVEY_LINE } from "../../lib/surveys/demo";
+import { DAY_MS } from "../../lib/vocabulary/time";
 
-const DAY_MS = 86_400_000;
 const isoDate = (ms: number) => new Date(ms).toISOString().slice(0, 10);
 
 export async function seedDemoSurveys(db: Db, nowMs: number): Promise<void> {

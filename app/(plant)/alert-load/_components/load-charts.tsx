@@ -2,6 +2,7 @@
 // lines, and alerts per day. Plain SVG (no script needed to read them, and they print).
 import { formatPlantTime } from "@/lib/plant-time";
 import { BENCHMARK_ACCEPTABLE_PER_10_MIN, BENCHMARK_MANAGEABLE_PER_10_MIN, FLOOD_PER_10_MIN, TEN_MIN_MS, type AlertLoad } from "@/lib/alert-load";
+import { DAY_MS as DAY } from "@/lib/vocabulary/time";
 
 export function Per10MinChart({ load, timeZone }: { load: AlertLoad; timeZone: string }) {
   const W = 1000;
@@ -10,7 +11,6 @@ export function Per10MinChart({ load, timeZone }: { load: AlertLoad; timeZone: s
   const top = Math.max(12, load.peakPer10Min + 1);
   const y = (v: number) => H - (v / top) * H;
   const bw = W / n;
-  const DAY = 86_400_000;
   const days: number[] = [];
   for (let t = Math.ceil(load.fromTs / DAY) * DAY; t < load.toTs; t += DAY) days.push(t);
   const x = (ts: number) => ((ts - load.fromTs) / (n * TEN_MIN_MS)) * W;

@@ -7,6 +7,7 @@ import { formatAlertValue, formatDuration } from "@/lib/vocabulary";
 import type { RuleKind } from "@/lib/vocabulary";
 import { formatPlantTime } from "@/lib/plant-time";
 import type { ReplayResult, ReplaySide } from "@/lib/views/replay";
+import { DAY_MS as DAY } from "@/lib/vocabulary/time";
 
 export function ReplayView({ result, timeZone, kind, stale }: { result: ReplayResult; timeZone: string; kind: RuleKind; stale: boolean }) {
   const diff = result.proposed.count - result.current.count;
@@ -88,7 +89,6 @@ function Timeline({ result }: { result: ReplayResult }) {
   const span = Math.max(1, result.toTs - result.fromTs);
   const x = (ts: number) => ((ts - result.fromTs) / span) * W;
   const days: number[] = [];
-  const DAY = 86_400_000;
   for (let t = Math.ceil(result.fromTs / DAY) * DAY; t < result.toTs; t += DAY) days.push(t);
   const row = (side: ReplaySide, y: number, cls: string) =>
     side.episodes.map((e, i) => {
