@@ -19,7 +19,7 @@ export function AddShiftForm({ people, defaultStart, defaultEnd }: { people: Arr
           ))}
         </select>
       </Field>
-      <div className="grid grid-cols-2 gap-3">
+      <div className="grid grid-cols-1 gap-3 sm:grid-cols-2">
         <Field label="From (plant time)" name="start">
           <input name="start" type="datetime-local" className={inputClass} defaultValue={defaultStart} />
         </Field>
