@@ -41,7 +41,7 @@ export function PersonRow({ person, isSelf }: { person: Person; isSelf: boolean 
       <td className="py-2 pr-3">
         <ActionForm action={setRole} className="flex items-center gap-1.5">
           <input type="hidden" name="id" value={person.id} />
-          <select name="role" defaultValue={person.role} className={`${inputClass} w-32 shrink-0`} aria-label={`Role of ${person.name}`}>
+          <select name="role" defaultValue={person.role} className={`${inputClass} w-32 min-w-[8rem]`} aria-label={`Role of ${person.name}`}>
             {ROLE_NAMES.map((r) => (
               <option key={r} value={r}>
                 {ROLE_LABELS[r]}
@@ -62,7 +62,7 @@ export function PersonRow({ person, isSelf }: { person: Person; isSelf: boolean 
       <td className="py-2">
         <ActionForm action={resetPassword} className="flex items-start gap-1.5" successMessage="Password changed." resetOnSuccess>
           <input type="hidden" name="id" value={person.id} />
-          <Field label="" name="password" className="shrink-0">
+          <Field label="" name="password" className="min-w-[9rem]">
             <input name="password" type="password" autoComplete="new-password" placeholder="New password" className={`${inputClass} w-36`} aria-label={`New password for ${person.name}`} />
           </Field>
           <SubmitButton variant="quiet">Reset</SubmitButton>
