@@ -4,7 +4,7 @@
 //   $share/<INGEST_SHARE_GROUP>/…, so the broker hands every message to exactly one of the
 //   workers; each keeps a persistent session (its own client id, a long session expiry), so what
 //   a stopped or killed worker had not acknowledged waits for it and is sent again when it returns.
-import type { IClientOptions } from "mqtt";
+import type { IClientOptions, ISubscriptionGrant, MqttClient } from "mqtt";
 import { ALL_DEVICE_READINGS, ALL_DEVICE_STATUS } from "../lib/contract/topics";
 import type { Settings } from "../lib/settings";
 
@@ -20,4 +20,24 @@ export function ingestSubscriptions(s: Pick<Settings, "BROKER" | "INGEST_SHARE_G
   const topics = [ALL_DEVICE_READINGS, ALL_DEVICE_STATUS];
   if (s.BROKER === "embedded") return topics;
   return topics.map((t) => `$share/${s.INGEST_SHARE_GROUP}/${t}`);
+}
+
+/**
+ * Subscribes a worker's connection. Mosquitto 2.0.11 restores a persistent session's shared
+ * subscription after a restart in a state that delivers nothing, and subscribing again to the
+ * same filter does not repair it; unsubscribing first does. So a worker that finds its session
+ * present unsubscribes and subscribes again (its queued messages stay in the session).
+ * ingest/mosquitto/session-repair.ts does the same for every worker session right after a
+ * restart, before devices reconnect.
+ */
+export function subscribeIngest(
+  client: MqttClient,
+  s: Pick<Settings, "BROKER" | "INGEST_SHARE_GROUP">,
+  sessionPresent: boolean,
+  done: (err: Error | null, granted?: ISubscriptionGrant[]) => void,
+): void {
+  const topics = ingestSubscriptions(s);
+  const subscribe = () => client.subscribe(Object.fromEntries(topics.map((t) => [t, { qos: 1 as const }])), (err, granted) => done(err ?? null, granted));
+  if (s.BROKER === "embedded" || !sessionPresent) return void subscribe();
+  client.unsubscribe(topics, () => subscribe());
 }

@@ -26,7 +26,7 @@ import { SERVICE_ACCOUNTS } from "../lib/settings";
 import { getIngestConfig } from "./config";
 import { DeferredAcks, type AckToken } from "./deferred-acks";
 import { DeviceDirectory } from "./device-directory";
-import { ingestProtocol, ingestSubscriptions } from "./ingest-subscriptions";
+import { ingestProtocol, subscribeIngest } from "./ingest-subscriptions";
 import { startHealthServer } from "./health-server";
 import { LiveSnapshots } from "./live-snapshots";
 import { createLogger, describeError } from "./log";
@@ -309,14 +309,11 @@ export async function startWorker() {
   const onConnect = (sessionPresent: boolean) => {
     counters.mqttConnected = true;
     log.info(`connected to the broker at ${env.MQTT_HOST}:${env.MQTT_PORT}`, { sessionPresent });
-    mqttClient.subscribe(
-      Object.fromEntries(ingestSubscriptions(cfg).map((t) => [t, { qos: 1 as const }])),
-      (err, granted) => {
-        if (err) return log.error("subscribe failed", { error: describeError(err) });
-        if (granted?.some((g) => g.qos === 128)) log.error("the broker refused a subscription", { granted });
-        subscribed();
-      },
-    );
+    subscribeIngest(mqttClient, cfg, sessionPresent, (err, granted) => {
+      if (err) return log.error("subscribe failed", { error: describeError(err) });
+      if (granted?.some((g) => g.qos >= 128)) log.error("the broker refused a subscription", { granted });
+      subscribed();
+    });
   };
   mqttClient.on("connect", (connack) => onConnect(connack.sessionPresent));
   // the client was created before the sinks and the directory were ready: when it signed in

@@ -17,6 +17,7 @@ import { startHealthServer } from "../health-server";
 import { createLogger, describeError } from "../log";
 import { ADMIN_USERNAME, findDynsecPlugin, mosquittoConfig, mosquittoFiles } from "./config";
 import { DynsecClient } from "./dynsec-client";
+import { repairWorkerSessions } from "./session-repair";
 import { keepDynsecInStep, type SyncReport } from "./sync";
 
 const log = createLogger("mosquitto");
@@ -85,6 +86,9 @@ export async function startMosquitto() {
   }
 
   const db = getDb();
+  // before anything else: the workers' shared subscriptions, so no device message goes astray
+  const repaired = await repairWorkerSessions(db, s, log).catch((err: unknown) => (log.warn("could not repair the workers' sessions", { error: describeError(err) }), []));
+  if (repaired.length) log.info(`renewed the shared subscriptions of ${repaired.length} worker session(s)`, { workers: repaired });
   const dynsec = await DynsecClient.connect({ host: "127.0.0.1", port: s.MQTT_PORT, username: ADMIN_USERNAME, password: s.MQTT_ADMIN_PASSWORD, clientId: `stillfield-dynsec-${process.pid}` });
   let lastReport: (SyncReport & { ts: number }) | null = null;
   const stopSync = await keepDynsecInStep(
