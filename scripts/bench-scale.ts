@@ -152,7 +152,12 @@ async function main() {
     const meter = await mqtt.connectAsync({ host: "127.0.0.1", port: s.mqttPort, username: meterCode, password: secrets[meterCode], clientId: meterCode, protocolVersion: 5, reconnectPeriod: 500 });
     publishers.push(gw, meter);
     const lease = async () => (await q("SELECT holder, token FROM service_leases WHERE name = 'alerts'"))[0] as { holder: string | null; token: number } | undefined;
-    const first = await waitFor("an alert owner", async () => ((await lease())?.holder ? lease() : null), 30_000);
+    // a live owner (the lease of a worker killed in (c) may not have run out yet)
+    const livePids = () => [...s.workers.values()].filter((w) => w.child.exitCode === null && w.child.signalCode === null).map((w) => `#${w.child.pid}`);
+    const first = await waitFor("a live alert owner", async () => {
+      const l = await lease();
+      return l?.holder && livePids().some((p) => l.holder!.endsWith(p)) ? l : null;
+    }, 30_000, 200);
     const t0 = Date.now() - 60_000;
     const excursion = async (fromS: number, toS: number) => {
       const span = Array.from({ length: toS - fromS }, (_, k) => t0 + (fromS + k) * 1000);
