@@ -15,6 +15,7 @@ import {
   DEMO_LINES,
   DEMO_PEOPLE,
   DEMO_PLANT_NAME,
+  DEMO_PLANT_LOCATION,
   fieldMeterCode,
   loggerCode,
   DEMO_CHECKS,
@@ -189,7 +190,7 @@ export async function seedDemoPlant(db: Db, opts: { nowMs?: number; secretsFile?
     }
 
     await tx.insert(s.settings).values([
-      { key: "plant", value: { name: DEMO_PLANT_NAME, ...DEFAULT_PLANT_SETTINGS }, updatedAt: now },
+      { key: "plant", value: { name: DEMO_PLANT_NAME, ...DEFAULT_PLANT_SETTINGS, ...DEMO_PLANT_LOCATION }, updatedAt: now },
       { key: SEED_MARKER, value: { at: now }, updatedAt: now },
     ]);
   });

@@ -29,6 +29,8 @@ import { getPlantSettings } from "../db/queries/equipment";
 import { getAlertingSettings } from "../db/queries/oncall";
 import { claimDueMails, enqueueMail, markMailFailed, markMailSent, retryBackoffMs } from "../db/queries/outbox";
 import { loadPlantTopology } from "../db/queries/topology";
+import { loadDryAirWarnings } from "../db/queries/forecast";
+import { refreshStoredForecast } from "./forecast-store";
 import { getSettings, tlsFiles } from "../lib/settings";
 import { formatPlantTime, previousPlantDay } from "../lib/plant-time";
 import { composeDigestEmail } from "../lib/mail/alert-emails";
@@ -90,6 +92,7 @@ export async function queueDailyDigests(db: Db, nowMs: number, appUrl: string): 
   if (missing.length === 0) return 0;
   const [alerts, topo] = await Promise.all([listAlertsForDigest(db, day.fromTs, day.toTs), loadPlantTopology(db)]);
   const dayLabel = formatPlantTime(day.fromTs, plant.timeZone, "EEE d MMM yyyy");
+  const dryAir = await loadDryAirWarnings(db, nowMs);
   let queued = 0;
   for (const r of missing) {
     const mail = composeDigestEmail(
@@ -111,7 +114,7 @@ export async function queueDailyDigests(db: Db, nowMs: number, appUrl: string): 
         shelved: a.shelvedUntilTs !== null && a.shelvedUntilTs > nowMs,
         chattering: a.chattering,
       })),
-      { dayLabel, recipientName: r.name, appUrl, timeZone: plant.timeZone },
+      { dayLabel, recipientName: r.name, appUrl, timeZone: plant.timeZone, dryAir },
     );
     if ((await enqueueMail(db, { dedupeKey: `digest:${day.date}:${r.id}`, toAddress: r.email, subject: mail.subject, bodyText: mail.text, bodyHtml: mail.html }, nowMs)).queued) queued++;
   }
@@ -143,6 +146,7 @@ export async function startMailer(opts: { db?: Db; config?: MailerConfig } = {})
   let lastSchedule = 0;
   let lastWeekKey = "";
   let lastFailureLog = 0;
+  let lastForecast = 0;
 
   async function sendOne(m: Awaited<ReturnType<typeof claimDueMails>>[number]): Promise<void> {
     const messageId = outboxMessageId(m.id, env.DB_NAME, env.MAIL_FROM);
@@ -181,6 +185,11 @@ export async function startMailer(opts: { db?: Db; config?: MailerConfig } = {})
   async function schedules(now: number): Promise<void> {
     if (now - lastSchedule < cfg.scheduleEveryMs) return;
     lastSchedule = now;
+    // the outdoor forecast for tomorrow's dry-air warning, about once an hour (a failure waits for the next hour)
+    if (env.WEATHER_API_URL && now - lastForecast >= 3_600_000) {
+      lastForecast = now;
+      await refreshStoredForecast(db, env.WEATHER_API_URL, now).catch((err: unknown) => log.warn("could not fetch the outdoor forecast", { error: describeError(err) }));
+    }
     const digests = await queueDailyDigests(db, now, env.APP_URL);
     if (digests) log.info(`queued ${digests} daily digest(s)`);
     const plant = await getPlantSettings(db);

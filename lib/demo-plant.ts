@@ -34,6 +34,8 @@ export type DemoArea = {
 };
 
 export const DEMO_PLANT_NAME = "Harrow Fen Packaging";
+/** An invented site in the fens, for the outdoor forecast (the weather fake scripts its weather). */
+export const DEMO_PLANT_LOCATION = { latitude: 52.6, longitude: 0.4 } as const;
 
 export const DEMO_AREAS: DemoArea[] = [
   { slug: "press-hall", name: "Press Hall", rhMinPct: 40, rhMaxPct: 60, tempSetpointC: 22, humidifierKgPerH: 12, airflowM3PerH: 9000 },

@@ -17,6 +17,9 @@ export const plantSettingsSchema = z.object({
   ]),
   chargeUnit: z.enum(["kV", "V"]).default("kV"),
   tempUnit: z.enum(["C", "F"]).default("C"),
+  // the plant's location for the outdoor forecast (set by an admin on the On-call page)
+  latitude: z.number().min(-90).max(90).optional(),
+  longitude: z.number().min(-180).max(180).optional(),
 });
 
 export type PlantSettings = z.infer<typeof plantSettingsSchema>;

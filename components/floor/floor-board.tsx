@@ -15,15 +15,15 @@ import { ChargeValue, PointStateMark, RunIndicator, StreamIndicator } from "./bi
 import { useFloorLive } from "./use-floor-live";
 import { hallView, TREND_MS, type HallView, type LineView, type PointView } from "./view-model";
 
-export function FloorBoard({ initial }: { initial: FloorSnapshot }) {
+export function FloorBoard({ initial, notice }: { initial: FloorSnapshot; notice?: React.ReactNode }) {
   return (
     <UnitsProvider defaults={{ chargeUnit: initial.settings.chargeUnit, tempUnit: initial.settings.tempUnit }}>
-      <FloorInner initial={initial} />
+      <FloorInner initial={initial} notice={notice} />
     </UnitsProvider>
   );
 }
 
-function FloorInner({ initial }: { initial: FloorSnapshot }) {
+function FloorInner({ initial, notice }: { initial: FloorSnapshot; notice?: React.ReactNode }) {
   const { snapshot, store, stream, now } = useFloorLive(initial);
   const tz = snapshot.settings.timeZone;
   const shift = shiftAt(now, snapshot.settings);
@@ -49,6 +49,7 @@ function FloorInner({ initial }: { initial: FloorSnapshot }) {
           </Link>
         </div>
       </div>
+      {notice}
       {halls.length === 0 ? (
         <p className="rounded-card border border-dashed border-paper-line px-6 py-10 text-center text-ink-soft">No halls or lines are set up yet.</p>
       ) : (

@@ -93,7 +93,8 @@ export function dryAirSpans(hall: HallForDryAir, hours: readonly ForecastHour[],
 /** "Thu 05:00–10:00: Press Hall expected 19–24 % RH without humidification, below the 30 % limit; about 64 kg/h of water needed" (+ what the humidifier does). */
 export function describeDryAirSpan(s: DryAirSpan, timeZone: string): string {
   const lo = Math.floor(s.minRhWithoutPct);
-  const hi = Math.ceil(s.maxRhWithoutPct);
+  // rounded up, but never to the limit itself ("7–40 %, below the 40 % limit" would read wrong)
+  const hi = Math.ceil(s.maxRhWithoutPct) >= s.limitPct ? Math.floor(s.maxRhWithoutPct) : Math.ceil(s.maxRhWithoutPct);
   const range = lo === hi ? `${lo}` : `${lo}–${hi}`;
   const when = `${formatPlantTime(s.fromTs, timeZone, "EEE HH:mm")}–${formatPlantTime(s.toTs, timeZone, "HH:mm")}`;
   const water = Math.round(s.maxWaterNeededKgPerH);

@@ -109,7 +109,7 @@ export type DigestAlert = AlertMailInput & { endTs: number | null; shelved: bool
 /** The daily digest: yesterday's alerts (plant day), newest last, with a count per kind. */
 export function composeDigestEmail(
   alerts: readonly DigestAlert[],
-  opts: { dayLabel: string; recipientName: string; appUrl: string; timeZone: string },
+  opts: { dayLabel: string; recipientName: string; appUrl: string; timeZone: string; dryAir?: { lines: readonly string[]; sourceLine: string } | null },
 ): MailText {
   const n = alerts.length;
   const subject = n === 0 ? `Stillfield daily digest, ${opts.dayLabel}: no alerts` : `Stillfield daily digest, ${opts.dayLabel}: ${n} alert${n === 1 ? "" : "s"}`;
@@ -130,6 +130,8 @@ export function composeDigestEmail(
       `<tr><td style="padding:2px 8px 2px 0">${t}</td><td style="padding:2px 8px">${escapeHtml(code)}</td><td style="padding:2px 8px">${escapeHtml(SEVERITY_WORDS[a.severity])}</td><td style="padding:2px 8px"><a href="${escapeHtml(link)}">${escapeHtml(RULE_KIND_WORDS[a.kind])}</a><br><span style="color:#666">${escapeHtml(whereText(a))}</span></td><td style="padding:2px 8px">${escapeHtml(formatAlertValue(a.kind, a.peakValue))}</td><td style="padding:2px 8px">${escapeHtml(dur)}${a.chattering ? " · chattering" : ""}</td></tr>`,
     );
   }
+  const dry = opts.dryAir && opts.dryAir.lines.length > 0 ? opts.dryAir : null;
+  if (dry) text.push("", "Tomorrow's dry air:", ...dry.lines.map((l) => `- ${l}`), dry.sourceLine);
   text.push("", `All alerts: ${base}/alerts · Alert load: ${base}/alert-load`, "", "You get this digest because you asked for it in Stillfield.");
   const html = [
     `<div style="font-family:sans-serif;font-size:14px;color:#23262b">`,
@@ -137,6 +139,7 @@ export function composeDigestEmail(
     `<p>${escapeHtml(text[2])}</p>`,
     summary.length ? `<p>${summary.map(escapeHtml).join(" · ")}</p>` : "",
     rows.length ? `<table style="border-collapse:collapse;font-size:13px">${rows.join("")}</table>` : "",
+    dry ? `<h3 style="font-size:14px;margin:16px 0 4px">Tomorrow's dry air</h3><ul>${dry.lines.map((l) => `<li>${escapeHtml(l)}</li>`).join("")}</ul><p style="font-size:12px;color:#555">${escapeHtml(dry.sourceLine)}</p>` : "",
     `<p><a href="${escapeHtml(`${base}/alerts`)}">All alerts</a> · <a href="${escapeHtml(`${base}/alert-load`)}">Alert load</a></p>`,
     `<p style="font-size:12px;color:#777">You get this digest because you asked for it in Stillfield.</p>`,
     `</div>`,
