@@ -11,6 +11,7 @@ import { Card, EmptyState, Forbidden, PageHeader } from "@/components/ui/page";
 import { can } from "@/lib/permissions";
 import { formatPlantTime, toPlantLocalInput } from "@/lib/plant-time";
 import { AddShiftForm, AlertingSettingsForm, RemoveShiftButton } from "./oncall-forms";
+import { PlantLocationForm } from "./location-form";
 
 export const metadata: Metadata = { title: "On-call" };
 export const dynamic = "force-dynamic";
@@ -167,6 +168,10 @@ export default async function OnCallPage() {
                   escalateAfterMin={settings.escalateAfterS / 60}
                   digestHourLocal={settings.digestHourLocal}
                 />
+              </Card>
+              <Card title="Plant location">
+                <p className="mb-2 text-sm text-ink-soft">For the outdoor forecast behind tomorrow&apos;s dry-air warning.</p>
+                <PlantLocationForm latitude={plant.latitude ?? null} longitude={plant.longitude ?? null} />
               </Card>
             </>
           ) : (
