@@ -13,8 +13,9 @@
 //   severity, ts}) after the commit, for the app's live streams.
 // - Every ESCALATE_EVERY_MS: on-call e-mails and escalation (alerts-escalation.ts), and the end
 //   of shelvings whose time is up.
-// One engine per plant: run one worker with this sink (a second one would raise every alert
-// twice); sharing the load between workers is not built yet.
+// One engine per plant: with one worker this sink runs in it (ALERTS_OWNER=local); with several,
+// the worker holding the alert-owner lease runs startCore() with its own state store and feeds it
+// every worker's committed readings (ingest/alerts-owner.ts).
 import { eq } from "drizzle-orm";
 import { ZodError } from "zod";
 import { settings } from "../db/schema";

@@ -8,6 +8,7 @@
 import { eq } from "drizzle-orm";
 import type { MqttClient } from "mqtt";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { createEdgeNode } from "../../db/queries/gateways";
 import { devices } from "../../db/schema";
 import { hashDeviceSecret } from "../../lib/device-secrets";
 import { ADMIN_USERNAME } from "../../ingest/mosquitto/config";
@@ -21,6 +22,7 @@ const CODE = "fm-mq-probe-1";
 const OTHER = "fm-mq-probe-2";
 let tdb: TestDatabase;
 let stack: MosquittoStack;
+const NODE = { code: "spb-mq-probe", nodeId: "probe-node", secret: "edge-node-secret-0123456789" };
 const secrets = { [CODE]: "probe-one-secret-0123456789", [OTHER]: "probe-two-secret-0123456789" };
 
 async function addDevice(code: string, secret: string) {
@@ -34,6 +36,7 @@ describe.skipIf(!ensureMosquitto())("Mosquitto profile: devices, rights and refu
     tdb = await createTestDatabase("mq_broker");
     await addDevice(CODE, secrets[CODE]);
     await addDevice(OTHER, secrets[OTHER]);
+    await createEdgeNode(tdb.db, { code: NODE.code, groupId: "harrow-fen", nodeId: NODE.nodeId, label: "Test gateway", secretHash: hashDeviceSecret(NODE.secret, undefined, SEAL_KEY) }, null);
     stack = await startMosquittoStack("broker", tdb.env, { env: { BROKER_SEAL_KEY: SEAL_KEY } });
   });
   afterAll(async () => {
@@ -103,6 +106,31 @@ describe.skipIf(!ensureMosquitto())("Mosquitto profile: devices, rights and refu
     expect(got.sort()).toEqual([`stillfield/d/${CODE}/readings`, `stillfield/d/${OTHER}/status`]);
     await worker.endAsync();
   }, 30_000);
+
+  it("a Sparkplug edge node is confined to spBv1.0/<group>/+/<node>/#, commands excepted", async () => {
+    const worker = await connectMqtt(stack.mqttPort, { username: "svc-worker", password: stack.env.MQTT_WORKER_PASSWORD, clientId: "t-host", protocolVersion: 4 });
+    const got: string[] = [];
+    worker.on("message", (topic) => got.push(topic));
+    await worker.subscribeAsync("spBv1.0/#", { qos: 1 });
+    const node = () => connectMqtt(stack.mqttPort, { username: NODE.code, password: NODE.secret, clientId: NODE.code, protocolVersion: 4 });
+    const n = await node();
+    await n.publishAsync(`spBv1.0/harrow-fen/NBIRTH/${NODE.nodeId}`, Buffer.from([0]), { qos: 0 });
+    await n.publishAsync(`spBv1.0/harrow-fen/DDATA/${NODE.nodeId}/meter-1`, Buffer.from([0]), { qos: 0 });
+    expect((await n.subscribeAsync(`spBv1.0/harrow-fen/NCMD/${NODE.nodeId}`, { qos: 1 }))[0].qos).toBe(1);
+    expect((await n.subscribeAsync("spBv1.0/STATE/+", { qos: 1 }))[0].qos).toBe(1);
+    await waitFor("the edge node's own messages at the host", async () => got.length >= 2, 5000);
+    await n.endAsync();
+    for (const topic of [`spBv1.0/harrow-fen/NDATA/another-node`, `spBv1.0/other-group/NDATA/${NODE.nodeId}`, `spBv1.0/harrow-fen/NCMD/${NODE.nodeId}`]) {
+      const c = await node();
+      const gone = closed(c);
+      void c.publishAsync(topic, Buffer.from([0]), { qos: 1 }).catch(() => undefined);
+      await gone;
+      c.end(true);
+    }
+    await new Promise((r) => setTimeout(r, 300));
+    expect(got.sort()).toEqual([`spBv1.0/harrow-fen/DDATA/${NODE.nodeId}/meter-1`, `spBv1.0/harrow-fen/NBIRTH/${NODE.nodeId}`]);
+    await worker.endAsync();
+  });
 
   it("a rotated secret stops working at once: the open session is closed and only the new secret signs in", async () => {
     const c = await connectMqtt(stack.mqttPort, device(CODE, secrets[CODE], 5));
