@@ -16,7 +16,12 @@ export class DeviceClocks {
     this.sources = new Map(rows.map((r) => [r.deviceId, r.timeSource]));
   }
 
-  clockOf = (deviceId: number): DeviceClock => ({ source: this.sources.get(deviceId) ?? "device", skewMs: this.tracker.skewMs(deviceId) });
+  /** The device's time source, with its measured skew where readings are shifted by it (arrival time). */
+  clockOf = (deviceId: number): DeviceClock => {
+    const source = this.sources.get(deviceId) ?? "device";
+    // the skew scan runs per metric of every Sparkplug message: skipped where device time is kept
+    return { source, skewMs: source === "arrival" ? this.tracker.skewMs(deviceId) : null };
+  };
 
   /** One JSON message: measures the skew from its newest reading, then the time to store each reading under. */
   observe(deviceId: number, arrivalMs: number, newestTs: number): (ts: number) => number {

@@ -20,17 +20,6 @@ import type { WorkerCounters } from "./stats";
  */
 export type WriterAck = AckToken | { release(): void } | null;
 
-/** Splits one acknowledgement into `parts` shares; `done` runs when all are released. */
-export function shareAck(parts: number, done: () => void): Array<{ release(): void }> {
-  let left = parts;
-  const share = {
-    release() {
-      if (--left === 0) done();
-    },
-  };
-  return Array.from({ length: parts }, () => share);
-}
-
 export type WriterOptions = {
   flushMs: number;
   flushRows: number;
@@ -109,7 +98,33 @@ export class ReadingWriter {
   get unackedMessages(): number {
     let n = 0;
     for (const l of this.lanes) n += l.acks.length + l.inFlightAcks;
-    return n;
+    // a message split into shares counts once, not once per share (per device it feeds)
+    return Math.max(this.shareGroups, n - this.openShares + this.shareGroups);
+  }
+
+  /** shares handed out and not yet released, and the messages they belong to */
+  private openShares = 0;
+  private shareGroups = 0;
+
+  /**
+   * Splits one message's acknowledgement into `parts` shares, one per device its readings feed
+   * (hence possibly several lanes); `done` runs when the last share is released, i.e. when every
+   * part is committed or spilled.
+   */
+  shareAck(parts: number, done: () => void): Array<{ release(): void }> {
+    let left = parts;
+    this.openShares += parts;
+    this.shareGroups++;
+    const share = {
+      release: () => {
+        this.openShares--;
+        if (--left === 0) {
+          this.shareGroups--;
+          done();
+        }
+      },
+    };
+    return Array.from({ length: parts }, () => share);
   }
 
   /** Takes one message's accepted readings (all of one device) and its acknowledgement. */

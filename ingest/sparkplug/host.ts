@@ -27,7 +27,7 @@ import { hostStatePayload, hostStateSchema, parseSparkplugTopic, sparkplugTopics
 import { DeferredAcks } from "../deferred-acks";
 import type { Logger } from "../log";
 import { describeError } from "../log";
-import { shareAck, type ReadingWriter } from "../writer";
+import type { ReadingWriter } from "../writer";
 import type { ClockSkewTracker } from "../../lib/clock-skew";
 import { decodeSparkplug, encodeRebirthCommand } from "./decode";
 
@@ -125,6 +125,18 @@ export async function startSparkplugHost(deps: SparkplugHostDeps) {
     will: { topic: stateTopic, payload: Buffer.from(hostStatePayload(false, stateTs)), qos: 1, retain: true },
   });
   const acks = new DeferredAcks(client);
+  // PUBACKs of messages whose last share was released: one write per tick for all of them (a
+  // commit releases the shares of hundreds of messages at once), never before the commit
+  let ackQueue: Array<ReturnType<DeferredAcks["token"]>> = [];
+  function ackLater(token: ReturnType<DeferredAcks["token"]>) {
+    if (ackQueue.push(token) === 1) {
+      process.nextTick(() => {
+        const tokens = ackQueue;
+        ackQueue = [];
+        acks.ack(tokens);
+      });
+    }
+  }
 
   function reject(node: HostEdgeNode | undefined, topic: string, reason: NewGatewayRejection["reason"], detail: string, now: number) {
     stats.rejected++;
@@ -183,7 +195,7 @@ export async function startSparkplugHost(deps: SparkplugHostDeps) {
     }
     stats.readings += fx.readings.length;
     deps.countReadings(node.code, fx.readings.length, now, byDevice.keys());
-    const shares = shareAck(byDevice.size, () => acks.ack([token]));
+    const shares = deps.writer.shareAck(byDevice.size, () => ackLater(token));
     let i = 0;
     for (const [deviceId, rows] of byDevice) deps.writer.add(deviceId, rows, shares[i++]);
   }
