@@ -6,7 +6,7 @@
 // plugin's clients and roles in step with the devices table (sync.ts), and serves counters on
 // GET 127.0.0.1:BROKER_HEALTH_PORT/health. When mosquitto stops, so does this process (the
 // supervisor restarts both); SIGTERM/SIGINT stop mosquitto cleanly (it saves its sessions).
-import { execFileSync, spawn } from "node:child_process";
+import { execFileSync, spawn, type ChildProcess } from "node:child_process";
 import fs from "node:fs";
 import net from "node:net";
 import path from "node:path";
@@ -47,6 +47,9 @@ function stopLeftOver(pidFile: string, conf: string): void {
   execFileSync("sh", ["-c", `for i in $(seq 1 50); do kill -0 ${pid} 2>/dev/null || exit 0; sleep 0.1; done; kill -9 ${pid} 2>/dev/null; exit 0`]);
 }
 
+/** the mosquitto being started (stopped with us if a signal comes before the start is done) */
+let starting: ChildProcess | null = null;
+
 export async function startMosquitto() {
   const s = getSettings();
   if (!s.MQTT_ADMIN_PASSWORD) throw new Error("MQTT_ADMIN_PASSWORD is not set (scripts/stack-env.sh makes one)");
@@ -67,6 +70,7 @@ export async function startMosquitto() {
   if (await portOpen(s.MQTT_PORT)) throw new Error(`127.0.0.1:${s.MQTT_PORT} is taken by another program`);
 
   const child = spawn(s.MOSQUITTO_BIN, ["-c", files.conf], { stdio: ["ignore", "pipe", "pipe"] });
+  starting = child;
   const forward = (buf: Buffer) => {
     for (const line of buf.toString("utf8").split("\n")) if (line.trim()) log.info(line.trim());
   };
@@ -119,20 +123,28 @@ export async function startMosquitto() {
 
 const isMain = process.argv[1] && path.resolve(process.argv[1]) === path.resolve(import.meta.filename);
 if (isMain) {
+  let stopFn: (() => Promise<void>) | null = null;
+  const onSignal = (sig: string) => {
+    log.info(`${sig}: stopping mosquitto`);
+    if (!stopFn) {
+      // still starting: do not leave a mosquitto behind holding the port
+      starting?.kill("SIGTERM");
+      process.exit(1);
+    }
+    stopFn().then(
+      () => process.exit(0),
+      (err: unknown) => (log.error("stop failed", { error: describeError(err) }), process.exit(1)),
+    );
+  };
+  process.on("SIGTERM", () => onSignal("SIGTERM"));
+  process.on("SIGINT", () => onSignal("SIGINT"));
   startMosquitto()
     .then(({ stop }) => {
-      const onSignal = (sig: string) => {
-        log.info(`${sig}: stopping mosquitto`);
-        stop().then(
-          () => process.exit(0),
-          (err: unknown) => (log.error("stop failed", { error: describeError(err) }), process.exit(1)),
-        );
-      };
-      process.on("SIGTERM", () => onSignal("SIGTERM"));
-      process.on("SIGINT", () => onSignal("SIGINT"));
+      stopFn = stop;
     })
     .catch((err: unknown) => {
       log.error("could not start", { error: describeError(err) });
+      starting?.kill("SIGTERM");
       process.exit(1);
     });
 }
