@@ -29,6 +29,7 @@ export default async function PlantLayout({ children }: { children: React.ReactN
     { href: "/reports", label: "Reports" },
     { href: "/calculators", label: "Calculators" },
     { href: "/oncall", label: "On-call" },
+    { href: "/notifications", label: "My notifications" },
   ];
   if (can(session.role, "people.manage")) items.push({ href: "/people", label: "People" });
   if (can(session.role, "health.view")) items.push({ href: "/health", label: "Health" });

@@ -68,6 +68,7 @@ test.beforeAll(async () => {
     { name: "equipment-report", path: "/reports/equipment" },
     { name: "calculators", path: "/calculators" },
     { name: "oncall", path: "/oncall" },
+    { name: "notifications", path: "/notifications" },
     { name: "people", path: "/people" },
     { name: "wallboard", path: "/wallboard" },
     { name: "wallboard-hall", path: `/wallboard/${areaId}` },
