@@ -76,13 +76,16 @@ describe("Sparkplug B host application", () => {
 
     a = node();
     await a.connect();
+    const bornBy = Date.now();
     await waitFor("the node online", async () => (await nodeRow(NODES.a.code)).online === 1);
     await mapMetric("unwind-meter", "Charge", FM, "charge_kv", "v_to_kv");
     await mapMetric("hall-logger", "Temperature", TH, "temp_c", "f_to_c");
     await mapMetric("hall-logger", "Humidity", TH, "rh_pct", "fraction_to_pct");
     await new Promise((r) => setTimeout(r, 800)); // the host reloads mappings every 300 ms
 
-    const ts = Date.now() - 1000;
+    // after the births: their empty values carry the birth time, and a last value gives way only
+    // to a newer one
+    const ts = Math.max(Date.now() - 1000, bornBy + 1);
     await a.data("unwind-meter", { Charge: -3420 }, ts);
     await a.data("hall-logger", { Temperature: 70.7, Humidity: 0.383, Model: "HL-2" }, ts);
     const fm = await deviceId(FM);
