@@ -11,7 +11,11 @@ import { StateBadge } from "@/components/ui/state-badge";
 import { chargeInUnit, formatCharge, formatChargeLimit } from "@/lib/units";
 import { pickTicks, TimeChart, type HLine } from "./time-chart";
 import { gapThresholdMs, hasSpread, symmetricRange, toColumns, type Bucket } from "./series-data";
-import { EmptyOverlay, emptyText, readoutText, type PanelCommon } from "./panel-common";
+import { EmptyOverlay, emptyText, Legend, readoutText, type PanelCommon } from "./panel-common";
+import { alignCompare } from "@/lib/charts/compare";
+
+/** The same span of an earlier window (previous shift, day or week), drawn dashed over the chart. */
+export type CompareOverlay = { label: string; offsetMs: number; buckets: readonly Bucket[]; bucketMs: number };
 import { NEUTRALIZER_STATE_CODE, NEUTRALIZER_STATE_WORDS, isNeutralizerState, type NeutralizerState, type PointState } from "@/lib/vocabulary";
 
 /** A neutralizer's state as the panel header shows it (state colour and word). */
@@ -26,8 +30,9 @@ export function ChargePanel({
   result,
   isLive,
   timeLabels,
+  compare,
   ...c
-}: PanelCommon & { view: PointView; buckets: Bucket[]; result: HistoryResult | undefined; isLive: boolean; timeLabels: "top" | "none" }) {
+}: PanelCommon & { view: PointView; buckets: Bucket[]; result: HistoryResult | undefined; isLive: boolean; timeLabels: "top" | "none"; compare?: CompareOverlay | null }) {
   const { prefs } = useUnits();
   const p: FloorPoint = view.point;
   const limit = p.limit?.limitKv ?? null;
@@ -35,8 +40,10 @@ export function ChargePanel({
   const data = useMemo(() => {
     const cols = toColumns(buckets, gapThresholdMs(result?.bucketMs ?? 1000));
     const conv = (a: Array<number | null>) => a.map((v) => (v === null ? null : chargeInUnit(v, unit)));
-    return [cols.xs, conv(cols.mean), conv(cols.min), conv(cols.max)];
-  }, [buckets, result?.bucketMs, unit]);
+    const out = [cols.xs, conv(cols.mean), conv(cols.min), conv(cols.max)];
+    if (compare) out.push(conv(alignCompare(cols.xs, compare.buckets.map((b) => [b[0], b[2]] as const), compare.offsetMs, Math.max(compare.bucketMs, result?.bucketMs ?? 1000))));
+    return out;
+  }, [buckets, result?.bucketMs, unit, compare]);
   const band = hasSpread(buckets);
   const limitInUnit = limit !== null ? chargeInUnit(limit, unit) : null;
   const hLines = useMemo<HLine[]>(
@@ -78,6 +85,8 @@ export function ChargePanel({
         )}
       </header>
       <TimeChart
+        // the chart's series are fixed when it is created: turning the overlay on or off makes a new one
+        key={compare ? "compare" : "plain"}
         syncKey={c.syncKey}
         height={timeLabels === "top" ? 140 : 118}
         timeZone={c.timeZone}
@@ -87,6 +96,7 @@ export function ChargePanel({
           { label: "mean", color: "inkSoft", width: 1.5 },
           { label: "min", color: "inkFaint", faint: true },
           { label: "max", color: "inkFaint", faint: true },
+          ...(compare ? [{ label: compare.label, color: "brand" as const, width: 1.25, dash: [5, 4] }] : []),
         ]}
         band={{ upper: 3, lower: 2, color: "inkFaint", alpha: 0.22 }}
         y={{
@@ -103,8 +113,14 @@ export function ChargePanel({
         onPick={c.onPick}
         readout={(idx, d) => readoutText(idx, d, c.timeZone, (v) => formatCharge(unit === "V" ? v / 1000 : v, unit, { withUnit: true }), band)}
         testId="line-chart"
-        attrs={{ kind: "charge", "point-id": p.id, source: result?.source ?? "", band: band ? "on" : "off", points: buckets.length, notes: c.markers.length }}
+        attrs={{ kind: "charge", compare: compare ? compare.label : "", "compare-points": compare ? compare.buckets.length : 0, "point-id": p.id, source: result?.source ?? "", band: band ? "on" : "off", points: buckets.length, notes: c.markers.length }}
       />
+      {compare ? (
+        <p className="flex flex-wrap gap-x-4 px-3 pb-2 text-xs text-ink-soft" data-testid="compare-legend">
+          <Legend swatch="bg-ink-soft" text="This window" />
+          <Legend swatch="" dashed text={compare.label} />
+        </p>
+      ) : null}
       {empty ? <EmptyOverlay text={empty} /> : null}
     </section>
   );

@@ -20,7 +20,7 @@ import { UnitsProvider, UnitsToggle, useUnits } from "@/components/live/units";
 import { RunIndicator, StreamIndicator } from "@/components/floor/bits";
 import { hallView, lineView } from "@/components/floor/view-model";
 import { StateBadge } from "@/components/ui/state-badge";
-import { shiftAt } from "@/lib/plant-time";
+import { formatPlantTime, shiftAt } from "@/lib/plant-time";
 import { formatSpeed } from "@/lib/units";
 import type { Span, VMarker } from "./time-chart";
 import { mergeHistoryAndLive, type Bucket } from "./series-data";
@@ -28,6 +28,9 @@ import { anchorStepMs, LIVE_WINDOW_MS, parseRangeParams, rangeToQuery, resolveRa
 import { eventsKey, useLineEvents, type LineEvents } from "./use-history";
 import { NoteForm, type NoteAction } from "./note-form";
 import { historySourceText, RangeBar } from "./range-bar";
+import { CompareBar } from "./compare-bar";
+import type { CompareOverlay } from "./charge-panel";
+import { COMPARE_LABELS, compareOffsetMs, frozenViewQuery, parseCompare, type CompareKind } from "@/lib/charts/compare";
 import { ChargePanel } from "./charge-panel";
 import { ClimatePanel } from "./climate-panel";
 import { SpeedPanel } from "./speed-panel";
@@ -76,6 +79,7 @@ function LineDashboardInner({ area, line, settings, canAddNote, addNote, serverN
   const queryClient = useQueryClient();
   const tz = settings.timeZone;
   const range = parseRangeParams((k) => searchParams.get(k));
+  const compare = parseCompare(searchParams.get("compare"));
   const [zoom, setZoom] = useState<[number, number] | null>(null);
   const [pickedTs, setPickedTs] = useState<number | null>(null);
   const [liveAnchor, setLiveAnchor] = useState(serverNow);
@@ -113,6 +117,18 @@ function LineDashboardInner({ area, line, settings, canAddNote, addNote, serverN
     })),
   });
   const historyByKey = new Map(defs.map((d, i) => [d.key, histories[i]?.data] as const));
+  // the compared window: the fetched window moved back by the previous shift, day or week
+  const compareOffset = compare ? compareOffsetMs(compare, fetchWindow[0], settings) : 0;
+  const chargeDefs = compare ? defs.filter((d) => d.channel === "charge_kv") : [];
+  const earlier = useQueries({
+    queries: chargeDefs.map((d) => ({
+      queryKey: ["history", d.deviceId, d.channel, fetchWindow[0] - compareOffset, fetchWindow[1] - compareOffset, MAX_POINTS],
+      queryFn: () => fetchHistory(d, fetchWindow[0] - compareOffset, fetchWindow[1] - compareOffset),
+      placeholderData: keepPreviousData,
+      staleTime: 60_000,
+    })),
+  });
+  const earlierByKey = new Map(chargeDefs.map((d, i) => [d.key, earlier[i]?.data] as const));
   const loading = histories.some((h) => h.isFetching && !h.data);
   const failed = histories.find((h) => h.error)?.error;
 
@@ -157,12 +173,25 @@ function LineDashboardInner({ area, line, settings, canAddNote, addNote, serverN
     [events.data, now],
   );
 
+  const withCompare = (q: string, k: CompareKind | null) => (k ? `${q}${q ? "&" : "?"}compare=${k}` : q);
   const setRange = (r: RangeState) => {
     setZoom(null);
     setPickedTs(null);
     if (r.kind === "live") setLiveAnchor(Date.now() + stream.clockOffsetMs);
-    router.replace(`/lines/${line.id}${rangeToQuery(r)}`, { scroll: false });
+    router.replace(`/lines/${line.id}${withCompare(rangeToQuery(r), compare)}`, { scroll: false });
   };
+  const setCompare = (k: CompareKind | null) => router.replace(`/lines/${line.id}${withCompare(rangeToQuery(range), k)}`, { scroll: false });
+  // one overlay object per chart, kept while nothing it shows changes (a static range is not redrawn every second)
+  const earlierStamp = earlier.map((h) => h.dataUpdatedAt).join(",");
+  const overlays = useMemo(() => {
+    const m = new Map<string, CompareOverlay>();
+    if (!compare) return m;
+    const label = `${COMPARE_LABELS[compare]} (${formatPlantTime(fetchWindow[0] - compareOffset, tz, "EEE d MMM HH:mm")}–${formatPlantTime(fetchWindow[1] - compareOffset, tz, "HH:mm")})`;
+    for (const [key, r] of earlierByKey) m.set(key, { label, offsetMs: compareOffset, buckets: r?.points ?? [], bucketMs: r?.bucketMs ?? 1000 });
+    return m;
+    // eslint-disable-next-line react-hooks/exhaustive-deps -- earlierByKey is rebuilt each render from the queries; earlierStamp says when they changed
+  }, [compare, compareOffset, earlierStamp, fetchWindow[0], fetchWindow[1], tz]);
+  const compareOverlay = (key: string) => overlays.get(key) ?? null;
 
   const shift = shiftAt(now, settings);
   const openAlerts = (events.data?.alerts ?? []).filter((a) => a.state !== "closed");
@@ -212,6 +241,7 @@ function LineDashboardInner({ area, line, settings, canAddNote, addNote, serverN
         loading={loading}
         sourceText={historySourceText(historyByKey.get(defs[0]?.key ?? ""))}
       />
+      <CompareBar compare={compare} onCompare={setCompare} frozenHref={`/lines/${line.id}${frozenViewQuery(view[0], view[1], compare)}`} />
       {failed ? (
         <p role="alert" className="mb-3 rounded bg-over-soft px-3 py-1.5 text-sm text-over">
           Some history could not be loaded ({failed instanceof Error ? failed.message : "error"}). Live values still update.
@@ -240,6 +270,7 @@ function LineDashboardInner({ area, line, settings, canAddNote, addNote, serverN
                 spans={alertSpans((a) => a.pointId === p.id)}
                 onZoom={(a, b) => setZoom([a, b])}
                 onPick={canAddNote ? setPickedTs : undefined}
+                compare={fm ? compareOverlay(`p${p.id}`) : null}
               />
             );
           })}
