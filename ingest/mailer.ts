@@ -35,7 +35,7 @@ import { getSettings, tlsFiles } from "../lib/settings";
 import { formatPlantTime, previousPlantDay } from "../lib/plant-time";
 import { composeDigestEmail } from "../lib/mail/alert-emails";
 import { createLogger, describeError } from "./log";
-import { renderMailChart } from "./mail-chart";
+import { renderMailCharts } from "./mail-chart";
 
 const log = createLogger("mailer");
 
@@ -152,10 +152,10 @@ export async function startMailer(opts: { db?: Db; config?: MailerConfig } = {})
     const messageId = outboxMessageId(m.id, env.DB_NAME, env.MAIL_FROM);
     try {
       // the chart is drawn at send time from the readings; a chart that cannot be drawn never holds the mail back
-      const chart = m.chart ? await renderMailChart(db, m.chart, (await getPlantSettings(db)).timeZone).catch((err: unknown) => {
-        log.warn(`mail ${m.id}: chart not drawn`, { error: describeError(err) });
-        return null;
-      }) : null;
+      const charts = m.chart ? await renderMailCharts(db, m.chart, (await getPlantSettings(db)).timeZone, (err) => log.warn(`mail ${m.id}: chart not drawn`, { error: describeError(err) })).catch((err: unknown) => {
+        log.warn(`mail ${m.id}: charts not drawn`, { error: describeError(err) });
+        return [];
+      }) : [];
       await transport.sendMail({
         from: env.MAIL_FROM,
         to: m.toAddress,
@@ -164,7 +164,7 @@ export async function startMailer(opts: { db?: Db; config?: MailerConfig } = {})
         html: m.bodyHtml ?? undefined,
         messageId,
         headers: { "X-Stillfield-Key": m.dedupeKey },
-        attachments: chart ? [chart] : undefined,
+        attachments: charts.length > 0 ? charts : undefined,
       });
     } catch (err) {
       const now = Date.now();

@@ -13,6 +13,9 @@ import { AppError, badInput } from "@/lib/errors";
 import { can, type Role } from "@/lib/permissions";
 import { isValidDate } from "@/lib/plant-time";
 import { handoverSubject, handoverText } from "@/lib/mail/handover-email";
+import { handoverHtml } from "@/lib/mail/handover-html";
+import { lineChartAlt, lineChartCid } from "@/lib/charts/line-mail-chart";
+import { handoverLineChartSpecs } from "@/db/queries/handover-charts";
 import { STATE_SYMBOLS, STATE_WORDS } from "@/lib/vocabulary";
 import { defineAction } from "../action";
 import type { SessionPerson } from "../session";
@@ -44,13 +47,18 @@ export async function emailHandover(db: Db, input: HandoverEmailInput, sender: S
   if (!report) throw badInput(`The plant has no shift called "${input.shift}".`, { shift: ["Choose a shift from the list"] });
   const link = `${getEnv().APP_URL}/reports/handover?date=${encodeURIComponent(input.date)}&shift=${encodeURIComponent(input.shift)}`;
   const dedupeKey = handoverDedupeKey(report.window.startTs, recipient.id);
+  const bodyText = handoverText(report, { symbols: STATE_SYMBOLS, words: STATE_WORDS }, { fromName: sender.name, link });
+  const charts = await handoverLineChartSpecs(db, report);
+  const bodyHtml = handoverHtml(bodyText, charts.map((c) => ({ cid: lineChartCid(c.lineId), alt: lineChartAlt(c), lineName: c.title })));
   const queued = await enqueueMail(
     db,
     {
       dedupeKey,
       toAddress: recipient.email,
       subject: handoverSubject(report),
-      bodyText: handoverText(report, { symbols: STATE_SYMBOLS, words: STATE_WORDS }, { fromName: sender.name, link }),
+      bodyText,
+      bodyHtml,
+      chart: charts.length > 0 ? charts : null,
     },
     nowTs,
   );
