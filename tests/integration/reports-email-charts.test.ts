@@ -12,6 +12,7 @@ import { createTestDatabase, type TestDatabase } from "../helpers/test-db";
 import { freePort, ROOT, spawnTs, waitFor, type Proc } from "./ingest-support/processes";
 import { devices, lines, outbox, people, points } from "@/db/schema";
 import { emailHandover, handoverDedupeKey } from "@/app/_server/actions/reports";
+import { writeReadings } from "@/db/queries/readings-write";
 import { mailDir, readSinkIndex } from "@/ingest/smtp-sink";
 import { lineChartCid } from "@/lib/charts/line-mail-chart";
 import { DEFAULT_PLANT_SETTINGS } from "@/lib/plant-settings";
@@ -49,12 +50,17 @@ describe("the handover e-mail's charts", () => {
     const shift = lastCompletedShift(Date.now(), { timeZone: "Europe/London", shifts: DEFAULT_PLANT_SETTINGS.shifts });
     // the lines that have a field meter on one of their points, from the seeded plant
     const meterLines = await tdb.db
-      .selectDistinct({ lineId: lines.id, name: lines.name })
+      .selectDistinct({ lineId: lines.id, name: lines.name, deviceId: devices.id })
       .from(devices)
       .innerJoin(points, eq(points.id, devices.pointId))
       .innerJoin(lines, eq(lines.id, points.lineId))
       .where(and(eq(devices.kind, "field_meter"), isNotNull(devices.pointId)));
     expect(meterLines.length).toBeGreaterThan(1);
+    // readings on the first line's meter through the shift (a slow swing of ±12 kV, every minute)
+    const withData = meterLines[0];
+    const rows = [];
+    for (let ts = shift.startTs; ts < shift.endTs; ts += 60_000) rows.push({ deviceId: withData.deviceId, channel: "charge_kv" as const, ts, value: 12 * Math.sin((ts - shift.startTs) / 3_600_000) });
+    await writeReadings(tdb.pool, rows);
 
     await emailHandover(tdb.db, { date: shift.date, shift: shift.name, toPersonId: engineer.id }, { personId: lead.id, role: lead.role, name: lead.name, email: lead.email }, Date.now());
     const key = handoverDedupeKey(shift.startTs, engineer.id);
@@ -65,15 +71,20 @@ describe("the handover e-mail's charts", () => {
     const entry = await waitFor("the handover e-mail", async () => readSinkIndex(mailDataDir).find((e) => e.key === key && e.file), 60_000);
     const mail = await simpleParser(fs.readFileSync(path.join(mailDir(mailDataDir), entry.file!)), { keepCidLinks: true });
     const images = mail.attachments.filter((a) => a.contentType === "image/png");
-    expect(images).toHaveLength(meterLines.length);
-    expect(new Set(images.map((i) => i.cid))).toEqual(new Set(meterLines.map((l) => lineChartCid(l.lineId))));
+    const lineIds = [...new Set(meterLines.map((l) => l.lineId))];
+    expect(images).toHaveLength(lineIds.length);
+    expect(new Set(images.map((i) => i.cid))).toEqual(new Set(lineIds.map(lineChartCid)));
+    // the line with readings draws them: its image is not the same picture as a line without any
+    const drawn = images.find((i) => i.cid === lineChartCid(withData.lineId))!;
+    const empty = images.find((i) => i.cid !== drawn.cid)!;
+    expect(drawn.size).toBeGreaterThan(empty.size);
     const html = String(mail.html);
     for (const img of images) {
       expect(img.size).toBeLessThan(25 * 1024);
       expect(img.content.subarray(1, 4).toString("latin1")).toBe("PNG");
       expect(html).toContain(`src="cid:${img.cid}"`);
     }
-    for (const l of meterLines) expect(html).toMatch(new RegExp(`src="cid:${lineChartCid(l.lineId)}" alt="Charge of the points on [^"]+ over the shift \\(kV, `));
+    for (const l of lineIds.map((lineId) => ({ lineId }))) expect(html).toMatch(new RegExp(`src="cid:${lineChartCid(l.lineId)}" alt="Charge of the points on [^"]+ over the shift \\(kV, `));
     // the plain-text part is the queued text, unchanged
     expect(String(mail.text).trim()).toBe(row.bodyText.trim());
   }, 120_000);
