@@ -129,7 +129,7 @@ export const outbox = mysqlTable(
     createdTs: bigint("created_ts", { mode: "number" }).notNull(),
     sentTs: bigint("sent_ts", { mode: "number" }),
     messageId: varchar("message_id", { length: 200 }),
-    // a chart for the mailer to draw and attach inline when it sends (lib/mail/chart-spec.ts)
+    // a chart for the mailer to draw and attach inline when it sends (one spec or a list: lib/charts/alert-chart.ts, lib/charts/line-mail-chart.ts; drawn by ingest/mail-chart.ts)
     chart: json("chart"),
   },
   (t) => [index("outbox_state_idx").on(t.state, t.nextAttemptTs)],
