@@ -108,7 +108,9 @@ describe.skipIf(!ensureMosquitto())("Mosquitto profile: several workers, one ale
     // rule 1: charge above 12 kV (lib/rules/defaults.ts); nothing else in this suite goes above 5 kV
     const chargeAlerts = () => tdb.db.select({ id: alerts.id, subjectKey: alerts.subjectKey, state: alerts.state }).from(alerts).where(eq(alerts.ruleId, 1));
     await excursion(0, 30);
-    const raised = await waitFor("the excursion's alert", async () => ((await chargeAlerts()).length ? chargeAlerts() : null), 20_000, 200).catch((err: unknown) => {
+    // the owner reads the journal after the writers commit; on a loaded 2-core machine that can
+    // take a while (the hand-over time below is what is measured, not this)
+    const raised = await waitFor("the excursion's alert", async () => ((await chargeAlerts()).length ? chargeAlerts() : null), 60_000, 200).catch((err: unknown) => {
       throw new Error(`${String(err)}\n--- worker 1 ---\n${stack.workers.get(1)?.output().slice(-3000)}\n--- worker 2 ---\n${stack.workers.get(2)?.output().slice(-3000)}`);
     });
     expect(raised).toHaveLength(1);
@@ -137,7 +139,7 @@ describe.skipIf(!ensureMosquitto())("Mosquitto profile: several workers, one ale
     await waitFor("the new owner to read the rest of the excursion", async () => {
       const [r] = (await tdb.pool.query<import("mysql2").RowDataPacket[]>("SELECT reading_ts FROM alert_owner_progress WHERE name = 'alerts'"))[0];
       return r && Number(r.reading_ts) >= t0 + 59_000;
-    }, 15_000, 200);
+    }, 60_000, 200);
     const after = await chargeAlerts();
     expect(after).toHaveLength(1);
     expect(after[0].id).toBe(raised[0].id);
