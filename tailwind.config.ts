@@ -16,7 +16,7 @@ const config: Config = {
         brand: { DEFAULT: "#35566f", soft: "#dfe7ed", deep: "#213849" },
         // charge polarity: two colour-blind-safe hues, always shown with the sign as well
         pos: { DEFAULT: "#2563a8", soft: "#dce8f6" },
-        neg: { DEFAULT: "#2f7d5b", soft: "#dbefe5" },
+        neg: { DEFAULT: "#276b4e", soft: "#dbefe5" },
         // attention states
         near: { DEFAULT: "#8f5d00", soft: "#fbefd2", bright: "#f2b441" },
         over: { DEFAULT: "#b42318", soft: "#fbe1dd", bright: "#ff6b5b" },
