@@ -176,7 +176,8 @@ function WallLine({
           <RunIndicator run={line.run} speedText={line.speedMpm !== null ? formatSpeed(line.speedMpm) : null} dark />
         </div>
       </header>
-      <div className="grid flex-1 gap-[0.8vw]" style={{ gridTemplateColumns: `repeat(${Math.max(2, line.points.length)}, minmax(0, 1fr))` }}>
+      {/* two columns on a phone, one column per point on a wall screen: a 4-point line's big values would not fit a phone's quarter width */}
+      <div className="grid flex-1 grid-cols-2 gap-[0.8vw] lg:grid-cols-[var(--wall-cols)]" style={{ "--wall-cols": `repeat(${Math.max(2, line.points.length)}, minmax(0, 1fr))` } as React.CSSProperties}>
         {line.points.map((p) => (
           <WallPoint key={p.point.id} view={p} now={now} timeZone={timeZone} unit={unit} polarity={polarity} />
         ))}
