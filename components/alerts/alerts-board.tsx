@@ -14,7 +14,7 @@ import { formatPlantTime } from "@/lib/plant-time";
 import type { AlertListItem } from "@/lib/views/alerts";
 import { AlertCode, SeverityTag } from "./alert-bits";
 import { formatAlertValue, formatDuration } from "@/lib/vocabulary";
-import { ALERT_STATE_WORDS, ALERT_STATE_SHORT, RULE_KIND_WORDS, type AlertState } from "@/lib/vocabulary";
+import { ALERT_EVENT_WORDS, ALERT_STATE_WORDS, ALERT_STATE_SHORT, RULE_KIND_WORDS, type AlertState } from "@/lib/vocabulary";
 import { isStateChoice, type AlertFilterState } from "./filters";
 import { useAlertDetail, useAlerts, type AlertsResponse } from "./use-alerts";
 import { FoundLateMark } from "./found-late-mark";
@@ -330,7 +330,7 @@ function AlertDetailPanel({ id, a, timeZone, canRespond, actions }: { id: number
             <li key={e.id} className="flex gap-3">
               <span className="num w-24 shrink-0 text-xs text-ink-faint">{formatPlantTime(e.ts, timeZone, "d MMM HH:mm:ss")}</span>
               <span>
-                <span className="font-medium">{EVENT_WORDS[e.kind] ?? e.kind}</span>
+                <span className="font-medium">{ALERT_EVENT_WORDS[e.kind] ?? e.kind}</span>
                 {e.personName ? <span className="text-ink-soft"> by {e.personName}</span> : null}
                 {e.kind === "shelved" && e.value ? <span className="text-ink-soft"> until {formatPlantTime(Number(e.value), timeZone, "d MMM HH:mm")}</span> : null}
                 {e.comment ? <span className="text-ink-soft"> — {e.comment}</span> : null}
@@ -381,17 +381,5 @@ function AlertDetailPanel({ id, a, timeZone, canRespond, actions }: { id: number
   );
 }
 
-const EVENT_WORDS: Record<string, string> = {
-  raised: "Raised",
-  updated: "Peak moved",
-  cleared: "Cleared (back to normal)",
-  acknowledged: "Acknowledged",
-  commented: "Comment",
-  shelved: "Shelved",
-  unshelved: "Unshelved",
-  closed: "Closed",
-  notified: "E-mailed on-call",
-  escalated: "Escalated, e-mailed",
-};
 
 export type { AlertState };

@@ -62,3 +62,20 @@ export function alertStateCodeAt(a: { kind: RuleKind; endTs: number | null; shel
     shelved: a.shelvedUntilTs !== null && a.shelvedUntilTs > atTs,
   });
 }
+
+/**
+ * Words for the entries of an alert's history (alert_events.kind). "Notified" says who was told,
+ * not how: a notification may go by e-mail, text or push.
+ */
+export const ALERT_EVENT_WORDS: Record<string, string> = {
+  raised: "Raised",
+  updated: "Peak moved",
+  cleared: "Cleared (back to normal)",
+  acknowledged: "Acknowledged",
+  commented: "Comment",
+  shelved: "Shelved",
+  unshelved: "Unshelved",
+  closed: "Closed",
+  notified: "On-call told",
+  escalated: "Escalated",
+};

@@ -17,7 +17,7 @@ import { frozenLineLink } from "@/lib/charts/alert-chart";
 import { renderSvgChart } from "@/lib/charts/svg-chart";
 import { can } from "@/lib/permissions";
 import { formatPlantTime } from "@/lib/plant-time";
-import { ALERT_STATE_WORDS, RULE_KIND_WORDS, formatAlertValue, formatDuration } from "@/lib/vocabulary";
+import { ALERT_EVENT_WORDS, ALERT_STATE_WORDS, RULE_KIND_WORDS, formatAlertValue, formatDuration } from "@/lib/vocabulary";
 import { ackAlert, commentAlert, shelveAlert, unshelveAlert } from "../actions";
 import { FoundLateMark } from "@/components/alerts/found-late-mark";
 
@@ -25,18 +25,6 @@ export const dynamic = "force-dynamic";
 export const metadata: Metadata = { title: "Alert" };
 
 const CHANNEL_WORDS = { email: "E-mail", sms: "Text", push: "Push" } as const;
-const EVENT_WORDS: Record<string, string> = {
-  raised: "Raised",
-  updated: "Peak moved",
-  cleared: "Cleared (back to normal)",
-  acknowledged: "Acknowledged",
-  commented: "Comment",
-  shelved: "Shelved",
-  unshelved: "Unshelved",
-  closed: "Closed",
-  notified: "On-call told",
-  escalated: "Escalated",
-};
 
 export default async function AlertPage({ params }: { params: Promise<{ id: string }> }) {
   const { id: idText } = await params;
@@ -162,7 +150,7 @@ export default async function AlertPage({ params }: { params: Promise<{ id: stri
             <li key={e.id} className="flex gap-3">
               <span className="num w-28 shrink-0 text-xs text-ink-soft">{formatPlantTime(e.ts, tz, "d MMM HH:mm:ss")}</span>
               <span className="min-w-0 break-words">
-                <span className="font-medium">{EVENT_WORDS[e.kind] ?? e.kind}</span>
+                <span className="font-medium">{ALERT_EVENT_WORDS[e.kind] ?? e.kind}</span>
                 {e.personName ? <span className="text-ink-soft"> by {e.personName}</span> : null}
                 {e.comment ? <span className="text-ink-soft"> — {e.comment}</span> : null}
               </span>
