@@ -7,9 +7,11 @@
 // - load: a new owner rebuilds the windows by replaying the journal of the last ALERTS_WARMUP_MS
 //   up to the saved position (transitions ignored), then lays the saved rows over the result.
 //   It then reads on from that position, so what the old owner had not saved is evaluated again
-//   from the same state (the engine works on reading time) and what it had saved is not.
+//   from the same state (the engine works on reading time) and what it had saved is not. With no
+//   saved position (no owner has saved yet, e.g. the first one was killed within its first
+//   second) it reads the whole journal kept.
 import type { Db } from "../db/client";
-import { assertLeaseHeld, loadEngineRows, maxJournalId, readJournalForWarmUp, readProgress, writeEngineRows, writeProgress, type EngineRow } from "../db/queries/alert-owner";
+import { assertLeaseHeld, loadEngineRows, journalStartFloor, readJournalForWarmUp, readProgress, writeEngineRows, writeProgress, type EngineRow } from "../db/queries/alert-owner";
 import { CHANNELS, createRuleEngine, type Channel, type RuleEngine } from "../lib/rules";
 import { hysteresisStateSchema } from "../lib/rules/engine-state";
 import type { EngineStateStore } from "./alerts-runner";
@@ -46,9 +48,11 @@ export class AlertEngineRows implements EngineStateStore {
     const [rows, progress] = await Promise.all([loadEngineRows(db), readProgress(db, OWNER_LEASE)]);
     this.lastStamp = progress?.updatedTs ?? 0;
     const seenAbove = progress ? parseIds(progress.seenAbove) : [];
+    // no owner has saved a position yet: nobody has evaluated what the journal holds, so the
+    // engine reads all of it (in reading time, raising what it finds) rather than warming up on it
     this.start = progress
       ? { floor: progress.journalId, seenAbove, readingTs: progress.readingTs }
-      : { floor: await maxJournalId(db), seenAbove: [], readingTs: 0 };
+      : { floor: await journalStartFloor(db), seenAbove: [], readingTs: 0 };
 
     // windows: replay the recent journal the previous owner had read (transitions ignored)
     const engine = createRuleEngine({ rules, topology });

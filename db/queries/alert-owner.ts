@@ -84,8 +84,9 @@ export async function readJournalForWarmUp(db: Db, sinceTs: number, uptoId: numb
   return rows;
 }
 
-export async function maxJournalId(db: Db): Promise<number> {
-  const rows = await db.select({ id: sql<number>`COALESCE(MAX(${readingJournal.id}), 0)` }).from(readingJournal);
+/** The id just below the oldest entry kept (0 when the journal is empty). */
+export async function journalStartFloor(db: Db): Promise<number> {
+  const rows = await db.select({ id: sql<number>`COALESCE(MIN(${readingJournal.id}) - 1, 0)` }).from(readingJournal);
   return Number(rows[0]?.id ?? 0);
 }
 
