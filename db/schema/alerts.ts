@@ -72,6 +72,8 @@ export const alerts = mysqlTable(
     ackedBy: int("acked_by").references(() => people.id),
     ackedTs: bigint("acked_ts", { mode: "number" }),
     notifiedLevel: int("notified_level").notNull().default(0),
+    /** When the alert last got worse (a higher severity, or a peak past the plant's setting): on call is told again from then. */
+    worsenedTs: bigint("worsened_ts", { mode: "number" }),
   },
   (t) => [
     index("alerts_state_idx").on(t.state, t.severity),
@@ -93,6 +95,12 @@ export const ALERT_EVENT_KINDS = [
   "closed",
   "notified",
   "escalated",
+  /** a higher severity or a clearly worse peak (lib/alerts/condition-merge.ts) */
+  "worsened",
+  /** the most severe rule cleared while a milder one still holds */
+  "eased",
+  /** recorded but nobody told: behind a silent gateway, or explained by a maintenance window */
+  "held",
 ] as const;
 
 export const alertEvents = mysqlTable(

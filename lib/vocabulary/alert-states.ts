@@ -78,4 +78,7 @@ export const ALERT_EVENT_WORDS: Record<string, string> = {
   closed: "Closed",
   notified: "On-call told",
   escalated: "Escalated",
+  worsened: "Got worse",
+  eased: "Eased",
+  held: "Recorded, nobody told",
 };

@@ -1,0 +1,2 @@
+ALTER TABLE `alert_events` MODIFY COLUMN `kind` enum('raised','updated','cleared','acknowledged','commented','shelved','unshelved','closed','notified','escalated','worsened','eased','held') NOT NULL;--> statement-breakpoint
+ALTER TABLE `alerts` ADD `worsened_ts` bigint;
