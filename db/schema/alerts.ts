@@ -74,6 +74,8 @@ export const alerts = mysqlTable(
     notifiedLevel: int("notified_level").notNull().default(0),
     /** When the alert last got worse (a higher severity, or a peak past the plant's setting): on call is told again from then. */
     worsenedTs: bigint("worsened_ts", { mode: "number" }),
+    /** The storm group it was sent to on call with (ingest/alerts-escalation.ts): alerts sharing it went out as one message. */
+    notifyGroup: varchar("notify_group", { length: 80 }),
   },
   (t) => [
     index("alerts_state_idx").on(t.state, t.severity),
@@ -81,6 +83,7 @@ export const alerts = mysqlTable(
     index("alerts_area_idx").on(t.areaId, t.startTs),
     index("alerts_start_idx").on(t.startTs),
     index("alerts_rule_subject_idx").on(t.ruleId, t.subjectKey, t.startTs),
+    index("alerts_notify_group_idx").on(t.notifyGroup),
   ],
 );
 
