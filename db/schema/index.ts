@@ -7,4 +7,5 @@ export * from "./surveys";
 export * from "./gateways";
 export * from "./notify";
 export * from "./coordination";
+export * from "./maintenance";
 export * from "./relations";
