@@ -18,6 +18,8 @@ export type NotifyCandidate = {
   peakValue: number | null;
   expectedCrossingTs: number | null;
   notifiedLevel: number;
+  worsenedTs: number | null;
+  notifyGroup: string | null;
   areaName: string | null;
   lineName: string | null;
   pointName: string | null;
@@ -40,6 +42,8 @@ export async function listNotifyCandidates(db: Db, severities: Severity[], start
       peakValue: alerts.peakValue,
       expectedCrossingTs: alerts.expectedCrossingTs,
       notifiedLevel: alerts.notifiedLevel,
+      worsenedTs: alerts.worsenedTs,
+      notifyGroup: alerts.notifyGroup,
       areaName: areas.name,
       lineName: lines.name,
       pointName: points.name,

@@ -43,7 +43,8 @@ export function parseSeverityList(text: string): Severity[] {
  */
 export async function queueAlertPhoneMessages(
   tx: Inserter,
-  input: { alertId: number; order: number; severity: Severity; personIds: number[]; title: string; body: string; url: string },
+  // dedupePrefix: the step's key when it is not the alert's first telling (a storm group, or told again after it got worse)
+  input: { alertId: number; order: number; severity: Severity; personIds: number[]; title: string; body: string; url: string; dedupePrefix?: string },
   nowMs: number,
 ): Promise<{ sms: number; push: number }> {
   if (input.personIds.length === 0) return { sms: 0, push: 0 };
@@ -54,15 +55,16 @@ export async function queueAlertPhoneMessages(
   const subs = await tx.select({ id: pushSubscriptions.id, personId: pushSubscriptions.personId }).from(pushSubscriptions).where(inArray(pushSubscriptions.personId, input.personIds));
   let sms = 0;
   let push = 0;
+  const prefix = input.dedupePrefix ?? `alert:${input.alertId}:order:${input.order}`;
   for (const p of who) {
     const base = { personId: p.id, alertId: input.alertId, title: input.title, body: input.body, url: input.url };
     if (p.phone && parseSeverityList(p.sms).includes(input.severity)) {
       const text = `${input.title}: ${input.body} ${input.url}`;
-      if (await enqueuePhoneMessage(tx, { ...base, body: text, dedupeKey: `alert:${input.alertId}:order:${input.order}:sms:${p.id}`, channel: "sms", toAddress: p.phone, fallbackEmail: p.email }, nowMs)) sms++;
+      if (await enqueuePhoneMessage(tx, { ...base, body: text, dedupeKey: `${prefix}:sms:${p.id}`, channel: "sms", toAddress: p.phone, fallbackEmail: p.email }, nowMs)) sms++;
     }
     if (parseSeverityList(p.push).includes(input.severity)) {
       for (const s of subs.filter((x) => x.personId === p.id)) {
-        if (await enqueuePhoneMessage(tx, { ...base, dedupeKey: `alert:${input.alertId}:order:${input.order}:push:${s.id}`, channel: "push", toAddress: String(s.id), fallbackEmail: null }, nowMs)) push++;
+        if (await enqueuePhoneMessage(tx, { ...base, dedupeKey: `${prefix}:push:${s.id}`, channel: "push", toAddress: String(s.id), fallbackEmail: null }, nowMs)) push++;
       }
     }
   }

@@ -43,6 +43,8 @@ export function composeAlertEmail(
     unackedForMs: number;
     /** the inline chart (drawn by the mailer) and the link frozen to its span */
     chart?: { cid: string; frozenLink: string; alt: string };
+    /** it got worse (higher severity or a clearly worse peak) at this time: on call is told again */
+    worsenedTs?: number | null;
   },
 ): MailText {
   const code = alertStateCode({ kind: a.kind, state: a.state, shelved: false });
@@ -54,14 +56,21 @@ export function composeAlertEmail(
   const link = a.linkLineId !== null ? lineLinkAt(opts.appUrl, a.linkLineId, a.startTs) : `${opts.appUrl.replace(/\/$/, "")}/alerts`;
   const alertsLink = `${opts.appUrl.replace(/\/$/, "")}/alerts`;
   const escalation = opts.level > 1;
-  const subject = `${escalation ? "[Escalated] " : ""}${codeText}: ${what} — ${where} (${SEVERITY_WORDS[a.severity].toLowerCase()})`;
+  const worse = opts.worsenedTs != null;
+  const severityWord = SEVERITY_WORDS[a.severity].toLowerCase();
+  const subject = worse
+    ? `Worse: ${escalation ? "[Escalated] " : ""}${codeText}: ${what} — ${where} (now ${severityWord}, peak ${peak})`
+    : `${escalation ? "[Escalated] " : ""}${codeText}: ${what} — ${where} (${severityWord})`;
   const waited = formatDuration(opts.unackedForMs);
+  const worseAt = worse ? formatPlantTime(opts.worsenedTs ?? 0, opts.timeZone, "HH:mm") : "";
   const lines = [
     `Hello ${opts.recipientName},`,
     "",
-    escalation
-      ? `This alert has not been acknowledged for ${waited}; you are next on the on-call list (order ${opts.level}).`
-      : `This alert has not been acknowledged for ${waited} and you are on call.`,
+    worse
+      ? `This alert got worse at ${worseAt} (plant time): now ${severityWord}, peak ${peak}. ${escalation ? `Nobody has acknowledged it since; you are next on the on-call list (order ${opts.level}).` : "You are on call."}`
+      : escalation
+        ? `This alert has not been acknowledged for ${waited}; you are next on the on-call list (order ${opts.level}).`
+        : `This alert has not been acknowledged for ${waited} and you are on call.`,
     "",
     `State:   ${codeText} — ${ALERT_STATE_WORDS[a.state]}`,
     `What:    ${what}: ${a.message}`,
