@@ -9,6 +9,7 @@
 // transaction, so each person gets one message per group and step however often this runs.
 import type { Db } from "../db/client";
 import { listNotifyCandidates, type NotifyCandidate } from "../db/queries/alert-notify-candidates";
+import { runMaintenanceRound } from "../db/queries/maintenance-round";
 import { getAlertingSettings, listOnCallAt, type AlertingSettings } from "../db/queries/oncall";
 import type { AlertSubject } from "../db/queries/topology";
 import { SEVERITY_RANK, type Severity } from "../lib/vocabulary";
@@ -63,6 +64,7 @@ export async function runEscalation(
   nowMs: number,
   opts: { appUrl: string; timeZone: string; subjects: ReadonlyMap<string, AlertSubject>; settings?: AlertingSettings },
 ): Promise<EscalationResult> {
+  await runMaintenanceRound(db, nowMs); // planned work: hold the alerts it explains, summarize the windows that ended
   const settings = opts.settings ?? (await getAlertingSettings(db));
   // every candidate raised so far, those not due yet included: they go with their hall's group
   const candidates = await listNotifyCandidates(db, severitiesAtOrAbove(settings.notifyMinSeverity), nowMs, nowMs);

@@ -24,11 +24,12 @@ export const ACTIONS = [
   "survey.record",
   "survey.plan",
   "health.view", // the Health page and /api/health: every process's figures
+  "maintenance.plan", // open, extend and end a maintenance window (planned work); everyone may see them
 ] as const;
 export type Action = (typeof ACTIONS)[number];
 
 const viewer: Action[] = ["view"];
-const shiftLead: Action[] = [...viewer, "alert.respond", "note.add", "survey.record"];
+const shiftLead: Action[] = [...viewer, "alert.respond", "note.add", "survey.record", "maintenance.plan"];
 const engineer: Action[] = [
   ...shiftLead,
   "limits.edit",

@@ -1,8 +1,9 @@
 // Alerts that may need an e-mail to the on-call person (ingest/alerts-escalation.ts).
-import { and, asc, eq, inArray, isNull, lte, or } from "drizzle-orm";
+import { and, asc, eq, inArray, isNull, lte, not, or } from "drizzle-orm";
 import type { Db } from "../client";
 import { alerts, areas, lines, points } from "../schema";
 import type { RuleKind, Severity } from "../../lib/vocabulary";
+import { explainedByActiveWindow } from "./maintenance-windows";
 
 export type NotifyCandidate = {
   id: number;
@@ -25,7 +26,7 @@ export type NotifyCandidate = {
   pointName: string | null;
 };
 
-/** Active, unacknowledged, unshelved alerts at or above a severity, raised at or before `startedBy`. */
+/** Active, unacknowledged, unshelved alerts at or above a severity, raised at or before `startedBy`, not explained by a running maintenance window. */
 export async function listNotifyCandidates(db: Db, severities: Severity[], startedBy: number, nowMs: number): Promise<NotifyCandidate[]> {
   return db
     .select({
@@ -58,6 +59,8 @@ export async function listNotifyCandidates(db: Db, severities: Severity[], start
         inArray(alerts.severity, severities.length ? severities : ["high"]),
         lte(alerts.startTs, startedBy),
         or(isNull(alerts.shelvedUntilTs), lte(alerts.shelvedUntilTs, nowMs)),
+        // planned work explains it: recorded, nobody told until the window ends (db/queries/maintenance-round.ts)
+        not(explainedByActiveWindow(nowMs)),
       ),
     )
     .orderBy(asc(alerts.startTs))

@@ -4,8 +4,8 @@ import { ACTIONS, can, ROLE_NAMES, type Action, type Role } from "@/lib/permissi
 
 const table: Record<Role, Action[]> = {
   viewer: ["view"],
-  shift_lead: ["view", "alert.respond", "note.add", "survey.record"],
-  engineer: ["view", "alert.respond", "note.add", "survey.record", "limits.edit", "plant.edit", "equipment.edit", "check.record", "upload.add", "import.run", "audit.view", "survey.plan", "gateways.map"],
+  shift_lead: ["view", "alert.respond", "note.add", "survey.record", "maintenance.plan"],
+  engineer: ["view", "alert.respond", "note.add", "survey.record", "maintenance.plan", "limits.edit", "plant.edit", "equipment.edit", "check.record", "upload.add", "import.run", "audit.view", "survey.plan", "gateways.map"],
   admin: [...ACTIONS],
 };
 
