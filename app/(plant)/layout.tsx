@@ -23,6 +23,7 @@ export default async function PlantLayout({ children }: { children: React.ReactN
     { href: "/alert-load", label: "Alert load" },
     { href: "/equipment", label: "Equipment" },
     { href: "/checks", label: "Checks" },
+    { href: "/maintenance", label: "Planned work" },
     { href: "/surveys", label: "Surveys" },
     { href: "/devices", label: "Devices" },
     { href: "/gateways", label: "Gateways" },

@@ -113,7 +113,7 @@ export function ChargePanel({
         onPick={c.onPick}
         readout={(idx, d) => readoutText(idx, d, c.timeZone, (v) => formatCharge(unit === "V" ? v / 1000 : v, unit, { withUnit: true }), band)}
         testId="line-chart"
-        attrs={{ kind: "charge", compare: compare ? compare.label : "", "compare-points": compare ? compare.buckets.length : 0, "point-id": p.id, source: result?.source ?? "", band: band ? "on" : "off", points: buckets.length, notes: c.markers.length }}
+        attrs={{ kind: "charge", compare: compare ? compare.label : "", "compare-points": compare ? compare.buckets.length : 0, "point-id": p.id, source: result?.source ?? "", band: band ? "on" : "off", points: buckets.length, notes: c.markers.length, "planned-work": c.spans.filter((s) => s.hatch).length }}
       />
       {compare ? (
         <p className="flex flex-wrap gap-x-4 px-3 pb-2 text-xs text-ink-soft" data-testid="compare-legend">

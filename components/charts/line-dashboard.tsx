@@ -44,6 +44,8 @@ type Props = {
   canAddNote: boolean;
   addNote?: NoteAction;
   serverNow: number;
+  /** "Plan work here" (Planned work page prefilled with this line), for those who may plan */
+  planWorkHref?: string;
 };
 
 const MAX_POINTS = 1000;
@@ -72,7 +74,7 @@ async function fetchHistory(d: SeriesDef, fromTs: number, toTs: number): Promise
   return (await res.json()) as HistoryResult;
 }
 
-function LineDashboardInner({ area, line, settings, canAddNote, addNote, serverNow }: Props) {
+function LineDashboardInner({ area, line, settings, canAddNote, addNote, serverNow, planWorkHref }: Props) {
   const { prefs } = useUnits();
   const router = useRouter();
   const searchParams = useSearchParams();
@@ -172,6 +174,12 @@ function LineDashboardInner({ area, line, settings, canAddNote, addNote, serverN
       })),
     [events.data, now],
   );
+  // planned work (maintenance windows) as hatched, labelled bands
+  const windowSpans = useCallback(
+    (filter: (w: NonNullable<LineEvents["windows"]>[number]) => boolean): Span[] =>
+      (events.data?.windows ?? []).filter(filter).map((w) => ({ from: w.startTs, to: w.endTs, color: "inkSoft" as const, alpha: 0.06, hatch: true, label: `Planned work: ${w.reason}` })),
+    [events.data],
+  );
 
   const withCompare = (q: string, k: CompareKind | null) => (k ? `${q}${q ? "&" : "?"}compare=${k}` : q);
   const setRange = (r: RangeState) => {
@@ -226,6 +234,11 @@ function LineDashboardInner({ area, line, settings, canAddNote, addNote, serverN
         </div>
         <div className="flex flex-wrap items-center gap-3">
           <StreamIndicator status={stream.status} brokerConnected={stream.brokerConnected} />
+          {planWorkHref ? (
+            <Link href={planWorkHref} className="rounded border border-paper-line bg-paper-raised px-2.5 py-1 text-sm text-ink hover:bg-paper-sunk" data-testid="plan-work-link">
+              Plan work here
+            </Link>
+          ) : null}
           <UnitsToggle />
         </div>
       </div>
@@ -267,7 +280,7 @@ function LineDashboardInner({ area, line, settings, canAddNote, addNote, serverN
                 timeZone={tz}
                 now={now}
                 markers={noteMarkers}
-                spans={alertSpans((a) => a.pointId === p.id)}
+                spans={[...windowSpans((w) => w.pointId === null || w.pointId === p.id), ...alertSpans((a) => a.pointId === p.id)]}
                 onZoom={(a, b) => setZoom([a, b])}
                 onPick={canAddNote ? setPickedTs : undefined}
                 compare={fm ? compareOverlay(`p${p.id}`) : null}
@@ -287,7 +300,7 @@ function LineDashboardInner({ area, line, settings, canAddNote, addNote, serverN
               timeZone={tz}
               now={now}
               markers={noteMarkers}
-              spans={alertSpans((a) => a.pointId === null && a.lineId === null)}
+              spans={[...windowSpans((w) => w.targetKind === "area"), ...alertSpans((a) => a.pointId === null && a.lineId === null)]}
               onZoom={(a, b) => setZoom([a, b])}
               onPick={canAddNote ? setPickedTs : undefined}
               timeLabels={!line.speedGateway ? "bottom" : line.points.length === 0 ? "top" : "none"}
@@ -302,7 +315,7 @@ function LineDashboardInner({ area, line, settings, canAddNote, addNote, serverN
               timeZone={tz}
               now={now}
               markers={noteMarkers}
-              spans={alertSpans((a) => a.lineId === line.id && a.pointId === null)}
+              spans={[...windowSpans((w) => w.pointId === null), ...alertSpans((a) => a.lineId === line.id && a.pointId === null)]}
               onZoom={(a, b) => setZoom([a, b])}
               onPick={canAddNote ? setPickedTs : undefined}
             />

@@ -3,7 +3,8 @@
 // chunk), then updated in place with setData as data arrive — never re-created per tick.
 // Charts sharing a `syncKey` move one cursor together; a drag selects a time window that the
 // parent applies to all of them (zoom), a click picks a moment (e.g. for a note).
-// Drawn on top: limit lines, markers (notes), spans (alerts), shaded bands (a humidity aim).
+// Drawn on top: limit lines, markers (notes), spans (alerts; hatched with a label: planned work),
+// shaded bands (a humidity aim).
 import "uplot/dist/uPlot.min.css";
 import type uPlot from "uplot";
 import { useEffect, useRef } from "react";
@@ -23,7 +24,8 @@ export type ChartSeries = {
 export type HLine = { value: number; scale?: "y" | "y2"; color: TokenName; dash?: number[]; alpha?: number };
 export type HBand = { from: number; to: number; scale?: "y" | "y2"; color: TokenName; alpha: number };
 export type VMarker = { ts: number; label: string; color: TokenName };
-export type Span = { from: number; to: number; color: TokenName; alpha: number };
+/** `hatch` with a `label`: planned work (a maintenance window), drawn hatched and named at its foot. */
+export type Span = { from: number; to: number; color: TokenName; alpha: number; hatch?: boolean; label?: string };
 export type Axis = {
   fmt: (v: number) => string;
   range?: (min: number, max: number) => [number, number];
@@ -161,6 +163,10 @@ export function TimeChart(props: TimeChartProps) {
                 const w = Math.max(dpr(), x2 - x1);
                 ctx.fillStyle = withAlpha(c[s.color], s.alpha);
                 ctx.fillRect(x1, top, w, height);
+                if (s.hatch) {
+                  drawHatch(ctx, x1, top, w, height, withAlpha(c[s.color], 0.22), dpr());
+                  continue;
+                }
                 ctx.fillStyle = withAlpha(c[s.color], 0.75);
                 ctx.fillRect(x1, top, w, 4 * dpr());
               }
@@ -189,6 +195,19 @@ export function TimeChart(props: TimeChartProps) {
               ctx.setLineDash([3 * dpr(), 3 * dpr()]);
               ctx.font = `600 ${10 * dpr()}px ${getComputedStyle(document.body).fontFamily}`;
               ctx.textBaseline = "top";
+              // planned-work labels at the foot of their band, cut to the band's width
+              for (const s of q.spans ?? []) {
+                if (!s.hatch || !s.label) continue;
+                const x1 = Math.max(left, u.valToPos(s.from, "x", true));
+                const x2 = Math.min(left + width, u.valToPos(s.to, "x", true));
+                if (x2 - x1 < 24 * dpr()) continue;
+                const text = fitText(ctx, s.label, x2 - x1 - 8 * dpr());
+                const tw = ctx.measureText(text).width + 6 * dpr();
+                ctx.fillStyle = withAlpha(c.paperSunk, 0.92);
+                ctx.fillRect(x1 + 2 * dpr(), top + height - 15 * dpr(), tw, 13 * dpr());
+                ctx.fillStyle = c[s.color];
+                ctx.fillText(text, x1 + 5 * dpr(), top + height - 13.5 * dpr());
+              }
               for (const m of q.markers ?? []) {
                 const x = Math.round(u.valToPos(m.ts, "x", true)) + 0.5;
                 if (x < left || x > left + width) continue;
@@ -276,6 +295,32 @@ export function TimeChart(props: TimeChartProps) {
       {props.readout ? <span ref={readoutRef} className="num pointer-events-none absolute right-2 top-0 text-[11px] text-ink-faint" aria-hidden="true" /> : null}
     </div>
   );
+}
+
+/** Diagonal lines over a rectangle (the planned-work band: a pattern, so it reads without colour). */
+function drawHatch(ctx: CanvasRenderingContext2D, x: number, y: number, w: number, h: number, stroke: string, ratio: number): void {
+  ctx.save();
+  ctx.beginPath();
+  ctx.rect(x, y, w, h);
+  ctx.clip();
+  ctx.strokeStyle = stroke;
+  ctx.lineWidth = ratio;
+  ctx.beginPath();
+  const step = 7 * ratio;
+  for (let d = -h; d < w; d += step) {
+    ctx.moveTo(x + d, y + h);
+    ctx.lineTo(x + d + h, y);
+  }
+  ctx.stroke();
+  ctx.restore();
+}
+
+/** The label cut with an ellipsis to fit `maxPx`. */
+function fitText(ctx: CanvasRenderingContext2D, text: string, maxPx: number): string {
+  if (ctx.measureText(text).width <= maxPx) return text;
+  let t = text;
+  while (t.length > 1 && ctx.measureText(`${t}…`).width > maxPx) t = t.slice(0, -1);
+  return `${t}…`;
 }
 
 function dataAttrs(attrs?: Record<string, string | number>): Record<string, string> {

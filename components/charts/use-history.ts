@@ -1,10 +1,11 @@
 "use client";
-// react-query hook for the events on a line's time axis (/api/history/events): notes and alerts.
+// react-query hook for the events on a line's time axis (/api/history/events): notes, alerts and planned work.
 // Earlier data stay on screen while a new range loads. (The charts' history is fetched with
 // useQueries in line-dashboard.tsx, one query per sensor channel.)
 import { keepPreviousData, useQuery } from "@tanstack/react-query";
 import type { LineNote } from "@/lib/views/notes";
 import type { TimelineAlert } from "@/lib/views/floor";
+import type { MaintenanceWindowView } from "@/lib/views/maintenance";
 
 async function getJson<T>(url: string): Promise<T> {
   const res = await fetch(url, { cache: "no-store" });
@@ -21,7 +22,7 @@ async function getJson<T>(url: string): Promise<T> {
   return (await res.json()) as T;
 }
 
-export type LineEvents = { notes: LineNote[]; alerts: TimelineAlert[] };
+export type LineEvents = { notes: LineNote[]; alerts: TimelineAlert[]; windows?: MaintenanceWindowView[] };
 
 export function eventsKey(lineId: number) {
   return ["line-events", lineId] as const;

@@ -6,6 +6,7 @@ import type { HandoverReport as Report } from "@/lib/reports/handover";
 import { RULE_KIND_WORDS } from "@/lib/reports/weekly";
 import { EmptyState } from "@/components/ui/page";
 import { LimitBar, Section, StateCell, Table, Td, Th, Tile, Tiles, Tr } from "./report-parts";
+import { HandoverMaintenance } from "./handover-maintenance";
 
 export function HandoverReportView({ report }: { report: Report }) {
   const zone = report.window.timeZone;
@@ -221,6 +222,8 @@ export function HandoverReportView({ report }: { report: Report }) {
           </p>
         </Section>
       </div>
+
+      <HandoverMaintenance windows={report.maintenance ?? []} zone={zone} nowMs={report.generatedTs} />
 
       <Section title="Line notes" aside={`${report.notes.length} note${report.notes.length === 1 ? "" : "s"}`} testId="handover-notes">
         {report.notes.length === 0 ? (

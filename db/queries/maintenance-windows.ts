@@ -7,7 +7,7 @@ import type { Db } from "../client";
 import { areas, lines, maintenanceWindows, neutralizers, people, points } from "../schema";
 import { checkExtension, MAX_WINDOW_MS, type MaintenanceTarget } from "../../lib/alerts/maintenance-windows";
 import { AppError, badInput, notFound } from "../../lib/errors";
-import type { MaintenanceWindowView } from "../../lib/views/maintenance";
+import { targetValue, type MaintenanceTargetGroup, type MaintenanceWindowView } from "../../lib/views/maintenance";
 import { writeAudit } from "./audit";
 
 /** The longest a window may ever run (lib/alerts/maintenance-windows.ts checkExtension says the same). */
@@ -30,7 +30,7 @@ type Names = {
   area: Map<number, { name: string }>;
   line: Map<number, { name: string; areaId: number }>;
   point: Map<number, { name: string; lineId: number; position: number }>;
-  neutralizer: Map<number, { tag: string; pointId: number | null }>;
+  neutralizer: Map<number, { tag: string; pointId: number | null; state: string }>;
 };
 
 /** The plant's places by id (a few hundred rows at most), to name window targets. */
@@ -39,7 +39,7 @@ export async function loadPlaceNames(db: Db): Promise<Names> {
     db.select({ id: areas.id, name: areas.name }).from(areas),
     db.select({ id: lines.id, name: lines.name, areaId: lines.areaId }).from(lines),
     db.select({ id: points.id, name: points.name, lineId: points.lineId, position: points.position }).from(points),
-    db.select({ id: neutralizers.id, tag: neutralizers.tag, pointId: neutralizers.pointId }).from(neutralizers),
+    db.select({ id: neutralizers.id, tag: neutralizers.tag, pointId: neutralizers.pointId, state: neutralizers.state }).from(neutralizers),
   ]);
   return {
     area: new Map(a.map((x) => [x.id, x])),
@@ -223,4 +223,17 @@ export async function endMaintenanceWindow(db: Db, id: number, personId: number,
       .where(eq(maintenanceWindows.id, id));
     await writeAudit(tx, { personId, action: "maintenance.end", subjectType: "maintenance_window", subjectId: id, summary: `Planned work on ${w.targetName} ${calledOff ? "called off" : "ended early"}` }, nowMs);
   });
+}
+
+/** The target picker's choices: halls, lines, points, bars not removed. */
+export async function listMaintenanceTargets(db: Db): Promise<MaintenanceTargetGroup[]> {
+  const names = await loadPlaceNames(db);
+  const option = (kind: MaintenanceTarget, id: number) => ({ value: targetValue(kind, id), label: describeTarget(names, kind, id)?.name ?? `${kind} ${id}` });
+  const byName = (a: { label: string }, b: { label: string }) => a.label.localeCompare(b.label, "en", { numeric: true });
+  return [
+    { kind: "area", label: "Halls", options: [...names.area.keys()].map((id) => option("area", id)).sort(byName) },
+    { kind: "line", label: "Lines", options: [...names.line.keys()].map((id) => option("line", id)).sort(byName) },
+    { kind: "point", label: "Measuring points", options: [...names.point.keys()].map((id) => option("point", id)).sort(byName) },
+    { kind: "neutralizer", label: "Neutralizers", options: [...names.neutralizer.entries()].filter(([, n]) => n.state !== "removed").map(([id]) => id).map((id) => option("neutralizer", id)).sort(byName) },
+  ];
 }

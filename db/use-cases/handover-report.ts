@@ -7,6 +7,7 @@ import type { Db } from "../client";
 import { getPlantLayout } from "../queries/plant";
 import { getPlantSettings } from "../queries/plant-settings";
 import { listStoredRules } from "../queries/limits";
+import { listWindowsOverlapping } from "../queries/maintenance-windows";
 import { fieldMeterIds, loadAlertsInWindow, loadLineNotes, loadNeutralizerRecords, loadRawSeries, loggerIds } from "../queries/reports";
 import { shiftWindowFor, type ShiftWindow } from "../../lib/plant-time";
 import { buildHandover, RAW_HOLD_MS, type HandoverReport } from "../../lib/reports/handover";
@@ -23,15 +24,16 @@ export async function getHandoverReport(db: Db, req: HandoverRequest, nowTs: num
 
 export async function buildHandoverForWindow(db: Db, window: ShiftWindow, plantName: string, nowTs: number): Promise<HandoverReport> {
   const plant = await getPlantLayout(db);
-  const [ruleList, chargeSeries, rhSeries, alertList, neutralizerList, notes] = await Promise.all([
+  const [ruleList, chargeSeries, rhSeries, alertList, neutralizerList, notes, maintenance] = await Promise.all([
     listStoredRules(db),
     loadRawSeries(db, "charge_kv", fieldMeterIds(plant), window.startTs, window.endTs, RAW_HOLD_MS),
     loadRawSeries(db, "rh_pct", loggerIds(plant), window.startTs, window.endTs, RAW_HOLD_MS),
     loadAlertsInWindow(db, window.startTs, window.endTs),
     loadNeutralizerRecords(db, window.endTs, window.timeZone),
     loadLineNotes(db, window.startTs, window.endTs),
+    listWindowsOverlapping(db, window.startTs, window.endTs),
   ]);
-  return buildHandover({
+  const report = buildHandover({
     plantName,
     window,
     generatedTs: nowTs,
@@ -43,4 +45,5 @@ export async function buildHandoverForWindow(db: Db, window: ShiftWindow, plantN
     neutralizers: neutralizerList,
     notes,
   });
+  return { ...report, maintenance };
 }

@@ -6,6 +6,7 @@
  * charge limit and its worst reading, the lowest RH per hall, neutralizers that need attention,
  * line notes.
  */
+import type { MaintenanceWindowView } from "../views/maintenance";
 import type { ShiftWindow } from "../plant-time";
 import { ACTIVE_ALERT_STATES, ALERT_STATE_WORDS, DAY_MS, alertStateCodeAt, type AlertState, type RuleKind, type Severity } from "../vocabulary";
 import { chargeLimitAt, rhLowLimitAt, type StoredRule } from "../rules/limits-in-force";
@@ -142,6 +143,8 @@ export type HandoverReport = {
   halls: HandoverHallRow[];
   neutralizers: HandoverNeutralizerRow[];
   notes: HandoverNoteRow[];
+  /** Planned work (maintenance windows) overlapping the shift, with owner, reason and summary. */
+  maintenance?: MaintenanceWindowView[];
 };
 
 const LEVEL_WORDS = { point: "point", line: "line", area: "hall", plant: "plant-wide" } as const;

@@ -35,3 +35,10 @@ export const MAINTENANCE_TARGET_WORDS: Record<MaintenanceTarget, string> = {
   point: "Measuring point",
   neutralizer: "Neutralizer",
 };
+
+/** The target picker's choices, grouped; `value` is "kind:id" (e.g. "line:3"). */
+export type MaintenanceTargetGroup = { kind: MaintenanceTarget; label: string; options: Array<{ value: string; label: string }> };
+
+export function targetValue(kind: MaintenanceTarget, id: number): string {
+  return `${kind}:${id}`;
+}

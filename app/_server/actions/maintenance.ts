@@ -24,15 +24,26 @@ async function toMs(value: number | string, field: string): Promise<number> {
   return ms;
 }
 
-export const openWindowFormSchema = z.object({
-  targetKind: z.enum(MAINTENANCE_TARGETS, { message: "Pick what the work is on" }),
-  targetId: idField,
-  ownerId: idField,
-  reason,
-  startTs: moment,
-  endTs: moment,
-  extendReason: optionalText(300),
-});
+/** The form's target picker sends `target` as "kind:id"; the JSON API may send targetKind and targetId. */
+function splitTarget(raw: unknown): unknown {
+  if (typeof raw !== "object" || raw === null || !("target" in raw)) return raw;
+  const { target, ...rest } = raw as Record<string, unknown>;
+  const m = typeof target === "string" ? /^([a-z]{1,20}):(\d{1,9})$/.exec(target) : null;
+  return m ? { ...rest, targetKind: m[1], targetId: m[2] } : { ...rest, targetKind: undefined, targetId: undefined };
+}
+
+export const openWindowFormSchema = z.preprocess(
+  splitTarget,
+  z.object({
+    targetKind: z.enum(MAINTENANCE_TARGETS, { message: "Pick what the work is on" }),
+    targetId: idField,
+    ownerId: idField,
+    reason,
+    startTs: moment,
+    endTs: moment,
+    extendReason: optionalText(300),
+  }),
+);
 
 export const openMaintenanceWindowAction = defineAction("maintenance.plan", openWindowFormSchema, async (input, who) => {
   const nowMs = Date.now();

@@ -66,6 +66,11 @@ export default async function NeutralizerPage({ params }: { params: Promise<{ id
         actions={
           <>
             <NeutralizerStateBadge state={n.state} />
+            {can(session.role, "maintenance.plan") ? (
+              <Link href={`/maintenance?target=neutralizer:${n.id}#plan`} className="rounded border border-paper-line bg-paper-raised px-3 py-1.5 text-sm text-ink hover:bg-paper-sunk" data-testid="plan-work-link">
+                Plan work here
+              </Link>
+            ) : null}
             {canRecord ? (
               <Link href={`/checks?neutralizer=${n.id}#record`} className="rounded bg-brand px-3 py-1.5 text-sm font-medium text-white hover:bg-brand-deep">
                 Record a check

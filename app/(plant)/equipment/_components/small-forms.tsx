@@ -1,26 +1,40 @@
 "use client";
 // The "cleaned" action and the note / fault report on an equipment page.
+import { useState } from "react";
+import Link from "next/link";
 import { ActionForm, Field, inputClass, SubmitButton } from "@/components/forms/action-form";
 import { addEquipmentNote, markCleaned } from "../actions";
 
 export function CleanedForm({ id, nowLocal }: { id: number; nowLocal: string }) {
+  const [cleaned, setCleaned] = useState(false);
   return (
-    <ActionForm action={markCleaned} className="space-y-2" successMessage="Cleaning recorded; the cleaning clock starts again." resetOnSuccess>
-      <input type="hidden" name="id" value={id} />
-      <div className="flex flex-wrap items-end gap-2">
-        <div className="min-w-[11rem] flex-1">
-          <Field label="Cleaned at" name="cleanedAt">
-            <input type="datetime-local" name="cleanedAt" defaultValue={nowLocal} className={inputClass} />
-          </Field>
+    <>
+      <ActionForm action={markCleaned} className="space-y-2" successMessage="Cleaning recorded; the cleaning clock starts again." resetOnSuccess onSuccess={() => setCleaned(true)}>
+        <input type="hidden" name="id" value={id} />
+        <div className="flex flex-wrap items-end gap-2">
+          <div className="min-w-[11rem] flex-1">
+            <Field label="Cleaned at" name="cleanedAt">
+              <input type="datetime-local" name="cleanedAt" defaultValue={nowLocal} className={inputClass} />
+            </Field>
+          </div>
+          <span className="whitespace-nowrap">
+            <SubmitButton>Record cleaning</SubmitButton>
+          </span>
         </div>
-        <span className="whitespace-nowrap">
-          <SubmitButton>Record cleaning</SubmitButton>
-        </span>
-      </div>
-      <Field label="What was done (optional)" name="note">
-        <input name="note" className={inputClass} maxLength={500} placeholder="e.g. wiped emitter pins with isopropanol" />
-      </Field>
-    </ActionForm>
+        <Field label="What was done (optional)" name="note">
+          <input name="note" className={inputClass} maxLength={500} placeholder="e.g. wiped emitter pins with isopropanol" />
+        </Field>
+      </ActionForm>
+      {cleaned ? (
+        // a cleaned bar takes a while to settle: offer to keep its alerts from on call meanwhile
+        <p className="mt-2 text-sm text-ink-soft" data-testid="cleaned-plan-offer">
+          Still working on it, or want it to settle first?{" "}
+          <Link href={`/maintenance?target=neutralizer:${id}&reason=${encodeURIComponent("Bar cleaned; settling")}#plan`} className="font-medium text-brand hover:underline">
+            Plan work on this bar
+          </Link>
+        </p>
+      ) : null}
+    </>
   );
 }
 

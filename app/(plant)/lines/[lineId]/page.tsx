@@ -39,6 +39,7 @@ export default async function LinePage({ params }: { params: Promise<Params> }) 
   if (!found) notFound();
   const settings = await getPlantSettings(getDb());
   const canAddNote = can(session.role, "note.add");
+  const canPlan = can(session.role, "maintenance.plan");
   return (
     <LineDashboard
       area={found.area}
@@ -47,6 +48,7 @@ export default async function LinePage({ params }: { params: Promise<Params> }) 
       canAddNote={canAddNote}
       addNote={canAddNote ? addNote : undefined}
       serverNow={Date.now()}
+      planWorkHref={canPlan ? `/maintenance?target=line:${found.line.id}#plan` : undefined}
     />
   );
 }

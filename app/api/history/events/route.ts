@@ -1,11 +1,13 @@
 // GET /api/history/events?lineId=N&from=ms&to=ms — what belongs on a line's time axis besides
-// the readings: its notes and its alerts (and its hall's humidity alerts) overlapping the range.
+// the readings: its notes and its alerts (and its hall's humidity alerts) overlapping the range,
+// and the planned work (maintenance windows) on the line, its hall, points and bars.
 import { NextResponse } from "next/server";
 import { z } from "zod";
 import { parseOrThrow, queryObject, route } from "@/app/_server/route";
 import { getDb } from "@/db/client";
 import { listLineAlerts } from "@/db/queries/floor";
 import { listLineNotes } from "@/db/queries/notes";
+import { listLineWindows } from "@/db/queries/maintenance-windows";
 import { getPlantLayout } from "@/db/queries/plant";
 import { notFound } from "@/lib/errors";
 
@@ -25,9 +27,10 @@ export const GET = route("view", async ({ request }) => {
   const db = getDb();
   const area = (await getPlantLayout(db)).find((a) => a.lines.some((l) => l.id === q.lineId));
   if (!area) throw notFound(`No line with id ${q.lineId}.`);
-  const [notes, alerts] = await Promise.all([
+  const [notes, alerts, windows] = await Promise.all([
     listLineNotes(db, { lineId: q.lineId, fromTs: q.from, toTs: q.to }),
     listLineAlerts(db, { lineId: q.lineId, areaId: area.id, fromTs: q.from, toTs: q.to }),
+    listLineWindows(db, { lineId: q.lineId, fromTs: q.from, toTs: q.to }),
   ]);
-  return NextResponse.json({ notes, alerts }, { headers: { "Cache-Control": "private, no-store" } });
+  return NextResponse.json({ notes, alerts, windows }, { headers: { "Cache-Control": "private, no-store" } });
 });
