@@ -20,6 +20,8 @@ import { useAlertDetail, useAlerts, type AlertsResponse } from "./use-alerts";
 import { FoundLateMark } from "./found-late-mark";
 import { SHELVE_CHOICES, type AlertFormActions } from "./alert-actions";
 import { AlertCards, usePhoneWidth } from "./alert-cards";
+import { AlertGroupRows } from "./alert-groups";
+import { groupAlertList } from "@/lib/alerts/alert-list-groups";
 
 export type { FormAction, AlertFormActions } from "./alert-actions";
 export type FilterArea = { id: number; name: string; lines: Array<{ id: number; name: string }> };
@@ -81,7 +83,29 @@ export function AlertsBoard({
   const lines = useMemo(() => areas.filter((a) => filters.area === null || a.id === filters.area).flatMap((a) => a.lines), [areas, filters.area]);
   const data = query.data;
   const counts = data?.counts ?? initial.counts;
-  const alerts = data?.alerts ?? [];
+  const alerts = useMemo(() => data?.alerts ?? [], [data]);
+  const entries = useMemo(() => groupAlertList(alerts), [alerts]);
+  const renderAlert = (a: AlertListItem, nested = false) => (
+    <Fragment key={a.id}>
+      <AlertRow
+        a={a}
+        now={now}
+        timeZone={timeZone}
+        canRespond={canRespond}
+        open={openId === a.id}
+        onToggle={() => setOpenId((id) => (id === a.id ? null : a.id))}
+        actions={actions}
+        nested={nested}
+      />
+      {openId === a.id ? (
+        <tr className="border-b border-paper-line bg-paper">
+          <td colSpan={8} className="px-3 py-3">
+            <AlertDetailPanel id={a.id} a={a} timeZone={timeZone} canRespond={canRespond} actions={actions} />
+          </td>
+        </tr>
+      ) : null}
+    </Fragment>
+  );
 
   return (
     <div>
@@ -148,26 +172,14 @@ export function AlertsBoard({
               </tr>
             </thead>
             <tbody>
-              {alerts.map((a) => (
-                <Fragment key={a.id}>
-                  <AlertRow
-                    a={a}
-                    now={now}
-                    timeZone={timeZone}
-                    canRespond={canRespond}
-                    open={openId === a.id}
-                    onToggle={() => setOpenId((id) => (id === a.id ? null : a.id))}
-                    actions={actions}
-                  />
-                  {openId === a.id ? (
-                    <tr className="border-b border-paper-line bg-paper">
-                      <td colSpan={8} className="px-3 py-3">
-                        <AlertDetailPanel id={a.id} a={a} timeZone={timeZone} canRespond={canRespond} actions={actions} />
-                      </td>
-                    </tr>
-                  ) : null}
-                </Fragment>
-              ))}
+              {/* alerts told to on call in one message show as one group */}
+              {entries.map((e) =>
+                e.type === "alert" ? (
+                  renderAlert(e.alert)
+                ) : (
+                  <AlertGroupRows key={e.group.key} group={e.group} timeZone={timeZone} colSpan={8} renderAlert={(a) => renderAlert(a, true)} />
+                ),
+              )}
             </tbody>
           </table>
         </div>
@@ -216,6 +228,7 @@ function AlertRow({
   open,
   onToggle,
   actions,
+  nested,
 }: {
   a: AlertListItem;
   now: number;
@@ -224,6 +237,8 @@ function AlertRow({
   open: boolean;
   onToggle: () => void;
   actions: AlertFormActions;
+  /** one of a storm group's alerts, drawn under its header */
+  nested?: boolean;
 }) {
   const queryClient = useQueryClient();
   const refresh = () => void queryClient.invalidateQueries({ queryKey: ["alerts"] });
@@ -241,7 +256,7 @@ function AlertRow({
       data-state={a.state}
       data-shelved={shelved ? "true" : "false"}
     >
-      <td className="px-3 py-2">
+      <td className={clsx("py-2", nested ? "border-l-4 border-l-paper-line pl-5 pr-3" : "px-3")}>
         <AlertCode kind={a.kind} state={a.state} shelved={shelved} />
       </td>
       <td className="px-2 py-2">
@@ -283,7 +298,7 @@ function AlertRow({
             Shelved until {formatPlantTime(a.shelvedUntilTs, timeZone, "d MMM HH:mm")}
           </div>
         ) : null}
-        {a.notifiedLevel > 0 ? <div className="text-ink-faint">E-mailed on-call (order {a.notifiedLevel})</div> : null}
+        {a.notifiedLevel > 0 ? <div className="text-ink-faint">On-call told (order {a.notifiedLevel})</div> : null}
       </td>
       <td className="whitespace-nowrap px-3 py-2 text-right">
         <div className="flex items-start justify-end gap-1.5">

@@ -1,7 +1,7 @@
 // An alert's chart and who was told (the alert page, the on-call e-mail's chart): the rule
 // version that raised it, the sensor and channel to draw, the hour's readings, and every
 // e-mail, text and push queued for it with its delivery state.
-import { and, asc, eq, like } from "drizzle-orm";
+import { and, asc, eq, like, or } from "drizzle-orm";
 import type { Db } from "../client";
 import { alerts, devices, outbox, people, phoneOutbox, ruleVersions } from "../schema";
 import { getHistory } from "./history";
@@ -88,12 +88,14 @@ export type AlertDelivery = {
 };
 
 /** Every e-mail, text and push queued for an alert, oldest first. */
-export async function listAlertDeliveries(db: Db, alertId: number): Promise<AlertDelivery[]> {
+export async function listAlertDeliveries(db: Db, alertId: number, notifyGroup: string | null = null): Promise<AlertDelivery[]> {
+  // a storm group's messages are keyed by the group (ingest/alerts-notify-send.ts)
+  const groupKey = notifyGroup ? `group:${notifyGroup}:%` : null;
   const mails = await db
     .select({ to: outbox.toAddress, state: outbox.state, createdTs: outbox.createdTs, sentTs: outbox.sentTs, lastError: outbox.lastError, attempts: outbox.attempts, personName: people.name })
     .from(outbox)
     .leftJoin(people, eq(people.email, outbox.toAddress))
-    .where(like(outbox.dedupeKey, `alert:${alertId}:%`))
+    .where(groupKey ? or(like(outbox.dedupeKey, `alert:${alertId}:%`), like(outbox.dedupeKey, groupKey)) : like(outbox.dedupeKey, `alert:${alertId}:%`))
     .orderBy(asc(outbox.createdTs));
   const phones = await db
     .select({
@@ -109,7 +111,7 @@ export async function listAlertDeliveries(db: Db, alertId: number): Promise<Aler
     })
     .from(phoneOutbox)
     .leftJoin(people, eq(people.id, phoneOutbox.personId))
-    .where(eq(phoneOutbox.alertId, alertId))
+    .where(groupKey ? or(eq(phoneOutbox.alertId, alertId), like(phoneOutbox.dedupeKey, groupKey)) : eq(phoneOutbox.alertId, alertId))
     .orderBy(asc(phoneOutbox.createdTs));
   const out: AlertDelivery[] = [
     ...mails.map((m) => ({ channel: "email" as const, personName: m.personName, to: m.to, state: m.state, deliveryStatus: null, createdTs: m.createdTs, sentTs: m.sentTs, lastError: m.lastError, attempts: m.attempts })),

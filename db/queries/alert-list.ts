@@ -36,6 +36,8 @@ const listColumns = {
   ackedByName: people.name,
   ackedTs: alerts.ackedTs,
   notifiedLevel: alerts.notifiedLevel,
+  notifyGroup: alerts.notifyGroup,
+  worsenedTs: alerts.worsenedTs,
   foundLateTs: sql<number | null>`(SELECT lf.found_ts FROM ${lateFindings} AS lf WHERE lf.alert_id = ${alerts.id})`.mapWith((v: unknown) => (v === null || v === undefined ? null : Number(v))),
   foundLateQuiet: sql<boolean | null>`(SELECT lf.quiet FROM ${lateFindings} AS lf WHERE lf.alert_id = ${alerts.id})`.mapWith((v: unknown) => (v === null || v === undefined ? null : Boolean(Number(v)))),
   linkLineId: sql<number | null>`COALESCE(${alerts.lineId}, (SELECT l2.id FROM ${lines} AS l2 WHERE l2.area_id = ${alerts.areaId} ORDER BY l2.display_order, l2.id LIMIT 1))`.mapWith((v: unknown) => (v === null || v === undefined ? null : Number(v))),

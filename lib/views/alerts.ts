@@ -37,6 +37,9 @@ export type AlertListItem = {
   /** found by the re-check of late readings (ingest/late-recheck.ts): when, and whether it paged nobody */
   foundLateTs?: number | null;
   foundLateQuiet?: boolean | null;
+  /** the storm group it was told to on call in (alerts sent together share it), and when it last got worse */
+  notifyGroup?: string | null;
+  worsenedTs?: number | null;
 };
 
 export type AlertEvent = { id: number; ts: number; kind: string; personId: number | null; personName: string | null; comment: string | null; value: string | null };

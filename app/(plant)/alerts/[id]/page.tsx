@@ -8,6 +8,8 @@ import { z } from "zod";
 import { notFound, requirePagePermission } from "@/app/_server/session";
 import { getDb } from "@/db/client";
 import { getAlertDetail } from "@/db/queries/alert-list";
+import { listNotifyGroupAlerts } from "@/db/queries/alert-notify-group";
+import { groupAlertList, groupSpanText } from "@/lib/alerts/alert-list-groups";
 import { getAlertChartSpec, listAlertDeliveries, loadChartPoints } from "@/db/queries/alert-chart";
 import { getPlantSettings } from "@/db/queries/equipment";
 import { AlertCode, SeverityTag } from "@/components/alerts/alert-bits";
@@ -34,8 +36,10 @@ export default async function AlertPage({ params }: { params: Promise<{ id: stri
   if (!id.success) notFound();
   const db = getDb();
   const now = Date.now();
-  const [a, info, deliveries, plant] = await Promise.all([getAlertDetail(db, id.data), getAlertChartSpec(db, id.data, now), listAlertDeliveries(db, id.data), getPlantSettings(db)]);
+  const [a, info, plant] = await Promise.all([getAlertDetail(db, id.data), getAlertChartSpec(db, id.data, now), getPlantSettings(db)]);
   if (!a) notFound();
+  const [deliveries, groupAlerts] = await Promise.all([listAlertDeliveries(db, a.id, a.notifyGroup ?? null), listNotifyGroupAlerts(db, a.notifyGroup)]);
+  const group = groupAlertList(groupAlerts).find((e) => e.type === "group");
   const tz = plant.timeZone;
   const spec = info?.spec ?? null;
   const points = spec ? await loadChartPoints(db, spec) : [];
@@ -81,6 +85,32 @@ export default async function AlertPage({ params }: { params: Promise<{ id: stri
           {shelved && a.shelvedUntilTs !== null ? ` · shelved until ${formatPlantTime(a.shelvedUntilTs, tz, "d MMM HH:mm")}` : ""}
         </p>
       </header>
+
+      {group?.type === "group" ? (
+        <section className="rounded-card border border-paper-line bg-paper-sunk p-3" aria-labelledby="group-h" data-testid="alert-sent-together">
+          <h2 id="group-h" className="text-sm font-semibold text-ink">
+            Sent together with {group.group.alerts.length - 1} other alert{group.group.alerts.length === 2 ? "" : "s"}
+          </h2>
+          <p className="mt-0.5 text-sm text-ink-soft">
+            On call got one message for this storm: “{group.group.title}” <span className="num">({groupSpanText(group.group, tz)})</span>
+          </p>
+          <ul className="mt-2 space-y-1.5 text-sm">
+            {group.group.alerts
+              .filter((m) => m.id !== a.id)
+              .map((m) => (
+                <li key={m.id} className="flex flex-wrap items-center gap-x-2 gap-y-0.5">
+                  <AlertCode kind={m.kind} state={m.state} shelved={m.shelvedUntilTs !== null && m.shelvedUntilTs > now} />
+                  <Link href={`/alerts/${m.id}`} className="min-w-0 break-words text-brand underline-offset-2 hover:underline">
+                    {RULE_KIND_WORDS[m.kind]} — {[m.lineName, m.pointName].filter(Boolean).join(" › ") || m.areaName || m.subjectKey}
+                  </Link>
+                  <span className="num text-xs text-ink-soft">
+                    {formatPlantTime(m.startTs, tz, "HH:mm")} · peak {formatAlertValue(m.kind, m.peakValue)}
+                  </span>
+                </li>
+              ))}
+          </ul>
+        </section>
+      ) : null}
 
       <section className="rounded-card border border-paper-line bg-paper-raised p-3" aria-labelledby="chart-h">
         <h2 id="chart-h" className="mb-2 text-sm font-semibold text-ink">
