@@ -62,17 +62,20 @@ module.exports = {
       comment:
         "Simulators stand in for devices, so they speak MQTT and use lib/ contracts only. The " +
         "backfill alone may write through the ingest writer (and the db client it needs), with no SQL of its own.",
-      from: { path: "^simulators/", pathNot: "^simulators/backfill[.]ts$" },
+      from: { path: "^simulators/", pathNot: "^simulators/backfill(-alert-writer)?[.]ts$" },
       to: { path: "^(components|db|ingest|scripts|tests)/" },
     },
     {
       name: "backfill-only-ingest-writer",
       severity: "error",
-      comment: "The backfill reuses the ingest writer; it does not query tables itself.",
-      from: { path: "^simulators/backfill[.]ts$" },
+      comment:
+        "The backfill reuses the ingest writer, and for its alerts the live runner's rule and plant loaders and the " +
+        "history writers of db/seed-*; it does not query tables itself.",
+      from: { path: "^simulators/backfill(-alert-writer)?[.]ts$" },
       to: {
         path: "^(components|db|ingest|scripts|tests)/",
-        pathNot: "^(ingest/writer[.]ts|db/queries/readings-write[.]ts|db/client[.]ts|db/env[.]ts)$",
+        pathNot:
+          "^(ingest/writer[.]ts|db/queries/readings-write[.]ts|db/queries/rule-rows[.]ts|db/queries/topology[.]ts|db/seed-alert-history[.]ts|db/seed-equipment-history[.]ts|db/client[.]ts|db/env[.]ts)$",
       },
     },
     {

@@ -4,6 +4,10 @@
 // second run over the same span changes nothing. It resumes where the stored history ends.
 // Raw rows are kept only within the raw retention (RAW_RETENTION_DAYS); older history goes to
 // the rollups only, as whole hours written with INSERT IGNORE (a bucket is complete or absent).
+// While each chunk is written, the rules play over it in reading time through the worker's alert
+// pipeline, and the alerts (already answered by the demo people, never e-mailed) are stored
+// (simulators/backfill-alert-writer.ts); the first full run also records a few months of
+// cleanings and charged-plate checks (db/seed-equipment-history.ts).
 //
 //   tsx simulators/backfill.ts --days 30     (npm run demo does this on its first run)
 // Options (or env): --days (SIM_BACKFILL_DAYS, 7); --full-rate-hours (SIM_FULL_RATE_HOURS, 24):
@@ -12,13 +16,14 @@
 // written in about a minute (--thin 1 for the full rate); --rollup-thin (30): history older
 // than the retention, which only feeds the rollups; --seed (SIM_SEED, 7); --anchor <epoch ms>
 // (SIM_ANCHOR_MS): the scenario anchor, by default the one stored at the first run in
-// DATA_DIR/sim-anchor-<DB_NAME>.json (else now), shared with simulators/plant.ts.
+// DATA_DIR/sim-anchor-<DB_NAME>.json (else now), shared with simulators/plant.ts; --no-alerts:
+// readings only.
 import fs from "node:fs";
 import path from "node:path";
 import { parseArgs } from "node:util";
 import type mysql from "mysql2/promise";
 import { z } from "zod";
-import { closeDb, getDb, getPool } from "../db/client";
+import { closeDb, getDb, getPool, type Db } from "../db/client";
 import { getEnv } from "../db/env";
 import {
   aggregateRollups,
@@ -30,9 +35,11 @@ import {
   writeRollups,
   type ReadingRow,
 } from "../db/queries/readings-write";
+import { seedDemoEquipmentHistory } from "../db/seed-equipment-history";
 import { CHANNELS } from "../lib/contract/readings-payload";
 import { getSettings } from "../lib/settings";
 import { PlantModel, SAMPLE_PERIOD_MS, type SimDevice } from "./plant-model";
+import { createHistoryAlertWriter } from "./backfill-alert-writer";
 import { DAY_MS as DAY } from "../lib/vocabulary/time";
 
 const RAW_CHUNK_MS = 10 * MINUTE_MS;
@@ -52,18 +59,25 @@ export type BackfillOptions = {
   fullRateFromMs?: number;
   /** every n-th sample for the history that only feeds the rollups (default: thin) */
   rollupOnlyThin?: number;
+  /**
+   * No device's thinned samples further apart than this (default: no bound). With alerts played,
+   * half the shortest sensor-silence time, so thinning never looks like a silent sensor.
+   */
+  maxPeriodMs?: number;
+  /** Every chunk's rows of all devices (chunks in time order, rows in no order) while they are written. */
+  onRows?: (rows: ReadingRow[], chunkEndMs: number) => Promise<void>;
   onProgress?: (doneMs: number, rows: number) => void;
 };
 
 export type BackfillReport = { rawRows: number; rollupOnlyRows: number; duplicates: number; ms: number };
 
 /** All samples of all devices in [fromMs, toMs), on each device's sample grid. */
-export function generateRows(model: PlantModel, devices: readonly SimDevice[], ids: ReadonlyMap<string, number>, fromMs: number, toMs: number, thin = 1): ReadingRow[] {
+export function generateRows(model: PlantModel, devices: readonly SimDevice[], ids: ReadonlyMap<string, number>, fromMs: number, toMs: number, thin = 1, maxPeriodMs = Infinity): ReadingRow[] {
   const rows: ReadingRow[] = [];
   for (const d of devices) {
     const id = ids.get(d.code);
     if (id === undefined) continue;
-    const period = SAMPLE_PERIOD_MS[d.kind] * thin;
+    const period = Math.max(SAMPLE_PERIOD_MS[d.kind], Math.min(SAMPLE_PERIOD_MS[d.kind] * thin, maxPeriodMs));
     for (let t = Math.ceil(fromMs / period) * period; t < toMs; t += period) {
       const values = model.valuesAt(d, t);
       if (!values) continue;
@@ -89,14 +103,15 @@ export async function backfill(opts: BackfillOptions): Promise<BackfillReport> {
   const rawFrom = Math.max(opts.fromMs, Math.ceil(opts.rawFromMs / HOUR_MS) * HOUR_MS);
   for (let h = Math.floor(opts.fromMs / HOUR_MS) * HOUR_MS; h < rawFrom && h < opts.toMs; h += HOUR_MS) {
     const end = Math.min(h + HOUR_MS, rawFrom);
-    await Promise.all(
-      groups.map(async (g) => {
-        const rows = generateRows(model, g, deviceIds, Math.max(h, opts.fromMs), end, Math.max(1, Math.floor(opts.rollupOnlyThin ?? thin)));
+    const parts = groups.map((g) => generateRows(model, g, deviceIds, Math.max(h, opts.fromMs), end, Math.max(1, Math.floor(opts.rollupOnlyThin ?? thin)), opts.maxPeriodMs));
+    await Promise.all([
+      ...parts.map(async (rows) => {
         await writeRollups(opts.pool, "rollup_1m", aggregateRollups(rows, MINUTE_MS), "complete");
         await writeRollups(opts.pool, "rollup_1h", aggregateRollups(rows, HOUR_MS), "complete");
         report.rollupOnlyRows += rows.length;
       }),
-    );
+      opts.onRows?.(parts.flat(), end),
+    ]);
     opts.onProgress?.(end, report.rawRows + report.rollupOnlyRows);
   }
 
@@ -106,7 +121,7 @@ export async function backfill(opts: BackfillOptions): Promise<BackfillReport> {
   for (let c = Math.max(rawFrom, opts.fromMs); c < opts.toMs; c += RAW_CHUNK_MS) {
     const end = Math.min(c + RAW_CHUNK_MS, opts.toMs);
     const chunkThin = opts.fullRateFromMs !== undefined && c >= opts.fullRateFromMs ? 1 : thin;
-    const parts = groups.map((g) => generateRows(model, g, deviceIds, c, end, chunkThin));
+    const parts = groups.map((g) => generateRows(model, g, deviceIds, c, end, chunkThin, opts.maxPeriodMs));
     await pending;
     pending = Promise.all(
       parts.map(async (rows) => {
@@ -115,6 +130,8 @@ export async function backfill(opts: BackfillOptions): Promise<BackfillReport> {
         report.duplicates += res.duplicates;
       }),
     ).then(() => opts.onProgress?.(end, report.rawRows + report.rollupOnlyRows));
+    // the rules play this chunk while the database stores it
+    if (opts.onRows) await opts.onRows(parts.flat(), end);
   }
   await pending;
   report.ms = Math.round(performance.now() - started);
@@ -145,19 +162,34 @@ export async function closeHistoryWriter(): Promise<void> {
   await closeDb();
 }
 
-export type HistoryOptions = { days: number; thin: number; fullRateHours: number; rollupThin: number; codes?: string[] };
+export type HistoryOptions = {
+  days: number;
+  thin: number;
+  fullRateHours: number;
+  rollupThin: number;
+  codes?: string[];
+  /** Play the rules over the history and store its alerts (default on; only when every watched sensor is written). */
+  alerts?: boolean;
+};
 
 /**
  * Writes the missing part of the last `days` days of history for the demo devices: from where
  * the stored history ends (the last minute is rewritten; writes are idempotent) up to now.
+ * Plays the rules over it and stores the alerts, when it writes every sensor the rules watch.
  * Returns the end of the history written (where live play should continue).
  */
-export async function writeHistory(model: PlantModel, opts: HistoryOptions, log: (msg: string) => void): Promise<number> {
+export async function writeHistory(
+  model: PlantModel,
+  opts: HistoryOptions,
+  log: (msg: string) => void,
+  /** where and up to when (tests): by default this process's database, up to now */
+  target: { db: Db; pool: mysql.Pool; toMs?: number } = { db: getDb(), pool: getPool() },
+): Promise<number> {
   const env = getEnv();
-  const db = getDb();
+  const { db } = target;
   const codes = opts.codes ?? model.devices.map((d) => d.code);
   const ids = await deviceIdsByCode(db, codes);
-  const toMs = Math.floor(Date.now() / 1000) * 1000;
+  const toMs = Math.floor((target.toMs ?? Date.now()) / 1000) * 1000;
   if (ids.size === 0) {
     log("no demo devices in the database (run the seed first); no history written");
     return toMs;
@@ -168,9 +200,13 @@ export async function writeHistory(model: PlantModel, opts: HistoryOptions, log:
     return toMs;
   }
   log(`writing ${((toMs - fromMs) / 3_600_000).toFixed(1)} h of history (${new Date(fromMs).toISOString()} → now)`);
+  // the rules play over the history as it is written (simulators/backfill-alert-writer.ts)
+  const alertWriter = opts.alerts === false ? { skipped: "switched off" } : await createHistoryAlertWriter(db, { fromMs, toMs, codes: [...ids.keys()] });
+  const alertsOn = "skipped" in alertWriter ? null : alertWriter;
+  if ("skipped" in alertWriter) log(`alerts not played over the history: ${alertWriter.skipped}`);
   let lastReport = Date.now();
   const report = await backfill({
-    pool: getPool(),
+    pool: target.pool,
     model,
     deviceIds: ids,
     fromMs,
@@ -180,6 +216,7 @@ export async function writeHistory(model: PlantModel, opts: HistoryOptions, log:
     thin: opts.thin,
     fullRateFromMs: toMs - opts.fullRateHours * 3_600_000,
     rollupOnlyThin: opts.rollupThin,
+    ...(alertsOn ? { maxPeriodMs: alertsOn.maxPeriodMs, onRows: alertsOn.onRows } : {}),
     onProgress: (doneMs, n) => {
       if (Date.now() - lastReport > 10_000) {
         lastReport = Date.now();
@@ -191,6 +228,16 @@ export async function writeHistory(model: PlantModel, opts: HistoryOptions, log:
     `history written: ${report.rawRows} raw readings, ${report.rollupOnlyRows} older ones into the rollups only, ` +
       `${report.duplicates} already there, ${(report.ms / 1000).toFixed(1)} s`,
   );
+  if (alertsOn) {
+    const a = await alertsOn.finish();
+    log(
+      `alerts played over the history: ${a.readings} readings through the rules in ${(a.engineMs / 1000).toFixed(1)} s ` +
+        `(${Math.round(a.readings / Math.max(0.001, a.engineMs / 1000))} readings/s), ${a.alerts} alerts with ${a.events} events stored ` +
+        `in ${(a.storeMs / 1000).toFixed(1)} s${a.alreadyStored ? `, ${a.alreadyStored} already there` : ""}`,
+    );
+    const eq = await seedDemoEquipmentHistory(db, toMs);
+    if (eq.seeded) log(`maintenance history: ${eq.checks} charged-plate checks, ${eq.cleanings} cleanings`);
+  }
   return toMs;
 }
 
@@ -212,6 +259,7 @@ async function main(): Promise<void> {
       "rollup-thin": { type: "string" },
       seed: { type: "string" },
       anchor: { type: "string" },
+      "no-alerts": { type: "boolean" },
     },
     strict: true,
   });
@@ -230,7 +278,7 @@ async function main(): Promise<void> {
   const log = (msg: string) => process.stdout.write(`${new Date().toISOString()} backfill: ${msg}\n`);
   const anchorMs = resolveAnchor(o.anchor, env.DATA_DIR, env.DB_NAME);
   log(`scenario anchor ${new Date(anchorMs).toISOString()}, seed ${o.seed}`);
-  await writeHistory(new PlantModel({ anchorMs, seed: o.seed }), o, log);
+  await writeHistory(new PlantModel({ anchorMs, seed: o.seed }), { ...o, alerts: values["no-alerts"] !== true }, log);
 }
 
 const isMain = process.argv[1] && path.resolve(process.argv[1]) === path.resolve(import.meta.filename);
