@@ -74,13 +74,13 @@ function AlertCard({ a, now, timeZone, canRespond, actions, refresh }: { a: Aler
         </span>
         <span className="mt-0.5 block break-words text-sm text-ink-soft">{a.message}</span>
       </Link>
-      <dl className="num mt-2 grid grid-cols-2 gap-x-3 gap-y-0.5 text-xs text-ink-soft">
+      <dl className="num mt-2 grid grid-cols-[1fr_auto] gap-x-3 gap-y-0.5 text-xs text-ink-soft">
         <dt className="sr-only">Since</dt>
         <dd>
           {formatPlantTime(a.startTs, timeZone, "d MMM HH:mm")} · {endTs !== null ? `lasted ${formatDuration(endTs - a.startTs)}` : `for ${formatDuration(now - a.startTs)}`}
         </dd>
         <dt className="sr-only">Peak</dt>
-        <dd className="text-right">Peak {formatAlertValue(a.kind, a.peakValue)}</dd>
+        <dd className="whitespace-nowrap text-right">Peak {formatAlertValue(a.kind, a.peakValue)}</dd>
         <dt className="sr-only">Status</dt>
         <dd className="col-span-2">
           {ALERT_STATE_SHORT[a.state]}

@@ -20,7 +20,8 @@ function Chevron({ open }: { open: boolean }) {
   );
 }
 
-function GroupSummary({ g, open, timeZone }: { g: AlertListGroup; open: boolean; timeZone: string }) {
+/** `stacked`: on a phone the severity and the count go under the title, which then keeps the card's width. */
+function GroupSummary({ g, open, timeZone, stacked = false }: { g: AlertListGroup; open: boolean; timeZone: string; stacked?: boolean }) {
   return (
     <>
       <span className="flex min-w-0 items-start gap-2">
@@ -35,7 +36,7 @@ function GroupSummary({ g, open, timeZone }: { g: AlertListGroup; open: boolean;
           <span className="num block text-xs text-ink-soft">{groupSpanText(g, timeZone)}</span>
         </span>
       </span>
-      <span className="flex shrink-0 flex-col items-end gap-1 text-xs">
+      <span className={clsx("flex shrink-0 text-xs", stacked ? "flex-row items-center gap-3 pl-5" : "flex-col items-end gap-1")}>
         <SeverityTag severity={worstSeverity(g)} />
         <span className={clsx("num", g.unacked > 0 ? "font-semibold text-ink" : "text-ink-faint")}>{g.unacked > 0 ? `${g.unacked} not acknowledged` : "all acknowledged"}</span>
       </span>
@@ -65,10 +66,10 @@ export function AlertGroupCard({ group, timeZone, children }: { group: AlertList
   const [open, setOpen] = useState(false);
   return (
     <li className={clsx("rounded-card border bg-paper-sunk p-3", group.unacked > 0 ? "border-ink-soft" : "border-paper-line")} data-testid="alert-group" data-group-key={group.key} data-count={group.alerts.length}>
-      <button type="button" onClick={() => setOpen((o) => !o)} aria-expanded={open} className="flex w-full items-start justify-between gap-3 text-left" data-testid="alert-group-toggle">
-        <GroupSummary g={group} open={open} timeZone={timeZone} />
+      <button type="button" onClick={() => setOpen((o) => !o)} aria-expanded={open} className="flex w-full flex-col gap-1.5 text-left" data-testid="alert-group-toggle">
+        <GroupSummary g={group} open={open} timeZone={timeZone} stacked />
       </button>
-      {open ? <ul className="mt-3 space-y-2">{children}</ul> : null}
+      {open ? <ul className="-mx-1.5 mt-3 space-y-2">{children}</ul> : null}
     </li>
   );
 }
