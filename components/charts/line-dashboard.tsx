@@ -36,6 +36,7 @@ import { ClimatePanel } from "./climate-panel";
 import { SpeedPanel } from "./speed-panel";
 import type { SeriesData } from "./panel-common";
 import { LineNotesPanel, OpenAlertsPanel, SidePanel } from "./line-side-panels";
+import { PlannedWorkList } from "./planned-work-list";
 
 type Props = {
   area: FloorArea;
@@ -263,6 +264,7 @@ function LineDashboardInner({ area, line, settings, canAddNote, addNote, serverN
 
       <div className="grid gap-4 xl:grid-cols-[minmax(0,1fr)_19rem]">
         <div className="space-y-2" data-testid="line-charts">
+          <PlannedWorkList windows={(events.data?.windows ?? []).filter((w) => w.endTs > view[0] && w.startTs < view[1])} now={now} timeZone={tz} />
           {lv.points.map((pv, i) => {
             const p = pv.point;
             const fm = p.fieldMeter;

@@ -201,7 +201,10 @@ export function TimeChart(props: TimeChartProps) {
                 const x1 = Math.max(left, u.valToPos(s.from, "x", true));
                 const x2 = Math.min(left + width, u.valToPos(s.to, "x", true));
                 if (x2 - x1 < 24 * dpr()) continue;
-                const text = fitText(ctx, s.label, x2 - x1 - 8 * dpr());
+                ctx.textAlign = "left";
+                // the whole label if it fits, else the bare words "Planned work" (the list above the charts names it)
+                const room = x2 - x1 - 8 * dpr();
+                const text = ctx.measureText(s.label).width <= room ? s.label : fitText(ctx, "Planned work", room);
                 const tw = ctx.measureText(text).width + 6 * dpr();
                 ctx.fillStyle = withAlpha(c.paperSunk, 0.92);
                 ctx.fillRect(x1 + 2 * dpr(), top + height - 15 * dpr(), tw, 13 * dpr());

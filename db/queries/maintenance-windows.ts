@@ -164,12 +164,13 @@ export type OpenWindow = {
 
 /** Opens a window (now or later). Longer than 12 h only with a reason, never longer than a week. */
 export async function openMaintenanceWindow(db: Db, w: OpenWindow, createdBy: number, nowMs: number): Promise<number> {
-  // a minute of slack: a form filled in at 14:02 with start "14:02" is "now"
-  if (w.startTs < nowMs - 60_000) throw badInput("A window starts now or later.", { startTs: ["Start now or later; past work is a line note"] });
+  // slack for a form left open: one filled in at 14:02 with start "14:02" and sent at 14:10 still means "now"
+  if (w.startTs < nowMs - 15 * 60_000) throw badInput("A window starts now or later.", { startTs: ["Start now or later; past work is a line note"] });
   if (w.endTs <= w.startTs) throw badInput("The end must be after the start.", { endTs: ["The end must be after the start"] });
   if (w.endTs - w.startTs > LONGEST_WINDOW_MS) throw badInput("A window cannot run longer than a week.", { endTs: ["At most a week; shelve or disable the rule instead"] });
   if (w.endTs - w.startTs > MAX_WINDOW_MS && !w.extendReason) {
-    throw badInput(`Longer than ${MAX_WINDOW_MS / 3_600_000} h needs a reason.`, { extendReason: [`Say why it needs more than ${MAX_WINDOW_MS / 3_600_000} h`] });
+    const h = MAX_WINDOW_MS / 3_600_000;
+    throw badInput(`Longer than ${h} h needs a reason.`, { endTs: [`More than ${h} h: tick “It needs longer than ${h} h” and say why`], extendReason: [`Say why it needs more than ${h} h`] });
   }
   const names = await loadPlaceNames(db);
   const target = describeTarget(names, w.targetKind, w.targetId);

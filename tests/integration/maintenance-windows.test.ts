@@ -11,6 +11,7 @@ import { listNotifyCandidates } from "@/db/queries/alert-notify-candidates";
 import { heldByWindowValue, runMaintenanceRound } from "@/db/queries/maintenance-round";
 import { loadPlantTopology, type AlertSubject } from "@/db/queries/topology";
 import { runEscalation } from "@/ingest/alerts-escalation";
+import { buildHandoverForWindow } from "@/db/use-cases/handover-report";
 
 const MIN = 60_000;
 const HOUR = 60 * MIN;
@@ -99,6 +100,14 @@ describe("maintenance windows", () => {
     expect(after.summarizedTs).toBe(t0 + 2 * HOUR + MIN);
     expect(after.summary).toContain("Cleaning bars at the unwind");
     expect(after.summary).toContain("2 alerts were recorded without notice, 1 cleared by its end; 1 still active");
+
+    // the handover of a shift overlapping it lists it, with owner, reason and summary
+    const shift = { name: "Test", index: 0, date: "2026-01-01", startTs: t0 - HOUR, endTs: t0 + 7 * HOUR, timeZone: "Europe/London" };
+    const handover = await buildHandoverForWindow(tdb.db, shift, "Harrow Fen Packaging", t0 + 3 * HOUR);
+    const listed = handover.maintenance?.find((m) => m.id === windowId);
+    expect(listed).toMatchObject({ reason: "Cleaning bars at the unwind", ownerName: expect.any(String), summary: after.summary, targetName: expect.any(String) });
+    const outsideShift = await buildHandoverForWindow(tdb.db, { ...shift, startTs: t0 + 3 * HOUR, endTs: t0 + 11 * HOUR }, "Harrow Fen Packaging", t0 + 12 * HOUR);
+    expect(outsideShift.maintenance?.some((m) => m.id === windowId)).toBe(false);
   });
 
   it("a bar's window holds the alerts of the point it serves, not those of the line's other points; ending it early lets them through", async () => {

@@ -8,7 +8,7 @@ import { getDb } from "@/db/client";
 import { listMaintenanceTargets, listMaintenanceWindows } from "@/db/queries/maintenance-windows";
 import { listRosterPeople } from "@/db/queries/oncall";
 import { getPlantSettings } from "@/db/queries/plant-settings";
-import { Card, EmptyState, Forbidden, PageHeader } from "@/components/ui/page";
+import { Card, Forbidden, PageHeader } from "@/components/ui/page";
 import { MAX_WINDOW_MS } from "@/lib/alerts/maintenance-windows";
 import { can } from "@/lib/permissions";
 import { formatDuration } from "@/lib/vocabulary";
@@ -46,7 +46,7 @@ export default async function MaintenancePage({ searchParams }: { searchParams: 
   const first = (v: string | string[] | undefined) => (Array.isArray(v) ? v[0] : v) ?? "";
   const wanted = first(sp.target);
   const defaultTarget = targets.some((g) => g.options.some((o) => o.value === wanted)) ? wanted : "";
-  const startMs = Math.ceil(nowMs / 60_000) * 60_000;
+  const startMs = Math.floor(nowMs / 60_000) * 60_000;
   const maxHours = MAX_WINDOW_MS / 3_600_000;
 
   return (
@@ -91,7 +91,7 @@ function WindowSection({ title, empty, windows, nowMs, tz, canPlan, testId }: { 
   return (
     <Card title={`${title} (${windows.length})`}>
       {windows.length === 0 ? (
-        <EmptyState title={empty} />
+        <p className="text-sm text-ink-faint">{empty}</p>
       ) : (
         <ul className="divide-y divide-paper-line" data-testid={testId}>
           {windows.map((w) => (
@@ -110,7 +110,7 @@ function WindowRow({ w, nowMs, tz, canPlan }: { w: MaintenanceWindowView; nowMs:
   const when = (ts: number) => formatPlantTime(ts, tz, "EEE d MMM HH:mm");
   return (
     <li className="py-3 first:pt-0 last:pb-0" data-testid="maint-window" data-window-id={w.id} data-status={status}>
-      <div className="flex flex-wrap items-start justify-between gap-x-3 gap-y-2">
+      <div className="flex flex-col gap-2 sm:flex-row sm:items-start sm:justify-between sm:gap-3">
         <div className="min-w-0 flex-1">
           <p className="flex flex-wrap items-center gap-x-2 gap-y-1">
             <StatusMark status={status} />

@@ -56,7 +56,7 @@ export function OpenWindowForm({
       <Field label="What is being done" name="reason">
         <input name="reason" className={inputClass} maxLength={300} required minLength={3} defaultValue={defaultReason} placeholder="e.g. cleaning the bars at the unwind" />
       </Field>
-      <div className="grid grid-cols-1 gap-3 sm:grid-cols-2">
+      <div className="grid grid-cols-1 gap-3">
         <Field label="Start (plant time)" name="startTs" hint="Now or later.">
           <input name="startTs" type="datetime-local" className={inputClass} defaultValue={defaultStart} required />
         </Field>
