@@ -14,7 +14,7 @@ import { getAlertingSettings, listOnCallAt, type AlertingSettings } from "../db/
 import type { AlertSubject } from "../db/queries/topology";
 import { SEVERITY_RANK, type Severity } from "../lib/vocabulary";
 import { firstDueTs, nextStep, planGroupMessages, type PendingNotifyItem } from "../lib/alerts/notification-groups";
-import { sendPlannedMessage } from "./alerts-notify-send";
+import { sendPlannedMessage, toldAgainTs } from "./alerts-notify-send";
 
 export function severitiesAtOrAbove(min: Severity): Severity[] {
   return (["low", "medium", "high"] as const).filter((s) => SEVERITY_RANK[s] >= SEVERITY_RANK[min]);
@@ -36,11 +36,12 @@ export function planNotification(
   return nextStep(firstDueTs(alert, settings.notifyAfterS), alert.notifiedLevel, orders, settings.escalateAfterS, nowMs);
 }
 
-/** A candidate as the grouping sees it: its time is when it was raised, or when it got worse. */
+/** A candidate as the grouping sees it: its time is when it was raised, or when it got worse after on call was told. */
 export function toPendingItem(a: NotifyCandidate, notifyAfterS: number): PendingNotifyItem {
+  const worse = toldAgainTs(a);
   return {
     alertId: a.id,
-    ts: a.worsenedTs ?? a.startTs,
+    ts: worse ?? a.startTs,
     kind: a.kind,
     severity: a.severity,
     areaId: a.areaId,
@@ -50,7 +51,7 @@ export function toPendingItem(a: NotifyCandidate, notifyAfterS: number): Pending
     pointName: a.pointName,
     value: a.peakValue,
     message: a.message,
-    worsened: a.worsenedTs !== null,
+    worsened: worse !== null,
     notifiedLevel: a.notifiedLevel,
     notifyGroup: a.notifyGroup,
     dueTs: firstDueTs(a, notifyAfterS),

@@ -21,6 +21,11 @@ import { RULE_KIND_WORDS, SEVERITY_RANK, SEVERITY_WORDS, formatAlertValue, type 
 import { composeAlertEmail, type AlertMailInput } from "../lib/mail/alert-emails";
 import { composeGroupEmail, composeGroupPhoneText, type GroupMailItem } from "../lib/mail/alert-group-emails";
 
+/** The time it got worse, when on call is to be told again (it was told of it before); else null. */
+export function toldAgainTs(a: Pick<NotifyCandidate, "worsenedTs" | "toldBefore">): number | null {
+  return a.toldBefore ? a.worsenedTs : null;
+}
+
 export type SendOptions = { appUrl: string; timeZone: string; subjects: ReadonlyMap<string, AlertSubject> };
 
 function mailInput(a: NotifyCandidate, subject: AlertSubject | undefined): AlertMailInput {
@@ -69,7 +74,8 @@ export async function sendPlannedMessage(db: Db, plan: PlannedGroupMessage, byId
     if (told.length === 1) {
       // a lone alert: its own e-mail; told again after it got worse, under a new key
       const a = first;
-      const worse = a.worsenedTs !== null ? `:w${a.worsenedTs}` : "";
+      const worseTs = toldAgainTs(a);
+      const worse = worseTs !== null ? `:w${worseTs}` : "";
       const subject = opts.subjects.get(a.subjectKey);
       for (const r of recipients) {
         const mail = composeAlertEmail(mailInput(a, subject), {
@@ -78,19 +84,19 @@ export async function sendPlannedMessage(db: Db, plan: PlannedGroupMessage, byId
           appUrl: opts.appUrl,
           timeZone: opts.timeZone,
           nowMs,
-          unackedForMs: nowMs - (a.worsenedTs ?? a.startTs),
+          unackedForMs: nowMs - (worseTs ?? a.startTs),
           chart,
-          worsenedTs: a.worsenedTs,
+          worsenedTs: worseTs,
         });
         await enqueueMail(tx, { dedupeKey: `alert:${a.id}${worse}:order:${plan.order}:person:${r.personId}`, toAddress: r.personEmail, subject: mail.subject, bodyText: mail.text, bodyHtml: mail.html, chart: spec }, nowMs);
         names.push(`${r.personName} <${r.personEmail}>`);
       }
       const where = subject?.where ?? ([a.areaName, a.lineName, a.pointName].filter(Boolean).join(" › ") || "the plant");
-      title = `${a.worsenedTs !== null ? "Worse: " : ""}${plan.order > 1 ? "Escalated: " : ""}${RULE_KIND_WORDS[a.kind]} — ${where}`;
-      const body = a.worsenedTs !== null ? `Now ${SEVERITY_WORDS[a.severity].toLowerCase()}, peak ${formatAlertValue(a.kind, a.peakValue)}. ${a.message}` : a.message;
+      title = `${worseTs !== null ? "Worse: " : ""}${plan.order > 1 ? "Escalated: " : ""}${RULE_KIND_WORDS[a.kind]} — ${where}`;
+      const body = worseTs !== null ? `Now ${SEVERITY_WORDS[a.severity].toLowerCase()}, peak ${formatAlertValue(a.kind, a.peakValue)}. ${a.message}` : a.message;
       phone = { title, body, url: `${base}/alerts/${a.id}`, alertId: a.id, prefix: `alert:${a.id}${worse}:order:${plan.order}` };
     } else {
-      const items: GroupMailItem[] = told.map((a) => ({ ...mailInput(a, opts.subjects.get(a.subjectKey)), worsenedTs: a.worsenedTs }));
+      const items: GroupMailItem[] = told.map((a) => ({ ...mailInput(a, opts.subjects.get(a.subjectKey)), worsenedTs: toldAgainTs(a) }));
       title = groupTitle(first.areaName, plan.group.items.filter((i) => told.some((a) => a.id === i.alertId)));
       const g = { title, severity, items };
       for (const r of recipients) {
@@ -116,7 +122,7 @@ export async function sendPlannedMessage(db: Db, plan: PlannedGroupMessage, byId
         ts: nowMs,
         kind: a.notifiedLevel === 0 ? "notified" : "escalated",
         personId: null,
-        comment: `${a.worsenedTs !== null && a.notifiedLevel === 0 ? "Told again, worse. " : ""}${sentTo}${together}`.slice(0, 2000),
+        comment: `${toldAgainTs(a) !== null && a.notifiedLevel === 0 ? "Told again, worse. " : ""}${sentTo}${together}`.slice(0, 2000),
         value: String(plan.order),
       });
     }

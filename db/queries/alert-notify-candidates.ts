@@ -1,7 +1,7 @@
 // Alerts that may need an e-mail to the on-call person (ingest/alerts-escalation.ts).
-import { and, asc, eq, inArray, isNull, lte, not, or } from "drizzle-orm";
+import { and, asc, eq, inArray, isNull, lte, not, or, sql } from "drizzle-orm";
 import type { Db } from "../client";
-import { alerts, areas, lines, points } from "../schema";
+import { alertEvents, alerts, areas, lines, points } from "../schema";
 import type { RuleKind, Severity } from "../../lib/vocabulary";
 import { explainedByActiveWindow } from "./maintenance-windows";
 
@@ -21,6 +21,8 @@ export type NotifyCandidate = {
   notifiedLevel: number;
   worsenedTs: number | null;
   notifyGroup: string | null;
+  /** on call was told of it before (a "notified" event): a worse alert is then told again as "Worse:" */
+  toldBefore: boolean;
   areaName: string | null;
   lineName: string | null;
   pointName: string | null;
@@ -45,6 +47,7 @@ export async function listNotifyCandidates(db: Db, severities: Severity[], start
       notifiedLevel: alerts.notifiedLevel,
       worsenedTs: alerts.worsenedTs,
       notifyGroup: alerts.notifyGroup,
+      toldBefore: sql<boolean>`EXISTS (SELECT 1 FROM ${alertEvents} AS told WHERE told.alert_id = ${alerts.id} AND told.kind = 'notified')`.mapWith((v: unknown) => Boolean(Number(v))),
       areaName: areas.name,
       lineName: lines.name,
       pointName: points.name,

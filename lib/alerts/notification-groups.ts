@@ -124,9 +124,14 @@ export type PendingNotifyItem = NotifyItem & {
 
 export type PlannedGroupMessage = { key: string; order: number; dueTs: number; items: PendingNotifyItem[]; group: NotificationGroup };
 
-/** When an alert's first message is due: at once from when it got worse, else notifyAfterS after the raise. */
-export function firstDueTs(a: { startTs: number; worsenedTs?: number | null }, notifyAfterS: number): number {
-  return a.worsenedTs != null ? a.worsenedTs : a.startTs + notifyAfterS * 1000;
+/**
+ * When an alert's first message is due: notifyAfterS after the raise; at once from when it got
+ * worse. `toldBefore` false (it got worse before anybody was told of it): whichever is earlier.
+ */
+export function firstDueTs(a: { startTs: number; worsenedTs?: number | null; toldBefore?: boolean }, notifyAfterS: number): number {
+  const normal = a.startTs + notifyAfterS * 1000;
+  if (a.worsenedTs == null) return normal;
+  return a.toldBefore === false ? Math.min(normal, a.worsenedTs) : a.worsenedTs;
 }
 
 /**

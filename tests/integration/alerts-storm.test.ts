@@ -143,4 +143,17 @@ describe("a storm on call", () => {
     await run(worsenedTs + 5 * MIN);
     expect(await mails(`alert:${id}:w${worsenedTs}:order:2:`)).toHaveLength(1);
   });
+
+  it("an alert that got worse before anybody was told is told at once, as itself, not 'Worse:'", async () => {
+    const [third] = await tdb.db.select({ id: areas.id }).from(areas).orderBy(asc(areas.id)).limit(1).offset(2);
+    const raisedTs = T0 + 30 * MIN;
+    const id = await raise({ kind: "rh_low", severity: "medium", areaId: third.id, lineId: null, pointId: null, ts: raisedTs, peak: 28.9 });
+    const worsenedTs = raisedTs + MIN; // four minutes before its first message would be due
+    await tdb.db.update(alerts).set({ severity: "high", peakValue: 24.1, worsenedTs, notifiedLevel: 0 }).where(eq(alerts.id, id));
+    expect((await run(worsenedTs - 1000)).notified).toEqual([]);
+    expect((await run(worsenedTs)).notified.map((n) => n.alertId)).toEqual([id]);
+    const first = await mails(`alert:${id}:`);
+    expect(first.map((m) => m.dedupeKey.replace(/:person:\d+$/, ""))).toEqual([`alert:${id}:order:1`, `alert:${id}:order:1`]);
+    for (const m of first) expect(m.subject).toMatch(/^◆ Over: Humidity low — .+ \(high\)$/);
+  });
 });

@@ -94,6 +94,9 @@ describe("told again when worse", () => {
     const worsenedTs = T0 + 20 * MIN;
     expect(firstDueTs({ startTs: T0, worsenedTs }, NOTIFY_S)).toBe(worsenedTs);
     expect(firstDueTs({ startTs: T0, worsenedTs: null }, NOTIFY_S)).toBe(T0 + 5 * MIN);
+    // got worse before anybody was told: the earlier of the two
+    expect(firstDueTs({ startTs: T0, worsenedTs: T0 + MIN, toldBefore: false }, NOTIFY_S)).toBe(T0 + MIN);
+    expect(firstDueTs({ startTs: T0, worsenedTs: T0 + 20 * MIN, toldBefore: false }, NOTIFY_S)).toBe(T0 + 5 * MIN);
     expect(planNotification({ startTs: T0, notifiedLevel: 0, worsenedTs }, [1, 2], { notifyAfterS: NOTIFY_S, escalateAfterS: ESCALATE_S }, worsenedTs)).toEqual({ order: 1, dueTs: worsenedTs });
   });
 
