@@ -9,6 +9,7 @@ import { alertEvents, alerts, areas, lines, oncallShifts, outbox, people, phoneO
 import { addShift, saveAlertingSettings } from "@/db/queries/oncall";
 import { loadPlantTopology, type AlertSubject } from "@/db/queries/topology";
 import { runEscalation } from "@/ingest/alerts-escalation";
+import { listAlertDeliveries } from "@/db/queries/alert-chart";
 import { DEMO_PEOPLE } from "@/lib/demo-plant";
 
 const NAME = "alerts_storm";
@@ -100,6 +101,11 @@ describe("a storm on call", () => {
     const events = await tdb.db.select().from(alertEvents).where(and(inArray(alertEvents.alertId, storm), eq(alertEvents.kind, "notified")));
     expect(events.map((e) => e.alertId).sort()).toEqual([...storm].sort());
     for (const e of events) expect(e.comment).toMatch(/sent together with 3 other alerts as ".+: RH 23 % and 3 points over on .+"$/);
+
+    // the alert page's "who was told" of any alert of the group lists the group's messages
+    const told = await listAlertDeliveries(tdb.db, storm[2], rows[0].notifyGroup);
+    expect(told.map((d) => d.channel).sort()).toEqual(["email", "email", "sms"]);
+    expect(await listAlertDeliveries(tdb.db, storm[2])).toEqual([]);
 
     // later rounds send nothing again
     expect((await run(T0 + 5 * MIN + 3000)).notified).toEqual([]);
