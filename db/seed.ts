@@ -172,7 +172,7 @@ export async function seedDemoPlant(db: Db, opts: { nowMs?: number; secretsFile?
       { kind: "rh_forecast", name: "Hall humidity falling toward limit", severity: "low", onDelayS: 300, offDelayS: 600, onlyWhileRunning: false, params: { limitPct: 30, horizonMin: 60, windowMin: 30, clearMarginPct: 2 } },
       { kind: "sensor_silent", name: "Sensor silent", severity: "medium", onDelayS: 0, offDelayS: 60, onlyWhileRunning: false, params: { silentS: 120 } },
       { kind: "sensor_flat", name: "Sensor reading flat", severity: "low", onDelayS: 0, offDelayS: 60, onlyWhileRunning: true, params: { channel: "charge_kv", windowS: 600, tolerance: 0.05 } },
-      { kind: "effect_loss", name: "Neutralizer losing effect", severity: "medium", onDelayS: 60, offDelayS: 300, onlyWhileRunning: true, params: { minReductionFraction: 0.5, clearReductionFraction: 0.6, windowS: 300, minBeforeKv: 1 } },
+      { kind: "effect_loss", name: "Neutralizer losing effect", severity: "medium", onDelayS: 60, offDelayS: 2700, onlyWhileRunning: true, params: { minReductionFraction: 0.5, clearReductionFraction: 0.6, windowS: 300, minBeforeKv: 0.5 } },
     ];
     for (const d of defaults) {
       const [r] = await tx.insert(s.rules).values({ kind: d.kind, name: d.name, createdAt: now, currentVersion: 1 });
