@@ -9,7 +9,7 @@ import { ActionForm, Field, inputClass, SubmitButton, type FormResult } from "@/
 import type { AlertState } from "@/lib/vocabulary";
 
 export type FormAction = (prev: FormResult, fd: FormData) => Promise<FormResult>;
-export type AlertFormActions = { ack: FormAction; comment: FormAction; shelve: FormAction; unshelve: FormAction };
+export type AlertFormActions = { ack: FormAction; comment: FormAction; shelve: FormAction; unshelve: FormAction; /** every alert of a storm group at once */ ackGroup?: FormAction };
 
 export const SHELVE_CHOICES: Array<{ min: number; label: string }> = [
   { min: 30, label: "30 minutes" },

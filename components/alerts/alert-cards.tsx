@@ -43,7 +43,7 @@ export function AlertCards({ alerts, now, timeZone, canRespond, actions }: { ale
         e.type === "alert" ? (
           card(e.alert)
         ) : (
-          <AlertGroupCard key={e.group.key} group={e.group} timeZone={timeZone}>
+          <AlertGroupCard key={e.group.key} group={e.group} timeZone={timeZone} ackGroup={canRespond ? actions.ackGroup : undefined}>
             {e.group.alerts.map(card)}
           </AlertGroupCard>
         ),

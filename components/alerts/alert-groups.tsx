@@ -3,7 +3,10 @@
 // header with the message's title, how many, the time span and how many still want an
 // acknowledgement, opening to the alerts inside. A table row group at the desk, a card on a phone.
 import { Fragment, useState, type ReactNode } from "react";
+import { useQueryClient } from "@tanstack/react-query";
 import clsx from "clsx";
+import { ActionForm, SubmitButton } from "@/components/forms/action-form";
+import type { FormAction } from "./alert-actions";
 import { SEVERITY_RANK, type Severity } from "@/lib/vocabulary";
 import { groupSpanText, type AlertListGroup } from "@/lib/alerts/alert-list-groups";
 import { SeverityTag } from "./alert-bits";
@@ -44,16 +47,43 @@ function GroupSummary({ g, open, timeZone, stacked = false }: { g: AlertListGrou
   );
 }
 
+/** "Acknowledge all 4": every alert of the group still waiting, for shift leads and up. */
+function AckGroupForm({ group, ackGroup, className }: { group: AlertListGroup; ackGroup?: FormAction; className?: string }) {
+  const queryClient = useQueryClient();
+  if (!ackGroup || group.unacked === 0) return null;
+  return (
+    <ActionForm action={ackGroup} onSuccess={() => void queryClient.invalidateQueries({ queryKey: ["alerts"] })} className={className}>
+      <input type="hidden" name="group" value={group.key} />
+      <SubmitButton variant="quiet">{group.unacked === 1 ? "Acknowledge the 1 left" : `Acknowledge all ${group.unacked}`}</SubmitButton>
+    </ActionForm>
+  );
+}
+
 /** The desk: a header row across the table, then (opened) the group's alert rows drawn by `renderAlert`. */
-export function AlertGroupRows({ group, timeZone, colSpan, renderAlert }: { group: AlertListGroup; timeZone: string; colSpan: number; renderAlert: (a: AlertListGroup["alerts"][number]) => ReactNode }) {
+export function AlertGroupRows({
+  group,
+  timeZone,
+  colSpan,
+  renderAlert,
+  ackGroup,
+}: {
+  group: AlertListGroup;
+  timeZone: string;
+  colSpan: number;
+  renderAlert: (a: AlertListGroup["alerts"][number]) => ReactNode;
+  ackGroup?: FormAction;
+}) {
   const [open, setOpen] = useState(false);
   return (
     <>
       <tr className="border-b border-paper-line bg-paper-sunk" data-testid="alert-group" data-group-key={group.key} data-count={group.alerts.length}>
         <td colSpan={colSpan} className="px-3 py-2">
-          <button type="button" onClick={() => setOpen((o) => !o)} aria-expanded={open} className="flex w-full items-start justify-between gap-4 text-left" data-testid="alert-group-toggle">
-            <GroupSummary g={group} open={open} timeZone={timeZone} />
-          </button>
+          <div className="flex items-center gap-4">
+            <button type="button" onClick={() => setOpen((o) => !o)} aria-expanded={open} className="flex min-w-0 flex-1 items-start justify-between gap-4 text-left" data-testid="alert-group-toggle">
+              <GroupSummary g={group} open={open} timeZone={timeZone} />
+            </button>
+            <AckGroupForm group={group} ackGroup={ackGroup} className="shrink-0" />
+          </div>
         </td>
       </tr>
       {open ? group.alerts.map((a) => <Fragment key={a.id}>{renderAlert(a)}</Fragment>) : null}
@@ -62,13 +92,14 @@ export function AlertGroupRows({ group, timeZone, colSpan, renderAlert }: { grou
 }
 
 /** A phone: one card for the group; opened, the alerts' own cards inside it. */
-export function AlertGroupCard({ group, timeZone, children }: { group: AlertListGroup; timeZone: string; children: ReactNode }) {
+export function AlertGroupCard({ group, timeZone, children, ackGroup }: { group: AlertListGroup; timeZone: string; children: ReactNode; ackGroup?: FormAction }) {
   const [open, setOpen] = useState(false);
   return (
     <li className={clsx("rounded-card border bg-paper-sunk p-3", group.unacked > 0 ? "border-ink-soft" : "border-paper-line")} data-testid="alert-group" data-group-key={group.key} data-count={group.alerts.length}>
       <button type="button" onClick={() => setOpen((o) => !o)} aria-expanded={open} className="flex w-full flex-col gap-1.5 text-left" data-testid="alert-group-toggle">
         <GroupSummary g={group} open={open} timeZone={timeZone} stacked />
       </button>
+      <AckGroupForm group={group} ackGroup={ackGroup} className="mt-2.5 [&_button]:min-h-11 [&_button]:w-full" />
       {open ? <ul className="-mx-1.5 mt-3 space-y-2">{children}</ul> : null}
     </li>
   );

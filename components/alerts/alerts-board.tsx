@@ -177,7 +177,7 @@ export function AlertsBoard({
                 e.type === "alert" ? (
                   renderAlert(e.alert)
                 ) : (
-                  <AlertGroupRows key={e.group.key} group={e.group} timeZone={timeZone} colSpan={8} renderAlert={(a) => renderAlert(a, true)} />
+                  <AlertGroupRows key={e.group.key} group={e.group} timeZone={timeZone} colSpan={8} renderAlert={(a) => renderAlert(a, true)} ackGroup={canRespond ? actions.ackGroup : undefined} />
                 ),
               )}
             </tbody>

@@ -113,3 +113,25 @@ test.describe("on a phone", () => {
     await snap(page, "storm-alert-page-phone");
   });
 });
+
+test.describe("answering a storm", () => {
+  test.use({ viewport: { width: 1366, height: 900 } });
+
+  test("a viewer sees the group but no acknowledge; a shift lead acknowledges all four at once", async ({ page }) => {
+    await signIn(page, "viewer");
+    await page.goto("/alerts");
+    const group = page.locator(`[data-testid="alert-group"][data-group-key="${groupKey}"]`);
+    await expect(group.getByTestId("alert-group-title")).toHaveText(TITLE);
+    await expect(group.getByRole("button", { name: /Acknowledge/ })).toHaveCount(0);
+    await page.context().clearCookies();
+
+    await signIn(page, "shift_lead");
+    await page.goto("/alerts");
+    await group.getByRole("button", { name: "Acknowledge all 4" }).click();
+    await expect(group).toContainText("all acknowledged", { timeout: 15_000 });
+    await group.getByTestId("alert-group-toggle").click();
+    for (const id of ids) await expect(page.locator(`[data-testid="alert-row"][data-alert-id="${id}"]`)).toHaveAttribute("data-state", "active_acked");
+    await expect(page.locator(`[data-testid="alert-row"][data-alert-id="${ids[2]}"]`)).toContainText("Acked by Sam Okafor");
+    await snap(page, "storm-desk-acknowledged");
+  });
+});

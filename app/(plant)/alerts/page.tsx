@@ -10,7 +10,7 @@ import { AlertsBoard } from "@/components/alerts/alerts-board";
 import { parseAlertFilters } from "@/components/alerts/filters";
 import { Forbidden, PageHeader } from "@/components/ui/page";
 import { can } from "@/lib/permissions";
-import { ackAlert, commentAlert, shelveAlert, unshelveAlert } from "./actions";
+import { ackAlert, ackAlertGroup, commentAlert, shelveAlert, unshelveAlert } from "./actions";
 
 export const metadata: Metadata = { title: "Alerts" };
 export const dynamic = "force-dynamic";
@@ -55,7 +55,7 @@ export default async function AlertsPage({ searchParams }: { searchParams: Promi
         areas={layout.map((a) => ({ id: a.id, name: a.name, lines: a.lines.map((l) => ({ id: l.id, name: l.name })) }))}
         canRespond={canRespond}
         timeZone={plant.timeZone}
-        actions={{ ack: ackAlert, comment: commentAlert, shelve: shelveAlert, unshelve: unshelveAlert }}
+        actions={{ ack: ackAlert, ackGroup: ackAlertGroup, comment: commentAlert, shelve: shelveAlert, unshelve: unshelveAlert }}
       />
     </div>
   );

@@ -8,6 +8,8 @@ import { z } from "zod";
 import { getDb } from "@/db/client";
 import { getEnv } from "@/db/env";
 import { respondToAlert } from "@/db/queries/alert-actions";
+import { listAckableInNotifyGroup } from "@/db/queries/alert-notify-group";
+import { AppError } from "@/lib/errors";
 import type { AlertChange } from "@/lib/views/alerts";
 import { internalTopics } from "@/lib/contract/topics";
 import { MAX_SHELVE_MS, MAX_SHELVE_REASON_LENGTH } from "@/lib/rules";
@@ -74,6 +76,26 @@ export const ackAlertAction = defineAction("alert.respond", z.object({ alertId, 
   const change = await respondToAlert(getDb(), { alertId: input.alertId, type: "ack", comment: input.comment }, session.personId);
   announceAlertChange(change);
   return change;
+});
+
+/** A storm group's key (alerts.notify_group, ingest/alerts-notify-send.ts): "area:3:<ts>:<id>". */
+const notifyGroup = z.string({ message: "Which group?" }).trim().max(80).regex(/^(area|alert):\d+:\d+:\d+$/, { message: "Which group?" });
+
+/** Acknowledges every alert of a storm group still waiting; one taken meanwhile by someone else is skipped. */
+export const ackAlertGroupAction = defineAction("alert.respond", z.object({ group: notifyGroup }), async (input, session) => {
+  const ids = await listAckableInNotifyGroup(getDb(), input.group);
+  let acknowledged = 0;
+  for (const id of ids) {
+    try {
+      announceAlertChange(await respondToAlert(getDb(), { alertId: id, type: "ack" }, session.personId));
+      acknowledged++;
+    } catch (err) {
+      // acknowledged (or closed) by someone else between the list and this step: nothing left to do for it
+      if (err instanceof AppError && err.code === "conflict") continue;
+      throw err;
+    }
+  }
+  return { acknowledged };
 });
 
 export const commentAlertAction = defineAction(
