@@ -3,13 +3,14 @@
 // no form, and the API refuses them (403). Screenshots go to /tmp/shots-maint (outside the repo).
 import fs from "node:fs";
 import type { Page } from "@playwright/test";
-import { apiAs, signIn, expect, test } from "./helpers";
+import { apiAs, demoPerson, signIn, expect, test } from "./helpers";
 import { listFixtureDevices, testPool, writeFixtureHistory } from "./line-fixtures";
 
 const SHOTS = "/tmp/shots-maint";
 const REASON = "Cleaning the bars at the unwind";
 const HOUR = 3_600_000;
 let lineId = 0;
+let engineerId = 0;
 
 test.describe.configure({ mode: "serial" });
 
@@ -20,6 +21,8 @@ test.beforeAll(async () => {
   const [rows] = await pool.query("SELECT id, area_id AS areaId FROM `lines` WHERE slug = 'gravure-1'");
   const line = (rows as Array<{ id: number; areaId: number }>)[0];
   lineId = Number(line.id);
+  const [who] = await pool.query("SELECT id FROM people WHERE email = ?", [demoPerson("engineer").email]);
+  engineerId = Number((who as Array<{ id: number }>)[0].id);
   // a day of invented history for the line's sensors and its hall's logger, so the band sits on real curves
   const devices = (await listFixtureDevices(pool)).filter((d) => d.lineId === lineId || d.areaId === Number(line.areaId));
   const now = Date.now();
@@ -57,6 +60,12 @@ test("an engineer plans work on a line from its page; it is listed as running an
   await expect(page.getByTestId("form-error")).toBeVisible();
   await expect(page.getByText("Longer than 12 h needs a reason.")).toBeVisible();
   await expect(planForm.getByText(/More than 12 h: tick/)).toBeVisible();
+  // what was typed stays for the correction
+  await expect(planForm.getByLabel("End (plant time)")).toHaveValue(later);
+  await expect(planForm.getByLabel("What is being done")).toHaveValue("Press rebuild");
+  // and the target and owner are still the ones chosen (a form reset must not move them to the first option)
+  await expect(page.getByTestId("maint-target")).toHaveValue(`line:${lineId}`);
+  await expect(planForm.getByLabel("Owner")).toHaveValue(String(engineerId));
   await page.evaluate(() => window.scrollTo(0, 0));
   await page.screenshot({ path: `${SHOTS}/planned-work-1366.png`, fullPage: true });
 
@@ -109,6 +118,22 @@ test("a viewer sees planned work but no form, and the API refuses them (403)", a
   const ok = await lead.post("/api/maintenance", { headers: { origin: baseURL! }, data: { targetKind: "line", targetId: lineId, ownerId: 1, reason: "Changing the web guide", startTs: now, endTs: now + HOUR } });
   expect(ok.status()).toBe(201);
   await lead.dispose();
+});
+
+test("after recording a cleaning on a bar, the page offers to plan work on that bar, prefilled", async ({ page }) => {
+  const pool = testPool();
+  const [rows] = await pool.query("SELECT n.id, n.tag FROM neutralizers n JOIN points p ON p.id = n.point_id WHERE p.line_id = ? ORDER BY p.position LIMIT 1", [lineId]);
+  await pool.end();
+  const bar = (rows as Array<{ id: number; tag: string }>)[0];
+  await signIn(page, "engineer");
+  await page.goto(`/equipment/${bar.id}`);
+  await expect(page.getByTestId("plan-work-link")).toHaveAttribute("href", `/maintenance?target=neutralizer:${bar.id}#plan`);
+  await expect(page.getByTestId("cleaned-plan-offer")).toHaveCount(0);
+  await page.getByRole("button", { name: "Record cleaning" }).click();
+  await page.getByTestId("cleaned-plan-offer").getByRole("link", { name: "Plan work on this bar" }).click();
+  await expect(page).toHaveURL(new RegExp(`/maintenance\\?target=neutralizer:${bar.id}`));
+  await expect(page.getByTestId("maint-target")).toHaveValue(`neutralizer:${bar.id}`);
+  await expect(page.getByLabel("What is being done")).toHaveValue("Bar cleaned; settling");
 });
 
 test.describe("on a phone (390 px)", () => {

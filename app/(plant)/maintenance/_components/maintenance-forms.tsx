@@ -1,7 +1,7 @@
 "use client";
 // The Planned work forms: open a window (target, owner, reason, start, end; longer than 12 h
 // needs a reason), extend one with a reason, end one now. The server checks everything again.
-import { useState } from "react";
+import { useEffect, useRef, useState } from "react";
 import { ActionForm, Field, inputClass, SubmitButton } from "@/components/forms/action-form";
 import type { MaintenanceTargetGroup } from "@/lib/views/maintenance";
 import { endMaintenanceWindow, extendMaintenanceWindow, openMaintenanceWindow } from "../actions";
@@ -25,11 +25,23 @@ export function OpenWindowForm({
   defaultReason: string;
   maxHours: number;
 }) {
+  // controlled, so a refused form keeps what was typed (a form action resets uncontrolled fields)
+  const initial = { target: defaultTarget, ownerId: String(defaultOwnerId), reason: defaultReason, startTs: defaultStart, endTs: defaultEnd, extendReason: "" };
+  const [v, setV] = useState(initial);
   const [long, setLong] = useState(false);
+  const bind = (name: keyof typeof initial) => ({ name, value: v[name], onChange: (e: { target: { value: string } }) => setV((old) => ({ ...old, [name]: e.target.value })) });
   return (
-    <ActionForm action={openMaintenanceWindow} className="space-y-3" resetOnSuccess>
+    <ActionForm
+      action={openMaintenanceWindow}
+      className="space-y-3"
+      onSuccess={() => {
+        setV({ ...initial, reason: "" });
+        setLong(false);
+      }}
+    >
+      <KeepValuesOnReset values={v} />
       <Field label="Work on" name="targetKind" hint="A hall covers its lines; a line its points and bars; a bar the point it serves.">
-        <select name="target" className={inputClass} defaultValue={defaultTarget} required data-testid="maint-target">
+        <select {...bind("target")} className={inputClass} required data-testid="maint-target">
           <option value="" disabled>
             Choose a hall, line, point or bar…
           </option>
@@ -45,7 +57,7 @@ export function OpenWindowForm({
         </select>
       </Field>
       <Field label="Owner" name="ownerId" hint="Who is doing the work and answers for it.">
-        <select name="ownerId" className={inputClass} defaultValue={String(defaultOwnerId)}>
+        <select {...bind("ownerId")} className={inputClass}>
           {people.map((p) => (
             <option key={p.id} value={p.id}>
               {p.name}
@@ -54,14 +66,14 @@ export function OpenWindowForm({
         </select>
       </Field>
       <Field label="What is being done" name="reason">
-        <input name="reason" className={inputClass} maxLength={300} required minLength={3} defaultValue={defaultReason} placeholder="e.g. cleaning the bars at the unwind" />
+        <input {...bind("reason")} className={inputClass} maxLength={300} required minLength={3} placeholder="e.g. cleaning the bars at the unwind" />
       </Field>
       <div className="grid grid-cols-1 gap-3">
         <Field label="Start (plant time)" name="startTs" hint="Now or later.">
-          <input name="startTs" type="datetime-local" className={inputClass} defaultValue={defaultStart} required />
+          <input {...bind("startTs")} type="datetime-local" className={inputClass} required />
         </Field>
         <Field label="End (plant time)" name="endTs" hint={`At most ${maxHours} h unless you say why below.`}>
-          <input name="endTs" type="datetime-local" className={inputClass} defaultValue={defaultEnd} required />
+          <input {...bind("endTs")} type="datetime-local" className={inputClass} required />
         </Field>
       </div>
       <label className="flex items-center gap-2 text-sm text-ink-soft">
@@ -69,12 +81,39 @@ export function OpenWindowForm({
       </label>
       {long ? (
         <Field label={`Why longer than ${maxHours} h`} name="extendReason">
-          <input name="extendReason" className={inputClass} maxLength={300} placeholder="e.g. rebuild over two shifts, parts arrive tomorrow" />
+          <input {...bind("extendReason")} className={inputClass} maxLength={300} placeholder="e.g. rebuild over two shifts, parts arrive tomorrow" />
         </Field>
       ) : null}
       <SubmitButton>Plan the work</SubmitButton>
     </ActionForm>
   );
+}
+
+/**
+ * A form action resets the form when it finishes, and a reset puts a controlled <select> on its
+ * first option while React still holds the chosen value, so the next send would carry the wrong
+ * target. After a reset, this puts every named field back to the value React holds.
+ */
+function KeepValuesOnReset({ values }: { values: Record<string, string> }) {
+  const ref = useRef<HTMLSpanElement>(null);
+  const latest = useRef(values);
+  useEffect(() => {
+    latest.current = values;
+  });
+  useEffect(() => {
+    const form = ref.current?.closest("form");
+    if (!form) return;
+    const restore = () =>
+      window.setTimeout(() => {
+        for (const [name, value] of Object.entries(latest.current)) {
+          const el = form.elements.namedItem(name);
+          if (el instanceof HTMLInputElement || el instanceof HTMLSelectElement) el.value = value;
+        }
+      }, 0);
+    form.addEventListener("reset", restore);
+    return () => form.removeEventListener("reset", restore);
+  }, []);
+  return <span ref={ref} hidden />;
 }
 
 export function ExtendWindowForm({ id, defaultEnd }: { id: number; defaultEnd: string }) {
