@@ -66,6 +66,15 @@ export function handoverText(report: HandoverReport, codes: StateCodes, opts: { 
   for (const n of report.neutralizers) out.push(`${code(n.code)}  ${n.tag} (${n.where.label}): ${n.reasons.join("; ")}`);
   out.push("");
 
+  if (report.maintenance?.length) {
+    out.push("PLANNED WORK (alerts it explained were recorded without telling on call)");
+    for (const w of report.maintenance) {
+      out.push(`${formatDayTime(w.startTs, zone)}–${hhmm(w.endTs)}  ${w.targetName} — ${w.reason} (owner ${w.ownerName})${w.endedEarlyTs !== null ? ", ended early" : ""}`);
+      if (w.summary) out.push(`    ${w.summary}`);
+    }
+    out.push("");
+  }
+
   out.push("LINE NOTES");
   if (report.notes.length === 0) out.push("No notes this shift.");
   for (const n of report.notes) out.push(`${hhmm(n.ts)}  ${n.where.label} — ${n.personName ?? "Someone"}: ${n.text}`);

@@ -12,6 +12,8 @@ import { heldByWindowValue, runMaintenanceRound } from "@/db/queries/maintenance
 import { loadPlantTopology, type AlertSubject } from "@/db/queries/topology";
 import { runEscalation } from "@/ingest/alerts-escalation";
 import { buildHandoverForWindow } from "@/db/use-cases/handover-report";
+import { handoverText } from "@/lib/mail/handover-email";
+import { STATE_SYMBOLS, STATE_WORDS } from "@/lib/vocabulary";
 
 const MIN = 60_000;
 const HOUR = 60 * MIN;
@@ -106,8 +108,13 @@ describe("maintenance windows", () => {
     const handover = await buildHandoverForWindow(tdb.db, shift, "Harrow Fen Packaging", t0 + 3 * HOUR);
     const listed = handover.maintenance?.find((m) => m.id === windowId);
     expect(listed).toMatchObject({ reason: "Cleaning bars at the unwind", ownerName: expect.any(String), summary: after.summary, targetName: expect.any(String) });
+    const mail = handoverText(handover, { symbols: STATE_SYMBOLS, words: STATE_WORDS });
+    expect(mail).toContain("PLANNED WORK");
+    expect(mail).toContain(`Cleaning bars at the unwind (owner ${listed!.ownerName})`);
+    expect(mail).toContain(after.summary!);
     const outsideShift = await buildHandoverForWindow(tdb.db, { ...shift, startTs: t0 + 3 * HOUR, endTs: t0 + 11 * HOUR }, "Harrow Fen Packaging", t0 + 12 * HOUR);
     expect(outsideShift.maintenance?.some((m) => m.id === windowId)).toBe(false);
+    expect(handoverText(outsideShift, { symbols: STATE_SYMBOLS, words: STATE_WORDS })).not.toContain("Cleaning bars at the unwind");
   });
 
   it("a bar's window holds the alerts of the point it serves, not those of the line's other points; ending it early lets them through", async () => {
