@@ -43,6 +43,14 @@ const isNight = (ts: number) => {
   return h >= 22 || h < 6;
 };
 
+/** The engineer works days: a note due at night is written the next morning. */
+function dayTime(ts: number): number {
+  if (!isNight(ts)) return ts;
+  const d = new Date(ts);
+  const morning = Date.UTC(d.getUTCFullYear(), d.getUTCMonth(), d.getUTCDate(), 7, 40);
+  return morning > ts ? morning : morning + 24 * HOUR;
+}
+
 export type ResponsePlayer = { respond(a: HistoryAlert): void };
 
 /** Answers cleared alerts as they come (call in raise order per subject; any order works). */
@@ -66,7 +74,8 @@ export function createResponsePlayer(historyEndMs: number): ResponsePlayer {
       a.closedTs = a.endTs;
       extra.push({ ts: a.endTs, kind: "closed", by: null, comment: null, value: null });
       const lastsMs = a.endTs - ackTs;
-      if (!shelved && lastsMs >= 45 * MIN && (a.chattering || a.kind === "sensor_flat" || a.kind === "rh_forecast" || a.kind === "effect_loss")) {
+      // a nuisance, or a bar known to be fouled and waiting for its cleaning, is shelved for a while
+      if (!shelved && (((a.chattering || a.kind === "sensor_flat") && lastsMs >= 45 * MIN) || (a.kind === "effect_loss" && lastsMs >= 12 * HOUR))) {
         shelved = true;
         const untilTs = Math.min(ackTs + 4 * HOUR, a.endTs - MIN);
         extra.push({ ts: ackTs + MIN, kind: "shelved", by: "lead", comment: SHELVE_REASON, value: String(untilTs) });
@@ -79,18 +88,19 @@ export function createResponsePlayer(historyEndMs: number): ResponsePlayer {
     }
     a.state = "closed";
 
-    const note = noteFor(a, h);
-    if (note !== null) extra.push({ ts: ackTs + (15 + (h % 31)) * MIN, kind: "commented", by: "engineer", comment: note, value: null });
+    const noteTs = dayTime(ackTs + (15 + (h % 31)) * MIN);
+    const note = noteTs < historyEndMs ? noteFor(a) : null;
+    if (note !== null) extra.push({ ts: noteTs, kind: "commented", by: "engineer", comment: note, value: null });
     a.events = [...a.events, ...extra].sort((x, y) => x.ts - y.ts);
   }
 
-  function noteFor(a: HistoryAlert, h: number): string | null {
+  function noteFor(a: HistoryAlert): string | null {
     if (a.severity === "high" && highNotes < HIGH_NOTES && (a.kind === "charge_high" || a.kind === "charge_rate")) {
       highNotes++;
       return HIGH_NOTE;
     }
     const n = notesByKind.get(a.kind) ?? 0;
-    if (n >= NOTES_PER_KIND || (a.endTs ?? a.startTs) - a.startTs < 10 * MIN || h % 4 !== 0) return null;
+    if (n >= NOTES_PER_KIND || (a.endTs ?? a.startTs) - a.startTs < 10 * MIN) return null;
     notesByKind.set(a.kind, n + 1);
     return ENGINEER_NOTES[a.kind];
   }
