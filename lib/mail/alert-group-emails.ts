@@ -49,7 +49,7 @@ export function composeGroupEmail(
   const waited = formatDuration(Math.max(0, opts.nowMs - (first.worsenedTs ?? first.startTs)));
   const intro = escalation
     ? `These ${n} alerts, raised together, have not been acknowledged for ${waited}; you are next on the on-call list (order ${opts.level}).`
-    : `${n} alerts were raised together in ${first.areaName ?? "the plant"} and you are on call. They are sent as one message so a storm does not bury you.`;
+    : `${n} alerts were raised together in ${first.areaName ?? "the plant"} and you are on call. They come as one message; each is listed below with its link.`;
   const alertsLink = appLink(opts.appUrl, "/alerts");
   const text = [
     `Hello ${opts.recipientName},`,
@@ -84,7 +84,7 @@ export function composeGroupEmail(
     ...(opts.chart
       ? [`<p><a href="${escapeHtml(opts.chart.frozenLink)}"><img src="cid:${escapeHtml(opts.chart.cid)}" width="600" style="max-width:100%;height:auto;border:1px solid #d9d7cf" alt="${escapeHtml(opts.chart.alt)}"></a><br><span style="font-size:12px;color:#555">The first alert's chart. Dashed red: the limit · purple line: when it was raised · <a href="${escapeHtml(opts.chart.frozenLink)}">open this view later</a></span></p>`]
       : []),
-    `<p><a href="${escapeHtml(alertsLink)}">Acknowledge in Stillfield</a></p>`,
+    `<p>${first.linkLineId !== null ? `<a href="${escapeHtml(lineLinkAt(opts.appUrl, first.linkLineId, first.startTs))}">Open the chart at that time</a> · ` : ""}<a href="${escapeHtml(alertsLink)}">Acknowledge in Stillfield</a></p>`,
     `<p style="font-size:12px;color:#555">${escapeHtml(MONITORING_CAUTION)}</p>`,
     `<p style="font-size:12px;color:#777">Alerts ${g.items.map((a) => a.alertId).join(", ")}. You get this e-mail because you are on the Stillfield on-call roster.</p>`,
     `</div>`,
