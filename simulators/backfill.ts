@@ -43,6 +43,8 @@ import { createHistoryAlertWriter } from "./backfill-alert-writer";
 import { DAY_MS as DAY } from "../lib/vocabulary/time";
 
 const RAW_CHUNK_MS = 10 * MINUTE_MS;
+/** History shorter than this is written without playing the rules over it (see writeHistory). */
+const MIN_ALERT_SPAN_MS = 30 * MINUTE_MS;
 
 export type BackfillOptions = {
   pool: mysql.Pool;
@@ -201,7 +203,14 @@ export async function writeHistory(
   }
   log(`writing ${((toMs - fromMs) / 3_600_000).toFixed(1)} h of history (${new Date(fromMs).toISOString()} → now)`);
   // the rules play over the history as it is written (simulators/backfill-alert-writer.ts)
-  const alertWriter = opts.alerts === false ? { skipped: "switched off" } : await createHistoryAlertWriter(db, { fromMs, toMs, codes: [...ids.keys()] });
+  // a short gap (the minutes between the first backfill and the live simulator) is left to the
+  // live worker: a fresh engine there would raise a condition still going on once more and clear it again
+  const alertWriter =
+    opts.alerts === false
+      ? { skipped: "switched off" }
+      : toMs - fromMs < MIN_ALERT_SPAN_MS
+        ? { skipped: "less than 30 min to fill; the live worker judges what is still going on" }
+        : await createHistoryAlertWriter(db, { fromMs, toMs, codes: [...ids.keys()] });
   const alertsOn = "skipped" in alertWriter ? null : alertWriter;
   if ("skipped" in alertWriter) log(`alerts not played over the history: ${alertWriter.skipped}`);
   let lastReport = Date.now();

@@ -158,6 +158,25 @@ describe("alerts over the backfilled history", () => {
   });
 });
 
+describe("a second run", () => {
+  it("over the same span adds no alert, event, check or cleaning", async () => {
+    const count = async () => {
+      const [[a], [e], [c], [q]] = await Promise.all([
+        tdb.pool.query("SELECT COUNT(*) AS n FROM alerts"),
+        tdb.pool.query("SELECT COUNT(*) AS n FROM alert_events"),
+        tdb.pool.query("SELECT COUNT(*) AS n FROM checks"),
+        tdb.pool.query("SELECT COUNT(*) AS n FROM equipment_events"),
+      ]);
+      return [a, e, c, q].map((rows) => Number((rows as Array<{ n: number }>)[0].n));
+    };
+    const before = await count();
+    const again: string[] = [];
+    await writeHistory(new PlantModel(scenario), { days: SPAN_DAYS, thin: 10, fullRateHours: 1, rollupThin: 30 }, (m) => again.push(m), { db: tdb.db, pool: tdb.pool, toMs: anchor });
+    expect(await count()).toEqual(before);
+    expect(again.join("\n")).toMatch(/alerts not played over the history: less than 30 min to fill/);
+  });
+});
+
 describe("seeded maintenance history", () => {
   it("gives the compliance report passing checks and one bar failing, cleaned and passing again", async () => {
     const day = (ts: number) => new Date(ts).toISOString().slice(0, 10);
