@@ -3,12 +3,16 @@
 // - Loads the rules (current versions) and the plant topology from the database, and reloads
 //   them within RULES_POLL_MS of a change (it polls cheap signatures), carrying the engine's
 //   state over so delays, windows and open alerts continue without a restart.
-// - Feeds every committed reading to the engine (lib/rules) in reading-time order and ticks it
-//   with the wall clock (sensor silence).
-// - Writes each transition into `alerts` + `alert_events` in one transaction together with the
-//   engine's snapshot, so what the database says is open and what the engine holds never drift
-//   apart across a crash; the snapshot is also saved every SNAPSHOT_EVERY_MS while readings flow
-//   (it carries the windows). A restart continues from the last snapshot.
+// - Feeds every committed reading to the alert pipeline (lib/alerts/alert-pipeline.ts: the rules
+//   engine of lib/rules, then one alert per condition, then causes before symptoms) in
+//   reading-time order and ticks it with the wall clock (sensor silence). One excursion at one
+//   point is one alert that escalates (12 kV, then 20 kV) and eases back in steps; a silent edge
+//   node or data feed is one alert, not one per sensor behind it.
+// - Writes each condition event into `alerts` + `alert_events` in one transaction together with
+//   the engine's snapshot and the pipeline's own state (CONDITION_STATE_KEY), so what the
+//   database says is open and what the engine holds never drift apart across a crash; the
+//   snapshot is also saved every SNAPSHOT_EVERY_MS while readings flow (it carries the windows).
+//   A restart continues from the last snapshot.
 // - Publishes each alert change on `stillfield/internal/alerts` ({alertId, lineId, areaId, state,
 //   severity, ts}) after the commit, for the app's live streams.
 // - Every ESCALATE_EVERY_MS: on-call e-mails and escalation (alerts-escalation.ts), and the end
@@ -19,13 +23,15 @@
 import { eq } from "drizzle-orm";
 import { ZodError } from "zod";
 import { settings } from "../db/schema";
-import { applyClearTransition, applyUpdateTransition, expireShelving, insertRaisedAlert, listUnclearedAlerts } from "../db/queries/alert-transitions";
+import { applyClearTransition, applyEased, applyUpdateTransition, applyWorsened, expireShelving, insertRaisedAlert, listUnclearedAlerts } from "../db/queries/alert-transitions";
 import type { AlertChange } from "../lib/views/alerts";
 import { loadRuleDefinitions, readRulesSignature } from "../db/queries/rule-rows";
 import { loadPlantTopology, readTopologySignature, type PlantTopology } from "../db/queries/topology";
 import { getPlantSettings } from "../db/queries/equipment";
 import { internalTopics } from "../lib/contract/topics";
-import { CHANNELS, createRuleEngine, RuleEngineStateError, type AlertTransition, type Channel, type RuleDefinition, type RuleEngine } from "../lib/rules";
+import { CHANNELS, createRuleEngine, RuleEngineStateError, type Channel, type RuleDefinition, type RuleEngine } from "../lib/rules";
+import { createAlertPipeline, type AlertPipeline } from "../lib/alerts/alert-pipeline";
+import { isConditionMergerState, mergerFromActiveAlerts, type ConditionEvent } from "../lib/alerts/condition-merge";
 import type { AlertState, Severity } from "../lib/vocabulary";
 import { runEscalation } from "./alerts-escalation";
 import { createLateRecheck } from "./late-recheck";
@@ -34,6 +40,8 @@ import { describeError } from "./log";
 import type { CommittedReading, ReadingSink, SinkContext } from "./sinks";
 
 export const ENGINE_STATE_KEY = "alerts.engine_state";
+/** The pipeline's state above the engine: open conditions and held silences (lib/alerts). */
+export const CONDITION_STATE_KEY = "alerts.condition_state";
 
 const CHANNEL_SET: ReadonlySet<string> = new Set(CHANNELS);
 function isChannel(c: string): c is Channel {
@@ -117,17 +125,29 @@ export async function startCore(ctx: SinkContext, store?: EngineStateStore): Pro
     engine = createRuleEngine({ rules, topology: topo.topology });
   }
 
-  // open alert rows by engine key
+  // the layers above the engine: saved with it, or rebuilt from what it holds active
+  const [savedConditions] = await db.select({ value: settings.value }).from(settings).where(eq(settings.key, CONDITION_STATE_KEY)).limit(1);
+  let pipeline: AlertPipeline = buildPipeline(engine, savedConditions?.value);
+
+  function buildPipeline(next: RuleEngine, state: unknown): AlertPipeline {
+    const o = typeof state === "object" && state !== null ? (state as Record<string, unknown>) : {};
+    if (isConditionMergerState(o.merger)) return createAlertPipeline({ rules: [], topology: topo.topology, engine: next, parents: topo.parents, mergerState: o.merger, holdState: o.hold });
+    return createAlertPipeline({ rules: [], topology: topo.topology, engine: next, parents: topo.parents, merger: mergerFromActiveAlerts(next.activeAlerts()) });
+  }
+
+  // open alert rows by key (rule that opened it, subject, raise time)
   const openIds = new Map<string, number>();
   for (const a of await listUnclearedAlerts(db)) openIds.set(alertKey(a.ruleId, a.subjectKey, a.startTs), a.id);
 
-  let pending: AlertTransition[] = [];
+  let pending: ConditionEvent[] = [];
   let dirty = false;
   let lastSnapshotTs = Date.now();
   let lastRulesPoll = 0;
   let lastEscalation = 0;
   let closed = false;
 
+  take(pipeline.prune(Date.now()));
+  await flush();
   await reconcile("start-up");
 
   async function loadRules(): Promise<RuleDefinition[]> {
@@ -145,7 +165,7 @@ export async function startCore(ctx: SinkContext, store?: EngineStateStore): Pro
    * was lost) are cleared, so nothing stays open for ever.
    */
   async function reconcile(why: string): Promise<void> {
-    const active = new Set(engine.activeAlerts().map((a) => alertKey(a.ruleId, a.subjectKey, a.raisedTs)));
+    const active = new Set([...pipeline.merger.openKeys(), ...pipeline.hold.openParents()].map((a) => alertKey(a.ruleId, a.subjectKey, a.raisedTs)));
     const stale = [...openIds.entries()].filter(([key]) => !active.has(key));
     if (stale.length === 0) return;
     const now = Date.now();
@@ -167,17 +187,20 @@ export async function startCore(ctx: SinkContext, store?: EngineStateStore): Pro
   }
 
   async function saveSnapshot(tx: Pick<typeof db, "insert" | "select" | "execute">, nowMs: number): Promise<void> {
-    if (store) {
-      await store.save(tx, engine, nowMs);
-      dirty = false;
-      lastSnapshotTs = nowMs;
-      return;
+    // the owner's store checks its lease first, so a fenced-off owner writes neither
+    if (store) await store.save(tx, engine, nowMs);
+    else {
+      const state = engine.snapshot();
+      await tx
+        .insert(settings)
+        .values({ key: ENGINE_STATE_KEY, value: state, updatedAt: nowMs })
+        .onDuplicateKeyUpdate({ set: { value: state, updatedAt: nowMs } });
     }
-    const state = engine.snapshot();
+    const conditions = pipeline.snapshot();
     await tx
       .insert(settings)
-      .values({ key: ENGINE_STATE_KEY, value: state, updatedAt: nowMs })
-      .onDuplicateKeyUpdate({ set: { value: state, updatedAt: nowMs } });
+      .values({ key: CONDITION_STATE_KEY, value: conditions, updatedAt: nowMs })
+      .onDuplicateKeyUpdate({ set: { value: conditions, updatedAt: nowMs } });
     dirty = false;
     lastSnapshotTs = nowMs;
   }
@@ -196,7 +219,7 @@ export async function startCore(ctx: SinkContext, store?: EngineStateStore): Pro
           const key = alertKey(t.ruleId, t.subjectKey, t.raisedTs);
           const existing = removed.has(key) ? undefined : (added.get(key) ?? openIds.get(key));
           if (t.type === "raise" || existing === undefined) {
-            if (t.type === "clear") continue; // raised before anything we know of: nothing to clear
+            if (t.type === "clear" || t.type === "ease") continue; // raised before anything we know of: nothing to clear
             if (existing !== undefined) continue; // a raise already written (retry)
             const row = await insertRaisedAlert(tx, t, topo.subjects.get(t.subjectKey), now);
             added.set(key, row.id);
@@ -207,6 +230,11 @@ export async function startCore(ctx: SinkContext, store?: EngineStateStore): Pro
           }
           if (t.type === "update") {
             await applyUpdateTransition(tx, existing, t);
+            continue;
+          }
+          if (t.type === "escalate" || t.type === "worse" || t.type === "ease") {
+            const r = t.type === "ease" ? await applyEased(tx, existing, t) : await applyWorsened(tx, existing, { ...t, type: t.type });
+            if (r) changes.push({ alertId: existing, lineId: r.lineId, areaId: r.areaId, state: r.state, severity: r.severity, ts: t.ts });
             continue;
           }
           const r = await applyClearTransition(tx, existing, { ts: t.ts, peakValue: t.peakValue, message: t.message });
@@ -226,7 +254,7 @@ export async function startCore(ctx: SinkContext, store?: EngineStateStore): Pro
     publish(changes);
   }
 
-  function take(list: AlertTransition[]) {
+  function take(list: ConditionEvent[]) {
     for (const t of list) pending.push(t);
     if (pending.length > MAX_PENDING_TRANSITIONS) {
       log.error("too many alert transitions waiting for the database; dropping the oldest", { dropped: pending.length - MAX_PENDING_TRANSITIONS });
@@ -244,6 +272,8 @@ export async function startCore(ctx: SinkContext, store?: EngineStateStore): Pro
     rules = await loadRules();
     timeZone = (await getPlantSettings(db)).timeZone;
     engine = createRuleEngine({ rules, topology: topo.topology, state: engine.snapshot() });
+    pipeline = buildPipeline(engine, pipeline.snapshot());
+    take(pipeline.prune(nowMs));
     rulesSig = nextRulesSig;
     topoSig = nextTopoSig;
     log.info(`alerts engine reloaded (${topoChanged ? "plant and " : ""}rules changed)`, { rules: rules.length });
@@ -270,7 +300,7 @@ export async function startCore(ctx: SinkContext, store?: EngineStateStore): Pro
       const sorted = readings.length > 1 ? [...readings].sort((a, b) => a.ts - b.ts) : readings;
       for (const r of late.takeLive(sorted)) {
         if (!isChannel(r.channel)) continue;
-        const out = engine.push({ sensorKey: r.deviceCode, channel: r.channel, ts: r.ts, value: r.value });
+        const out = pipeline.push({ sensorKey: r.deviceCode, channel: r.channel, ts: r.ts, value: r.value });
         if (out.length) take(out);
       }
       dirty = true;
@@ -278,7 +308,7 @@ export async function startCore(ctx: SinkContext, store?: EngineStateStore): Pro
     },
     async onTick(nowMs: number) {
       if (closed) return;
-      take(engine.tick(nowMs));
+      take(pipeline.tick(nowMs));
       await flush();
       await late.onTick(nowMs);
       try {

@@ -9,6 +9,7 @@ import { AppError, notFound } from "../../lib/errors";
 import type { AlertState } from "../../lib/vocabulary";
 import type { AlertChange } from "../../lib/views/alerts";
 import { lifecycleColumns, lifecycleOfRow, rowOfLifecycle } from "./alert-rows";
+import { retryTransient } from "../transient";
 
 export type RespondInput =
   | { alertId: number; type: "ack"; comment?: string }
@@ -22,6 +23,10 @@ export type RespondInput =
  * with the lifecycle's own words.
  */
 export async function respondToAlert(db: Db, input: RespondInput, personId: number, nowMs = Date.now()): Promise<AlertChange> {
+  return retryTransient(() => respondOnce(db, input, personId, nowMs));
+}
+
+async function respondOnce(db: Db, input: RespondInput, personId: number, nowMs: number): Promise<AlertChange> {
   return db.transaction(async (tx) => {
     const [row] = await tx.select(lifecycleColumns).from(alerts).where(eq(alerts.id, input.alertId)).for("update");
     if (!row) throw notFound("No such alert.");

@@ -5,10 +5,13 @@ import { and, desc, eq, gt, inArray, isNotNull, isNull, lte } from "drizzle-orm"
 import type { Db } from "../client";
 import { alertEvents, alerts } from "../schema";
 import { applyAlertAction, type AlertTransition } from "../../lib/rules";
-import { ACTIVE_ALERT_STATES, type AlertState, type Severity } from "../../lib/vocabulary";
+import { ACTIVE_ALERT_STATES, SEVERITY_WORDS, formatAlertValue, type AlertState, type RuleKind, type Severity } from "../../lib/vocabulary";
 import type { AlertChange } from "../../lib/views/alerts";
 import { lifecycleColumns, lifecycleOfRow, rowOfLifecycle, type DbWriter } from "./alert-rows";
 import type { AlertSubject } from "./topology";
+
+/** What a raise carries (an engine transition, or a condition event of lib/alerts/condition-merge.ts). */
+export type RaiseFields = Omit<AlertTransition, "type"> & { type?: string };
 
 export type OpenAlertRef = { id: number; ruleId: number; subjectKey: string; startTs: number };
 
@@ -25,7 +28,7 @@ export async function listUnclearedAlerts(db: Db): Promise<OpenAlertRef[]> {
  * same rule and subject is shelved on an earlier alert right now, the new one inherits the
  * shelving: shelving silences a nuisance alert, not one occurrence of it.
  */
-export async function insertRaisedAlert(tx: DbWriter, t: AlertTransition, subject: AlertSubject | undefined, nowMs: number): Promise<{ id: number; shelvedUntilTs: number | null }> {
+export async function insertRaisedAlert(tx: DbWriter, t: RaiseFields, subject: AlertSubject | undefined, nowMs: number): Promise<{ id: number; shelvedUntilTs: number | null }> {
   const [shelf] = await tx
     .select({ shelvedUntilTs: alerts.shelvedUntilTs, shelvedReason: alerts.shelvedReason })
     .from(alerts)
@@ -64,7 +67,7 @@ export async function insertRaisedAlert(tx: DbWriter, t: AlertTransition, subjec
 }
 
 /** An update: the peak (and the forecast's crossing time) moved. */
-export async function applyUpdateTransition(tx: DbWriter, alertId: number, t: AlertTransition): Promise<void> {
+export async function applyUpdateTransition(tx: DbWriter, alertId: number, t: Pick<AlertTransition, "ts" | "peakValue" | "message" | "expectedCrossingTs">): Promise<void> {
   await tx
     .update(alerts)
     .set({
@@ -106,6 +109,53 @@ export async function applyClearTransition(
   if (next.state === "closed") events.push({ alertId, ts, kind: "closed", personId: null, comment: null });
   await tx.insert(alertEvents).values(events);
   return { state: next.state, severity: row.severity, lineId: row.lineId, areaId: row.areaId, shelved: next.shelved };
+}
+
+type AlertPlaceChange = { state: AlertState; severity: Severity; lineId: number | null; areaId: number | null };
+
+/**
+ * One alert of a condition got worse (lib/alerts/condition-merge.ts): a more severe rule of the
+ * same condition now holds ("escalate", e.g. past the 20 kV limit on top of the 12 kV one) or
+ * the peak is clearly past the one last told ("worse"). The row takes the new severity, kind
+ * and peak; on call is told again from now (worsened_ts, notified_level back to 0), and an
+ * acknowledged alert asks for a new acknowledgement. Returns null when the row has cleared.
+ */
+export async function applyWorsened(
+  tx: DbWriter,
+  alertId: number,
+  e: { type: "escalate" | "worse"; ts: number; kind: RuleKind; severity: Severity; previousSeverity?: Severity; peakValue: number; message: string },
+): Promise<AlertPlaceChange | null> {
+  const [row] = await tx.select({ state: alerts.state, lineId: alerts.lineId, areaId: alerts.areaId }).from(alerts).where(eq(alerts.id, alertId)).for("update");
+  if (!row || (row.state !== "active_unacked" && row.state !== "active_acked")) return null;
+  await tx
+    .update(alerts)
+    .set({
+      severity: e.severity,
+      kind: e.kind,
+      ...(Number.isFinite(e.peakValue) ? { peakValue: e.peakValue } : {}),
+      message: e.message.slice(0, 300),
+      worsenedTs: e.ts,
+      notifiedLevel: 0,
+      state: "active_unacked",
+    })
+    .where(eq(alerts.id, alertId));
+  const peak = formatAlertValue(e.kind, e.peakValue);
+  const comment =
+    e.type === "escalate"
+      ? `Now ${SEVERITY_WORDS[e.severity].toLowerCase()}${e.previousSeverity ? ` (was ${SEVERITY_WORDS[e.previousSeverity].toLowerCase()})` : ""}, peak ${peak}: ${e.message}`
+      : `Peak now ${peak}: ${e.message}`;
+  await tx.insert(alertEvents).values({ alertId, ts: e.ts, kind: "worsened", personId: null, comment: comment.slice(0, 300), value: Number.isFinite(e.peakValue) ? String(Number(e.peakValue.toPrecision(8))).slice(0, 32) : null });
+  return { state: "active_unacked", severity: e.severity, lineId: row.lineId, areaId: row.areaId };
+}
+
+/** The most severe rule of a condition cleared while a milder one still holds: one step down. */
+export async function applyEased(tx: DbWriter, alertId: number, e: { ts: number; kind: RuleKind; severity: Severity; previousSeverity?: Severity; message: string }): Promise<AlertPlaceChange | null> {
+  const [row] = await tx.select({ state: alerts.state, lineId: alerts.lineId, areaId: alerts.areaId }).from(alerts).where(eq(alerts.id, alertId)).for("update");
+  if (!row || (row.state !== "active_unacked" && row.state !== "active_acked")) return null;
+  await tx.update(alerts).set({ severity: e.severity, kind: e.kind }).where(eq(alerts.id, alertId));
+  const comment = `Back to ${SEVERITY_WORDS[e.severity].toLowerCase()}${e.previousSeverity ? ` (was ${SEVERITY_WORDS[e.previousSeverity].toLowerCase()})` : ""}: ${e.message}`;
+  await tx.insert(alertEvents).values({ alertId, ts: e.ts, kind: "eased", personId: null, comment: comment.slice(0, 300), value: null });
+  return { state: row.state, severity: e.severity, lineId: row.lineId, areaId: row.areaId };
 }
 
 /** Shelvings whose time is up: cleared on the row, with an "unshelved" event each. */

@@ -10,9 +10,14 @@
 //           point before P on the same line; a neutralizer at the first point has no point
 //           before it, so its effect cannot be judged from charge and it is left out.
 // Disabled devices are left out: a sensor that is switched off is neither judged nor silent.
-import { asc } from "drizzle-orm";
+//
+// Parents (lib/alerts/dependency-hold.ts): each enabled Sparkplug edge node, with the devices its
+// mapped metrics feed, and the whole data feed (every enabled device: a broker or worker outage
+// silences them all). Their alerts' subjects are "gateway:<key>".
+import { and, asc, eq, isNotNull } from "drizzle-orm";
 import type { Db } from "../client";
-import { areas, devices, lines, neutralizers, points } from "../schema";
+import { areas, devices, edgeNodes, gatewayMetrics, lines, neutralizers, points } from "../schema";
+import { subjectKeyOfParent, type DependencyParent } from "../../lib/alerts/dependency-hold";
 import {
   subjectKeyOfArea,
   subjectKeyOfNeutralizer,
@@ -42,10 +47,15 @@ export type PlantTopology = {
   areaNames: Map<number, string>;
   lineNames: Map<number, { name: string; areaId: number }>;
   pointNames: Map<number, { name: string; lineId: number }>;
+  /** What sensors sit behind (edge nodes, the data feed), for holding their silences. */
+  parents: DependencyParent[];
 };
 
+/** The parent key of the whole data feed. */
+export const FEED_PARENT_KEY = "feed";
+
 export async function loadPlantTopology(db: Db): Promise<PlantTopology> {
-  const [areaRows, lineRows, pointRows, deviceRows, neutralizerRows] = await Promise.all([
+  const [areaRows, lineRows, pointRows, deviceRows, neutralizerRows, edgeRows] = await Promise.all([
     db.select({ id: areas.id, name: areas.name }).from(areas).orderBy(asc(areas.displayOrder), asc(areas.id)),
     db.select({ id: lines.id, areaId: lines.areaId, name: lines.name }).from(lines).orderBy(asc(lines.displayOrder), asc(lines.id)),
     db.select({ id: points.id, lineId: points.lineId, name: points.name, position: points.position }).from(points).orderBy(asc(points.lineId), asc(points.position)),
@@ -54,6 +64,11 @@ export async function loadPlantTopology(db: Db): Promise<PlantTopology> {
       .from(devices)
       .orderBy(asc(devices.id)),
     db.select({ id: neutralizers.id, tag: neutralizers.tag, pointId: neutralizers.pointId, state: neutralizers.state }).from(neutralizers).orderBy(asc(neutralizers.id)),
+    db
+      .selectDistinct({ code: edgeNodes.code, label: edgeNodes.label, deviceId: gatewayMetrics.targetDeviceId })
+      .from(edgeNodes)
+      .innerJoin(gatewayMetrics, eq(gatewayMetrics.edgeNodeId, edgeNodes.id))
+      .where(and(eq(edgeNodes.enabled, true), isNotNull(gatewayMetrics.targetDeviceId))),
   ]);
 
   const areaNames = new Map(areaRows.map((a) => [a.id, a.name]));
@@ -154,7 +169,47 @@ export async function loadPlantTopology(db: Db): Promise<PlantTopology> {
     topology.neutralizers.push({ neutralizerId: n.id, name: n.tag, beforePointId: onLine[idx - 1].id, afterPointId: n.pointId });
   }
 
-  return { topology, subjects, deviceIdByCode, areaNames, lineNames, pointNames };
+  // parents: edge nodes (their mapped devices) and the whole feed
+  const codeOfId = new Map(enabled.map((d) => [d.id, d.code]));
+  const byNode = new Map<string, { label: string; codes: Set<string> }>();
+  for (const r of edgeRows) {
+    const code = r.deviceId !== null ? codeOfId.get(r.deviceId) : undefined;
+    if (code === undefined) continue;
+    const n = byNode.get(r.code) ?? { label: r.label, codes: new Set<string>() };
+    n.codes.add(code);
+    byNode.set(r.code, n);
+  }
+  const parents: DependencyParent[] = [];
+  const placeOfCodes = (codes: readonly string[]) => {
+    const places = codes.map((c) => subjects.get(subjectKeyOfSensor(c))).filter((x): x is AlertSubject => x !== undefined);
+    const lineIds = new Set(places.map((p) => p.lineId));
+    const areaIds = new Set(places.map((p) => p.areaId));
+    const lineId = lineIds.size === 1 ? [...lineIds][0] : null;
+    const areaId = areaIds.size === 1 ? [...areaIds][0] : null;
+    return { lineId, areaId };
+  };
+  for (const [code, n] of byNode) {
+    const sensorKeys = [...n.codes].sort();
+    const place = placeOfCodes(sensorKeys);
+    parents.push({ key: `edge:${code}`, name: `Edge node ${n.label}`, kind: "edge_node", sensorKeys, ...place });
+  }
+  const feedCodes = enabled.map((d) => d.code).sort();
+  parents.push({ key: FEED_PARENT_KEY, name: "The data feed (broker or worker)", kind: "feed", sensorKeys: feedCodes, areaId: null, lineId: null });
+  for (const p of parents) {
+    const where = p.lineId != null ? `${whereOf(p.areaId ?? null, p.lineId, null)} (${p.name.toLowerCase()})` : p.areaId != null ? `${whereOf(p.areaId, null, null)} (${p.name.toLowerCase()})` : p.name;
+    subjects.set(subjectKeyOfParent(p.key), {
+      subjectKey: subjectKeyOfParent(p.key),
+      areaId: p.areaId ?? null,
+      lineId: p.lineId ?? null,
+      pointId: null,
+      deviceId: null,
+      neutralizerId: null,
+      where,
+      linkLineId: p.lineId ?? (p.areaId != null ? firstLineOfArea.get(p.areaId) ?? null : null),
+    });
+  }
+
+  return { topology, subjects, deviceIdByCode, areaNames, lineNames, pointNames, parents };
 }
 
 /**
@@ -162,15 +217,16 @@ export async function loadPlantTopology(db: Db): Promise<PlantTopology> {
  * Cheap aggregate reads (a few hundred rows at most).
  */
 export async function readTopologySignature(db: Db): Promise<string> {
-  const [d, p, n, l] = await Promise.all([
+  const [d, p, n, l, g] = await Promise.all([
     db.select({ id: devices.id, code: devices.code, pointId: devices.pointId, lineId: devices.lineId, areaId: devices.areaId, enabled: devices.enabled }).from(devices),
     db.select({ id: points.id, lineId: points.lineId, position: points.position }).from(points),
     db.select({ id: neutralizers.id, pointId: neutralizers.pointId, state: neutralizers.state }).from(neutralizers),
     db.select({ id: lines.id, areaId: lines.areaId }).from(lines),
+    db.selectDistinct({ node: gatewayMetrics.edgeNodeId, target: gatewayMetrics.targetDeviceId }).from(gatewayMetrics).where(isNotNull(gatewayMetrics.targetDeviceId)),
   ]);
   // a small rolling hash over the rows (order-independent within each table)
   const h = (rows: unknown[]) => rows.map((r) => JSON.stringify(r)).sort().join("|");
-  const text = [h(d), h(p), h(n), h(l)].join("#");
+  const text = [h(d), h(p), h(n), h(l), h(g)].join("#");
   let x = 2166136261;
   for (let i = 0; i < text.length; i++) {
     x ^= text.charCodeAt(i);

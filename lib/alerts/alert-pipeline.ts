@@ -7,16 +7,22 @@
 import { createRuleEngine, type RuleEngine } from "../rules/engine";
 import type { AlertTransition, Reading, RuleDefinitionInput, Topology } from "../rules/types";
 import { createConditionMerger, type ConditionEvent, type ConditionMerger, type ConditionMergerState } from "./condition-merge";
-import { createDependencyHold, type DependencyHold, type DependencyParent } from "./dependency-hold";
+import { createDependencyHold, DEPENDENCY_GRACE_MS, type DependencyHold, type DependencyHoldState, type DependencyParent } from "./dependency-hold";
 
 export type AlertPipeline = {
   push(reading: Reading): ConditionEvent[];
   tick(nowTs: number): ConditionEvent[];
+  /** Conditions whose rules the engine no longer holds ease or clear (after a rules reload). */
+  prune(nowTs: number): ConditionEvent[];
   /** The engine underneath (its snapshot and active alerts). */
   readonly engine: RuleEngine;
   readonly merger: ConditionMerger;
   readonly hold: DependencyHold;
+  /** What to save beside the engine's own state (JSON). */
+  snapshot(): AlertPipelineState;
 };
+
+export type AlertPipelineState = { merger: ConditionMergerState; hold: DependencyHoldState };
 
 export type AlertPipelineOptions = {
   rules: readonly RuleDefinitionInput[];
@@ -24,14 +30,17 @@ export type AlertPipelineOptions = {
   parents?: readonly DependencyParent[];
   engineState?: unknown;
   mergerState?: ConditionMergerState;
+  /** Or a merger already built (lib/alerts/condition-merge.ts mergerFromActiveAlerts). */
+  merger?: ConditionMerger;
+  holdState?: unknown;
   /** Take an existing engine instead of building one (the worker reloads rules this way). */
   engine?: RuleEngine;
 };
 
 export function createAlertPipeline(options: AlertPipelineOptions): AlertPipeline {
   const engine = options.engine ?? createRuleEngine({ rules: options.rules, topology: options.topology, state: options.engineState });
-  const merger = createConditionMerger(options.mergerState);
-  const hold = createDependencyHold(options.parents ?? []);
+  const merger = options.merger ?? createConditionMerger(options.mergerState);
+  const hold = createDependencyHold(options.parents ?? [], DEPENDENCY_GRACE_MS, options.holdState);
 
   function through(transitions: AlertTransition[], ts: number): ConditionEvent[] {
     const out: ConditionEvent[] = [];
@@ -43,8 +52,15 @@ export function createAlertPipeline(options: AlertPipelineOptions): AlertPipelin
   return {
     push: (reading) => through(engine.push(reading), reading.ts),
     tick: (nowTs) => through(engine.tick(nowTs), nowTs),
+    prune: (nowTs) => {
+      const active = new Set(engine.activeAlerts().map((a) => `${a.ruleId}|${a.subjectKey}`));
+      const out: ConditionEvent[] = [];
+      for (const e of merger.prune((ruleId, subjectKey) => active.has(`${ruleId}|${subjectKey}`), nowTs)) out.push(...hold.push(e));
+      return out;
+    },
     engine,
     merger,
     hold,
+    snapshot: () => ({ merger: merger.snapshot(), hold: hold.snapshot() }),
   };
 }

@@ -16,7 +16,7 @@
  * Pure and deterministic; the worker, the backfill and `npm run bench:alerts` all use it
  * through lib/alerts/alert-pipeline.ts.
  */
-import type { AlertTransition } from "../rules/types";
+import type { ActiveAlert, AlertTransition } from "../rules/types";
 import { SEVERITY_RANK, type RuleKind, type Severity } from "../vocabulary";
 
 export type ConditionFamily = "charge" | "humidity" | "sensor" | "effect";
@@ -85,6 +85,16 @@ type OpenCondition = {
 
 export type ConditionMergerState = { open: Array<Omit<OpenCondition, "rules"> & { rules: ActiveRule[] }> };
 
+/** Whether saved JSON looks like a merger's state (the worker checks before trusting it). */
+export function isConditionMergerState(v: unknown): v is ConditionMergerState {
+  if (typeof v !== "object" || v === null || !Array.isArray((v as { open?: unknown }).open)) return false;
+  return (v as { open: unknown[] }).open.every((o) => {
+    if (typeof o !== "object" || o === null) return false;
+    const c = o as Record<string, unknown>;
+    return typeof c.family === "string" && typeof c.subjectKey === "string" && Number.isInteger(c.ruleId) && Number.isFinite(c.raisedTs) && typeof c.severity === "string" && Array.isArray(c.rules);
+  });
+}
+
 function strongest(rules: Iterable<ActiveRule>): ActiveRule | null {
   let best: ActiveRule | null = null;
   for (const r of rules) if (best === null || SEVERITY_RANK[r.severity] > SEVERITY_RANK[best.severity]) best = r;
@@ -102,7 +112,25 @@ export type ConditionMerger = {
   snapshot(): ConditionMergerState;
   /** Open conditions, for reconciling with stored rows. */
   openKeys(): Array<{ ruleId: number; subjectKey: string; raisedTs: number }>;
+  /**
+   * Drops the rules the engine no longer holds active (a rule removed, disabled or reloaded
+   * without its state): a condition eases, or clears when none of its rules is left.
+   */
+  prune(isActive: (ruleId: number, subjectKey: string) => boolean, ts: number): ConditionEvent[];
 };
+
+/**
+ * A merger holding what an engine holds active now (no saved merger state: the first start
+ * after an upgrade, or a lost snapshot). The raises are replayed in raise order; their events
+ * are dropped (the stored rows already tell of them).
+ */
+export function mergerFromActiveAlerts(active: readonly ActiveAlert[], worseByFraction = WORSE_BY_FRACTION): ConditionMerger {
+  const m = createConditionMerger(undefined, worseByFraction);
+  for (const a of [...active].sort((x, y) => x.raisedTs - y.raisedTs || x.ruleId - y.ruleId)) {
+    m.push({ ...a, type: "raise", ts: a.raisedTs, chattering: false, expectedCrossingTs: a.expectedCrossingTs });
+  }
+  return m;
+}
 
 export function createConditionMerger(state?: ConditionMergerState, worseByFraction = WORSE_BY_FRACTION): ConditionMerger {
   const open = new Map<string, OpenCondition>();
@@ -193,8 +221,35 @@ export function createConditionMerger(state?: ConditionMergerState, worseByFract
     return [];
   }
 
+  function prune(isActive: (ruleId: number, subjectKey: string) => boolean, ts: number): ConditionEvent[] {
+    const out: ConditionEvent[] = [];
+    for (const c of [...open.values()]) {
+      for (const r of [...c.rules.values()]) {
+        if (isActive(r.ruleId, c.subjectKey)) continue;
+        const gone: AlertTransition = {
+          ruleId: r.ruleId,
+          ruleVersion: c.ruleVersion,
+          subjectKey: c.subjectKey,
+          kind: r.kind,
+          severity: r.severity,
+          type: "clear",
+          ts,
+          raisedTs: c.raisedTs,
+          value: c.peakValue,
+          peakValue: c.peakValue,
+          unit: c.unit,
+          message: "Its rule was removed, disabled or no longer applies here",
+          chattering: false,
+        };
+        out.push(...push(gone));
+      }
+    }
+    return out;
+  }
+
   return {
     push,
+    prune,
     snapshot: () => ({ open: [...open.values()].map((c) => ({ ...c, rules: [...c.rules.values()] })) }),
     openKeys: () => [...open.values()].map((c) => ({ ruleId: c.ruleId, subjectKey: c.subjectKey, raisedTs: c.raisedTs })),
   };

@@ -49,9 +49,25 @@ export type DependencyHold = {
   advance(ts: number): ConditionEvent[];
   /** Sensors currently held behind a silent parent, by parent key. */
   held(): Map<string, string[]>;
+  /** The parents' alerts now open (their raise events). */
+  openParents(): ConditionEvent[];
+  /** What to save so a restarted worker holds the same sensors (JSON). */
+  snapshot(): DependencyHoldState;
 };
 
-export function createDependencyHold(parents: readonly DependencyParent[], graceMs = DEPENDENCY_GRACE_MS): DependencyHold {
+export type DependencyHoldState = {
+  pending: ConditionEvent[];
+  released: string[];
+  down: Array<{ key: string; event: ConditionEvent; held: string[] }>;
+};
+
+function isHoldState(v: unknown): v is DependencyHoldState {
+  if (typeof v !== "object" || v === null) return false;
+  const o = v as Record<string, unknown>;
+  return Array.isArray(o.pending) && Array.isArray(o.released) && Array.isArray(o.down);
+}
+
+export function createDependencyHold(parents: readonly DependencyParent[], graceMs = DEPENDENCY_GRACE_MS, state?: unknown): DependencyHold {
   // widest first, so a feed outage wins over its gateways
   const ordered = [...parents].filter((p) => p.sensorKeys.length >= 2).sort((a, b) => b.sensorKeys.length - a.sensorKeys.length);
   const parentsOf = new Map<string, DependencyParent[]>();
@@ -61,6 +77,19 @@ export function createDependencyHold(parents: readonly DependencyParent[], grace
   const released = new Set<string>(); // sensors whose own silent alert went out
   const down = new Map<string, { event: ConditionEvent; held: Set<string> }>(); // parent key → its alert
   const heldBy = new Map<string, string>(); // sensor → parent key holding it
+  if (isHoldState(state)) {
+    const known = new Set(parents.map((p) => p.key));
+    for (const e of state.pending) {
+      const sensor = sensorOfSubject(e.subjectKey);
+      if (sensor !== null && parentsOf.has(sensor)) pending.set(sensor, e);
+    }
+    for (const s of state.released) released.add(s);
+    for (const d of state.down) {
+      if (!known.has(d.key)) continue;
+      down.set(d.key, { event: d.event, held: new Set(d.held) });
+      for (const s of d.held) heldBy.set(s, d.key);
+    }
+  }
 
   function silentCount(p: DependencyParent): number {
     let n = 0;
@@ -151,5 +180,11 @@ export function createDependencyHold(parents: readonly DependencyParent[], grace
     push,
     advance,
     held: () => new Map([...down.entries()].map(([k, d]) => [k, [...d.held]])),
+    openParents: () => [...down.values()].map((d) => d.event),
+    snapshot: () => ({
+      pending: [...pending.values()],
+      released: [...released],
+      down: [...down.entries()].map(([key, d]) => ({ key, event: d.event, held: [...d.held] })),
+    }),
   };
 }
