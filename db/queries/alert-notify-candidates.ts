@@ -21,7 +21,7 @@ export type NotifyCandidate = {
   notifiedLevel: number;
   worsenedTs: number | null;
   notifyGroup: string | null;
-  /** on call was told of it before (a "notified" event): a worse alert is then told again as "Worse:" */
+  /** on call was told of it before it last got worse (a "notified" event before the last "worsened" one): it is then told again as "Worse:" */
   toldBefore: boolean;
   areaName: string | null;
   lineName: string | null;
@@ -47,7 +47,9 @@ export async function listNotifyCandidates(db: Db, severities: Severity[], start
       notifiedLevel: alerts.notifiedLevel,
       worsenedTs: alerts.worsenedTs,
       notifyGroup: alerts.notifyGroup,
-      toldBefore: sql<boolean>`EXISTS (SELECT 1 FROM ${alertEvents} AS told WHERE told.alert_id = ${alerts.id} AND told.kind = 'notified')`.mapWith((v: unknown) => Boolean(Number(v))),
+      // told before its last worsening: event ids, not times, order them (the worsening is dated in
+      // reading time, the telling in wall time; a message sent after the worsening already said it)
+      toldBefore: sql<boolean>`EXISTS (SELECT 1 FROM ${alertEvents} AS told WHERE told.alert_id = ${alerts.id} AND told.kind = 'notified' AND told.id < (SELECT MAX(w.id) FROM ${alertEvents} AS w WHERE w.alert_id = ${alerts.id} AND w.kind = 'worsened'))`.mapWith((v: unknown) => Boolean(Number(v))),
       areaName: areas.name,
       lineName: lines.name,
       pointName: points.name,

@@ -156,10 +156,16 @@ describe("a storm on call", () => {
     const id = await raise({ kind: "rh_low", severity: "medium", areaId: third.id, lineId: null, pointId: null, ts: raisedTs, peak: 28.9 });
     const worsenedTs = raisedTs + MIN; // four minutes before its first message would be due
     await tdb.db.update(alerts).set({ severity: "high", peakValue: 24.1, worsenedTs, notifiedLevel: 0 }).where(eq(alerts.id, id));
+    await tdb.db.insert(alertEvents).values({ alertId: id, ts: worsenedTs, kind: "worsened", comment: "Now high (was medium)", value: "24.1" });
     expect((await run(worsenedTs - 1000)).notified).toEqual([]);
     expect((await run(worsenedTs)).notified.map((n) => n.alertId)).toEqual([id]);
     const first = await mails(`alert:${id}:`);
     expect(first.map((m) => m.dedupeKey.replace(/:person:\d+$/, ""))).toEqual([`alert:${id}:order:1`, `alert:${id}:order:1`]);
     for (const m of first) expect(m.subject).toMatch(/^◆ Over: Humidity low — .+ \(high\)$/);
+    // its escalation is not a "Worse:" message either: the first message already said how bad it was
+    await run(worsenedTs + 5 * MIN);
+    const second = await mails(`alert:${id}:`);
+    expect(second.map((m) => m.dedupeKey.replace(/:person:\d+$/, ""))).toEqual([`alert:${id}:order:1`, `alert:${id}:order:1`, `alert:${id}:order:2`]);
+    expect(second[2].subject).toMatch(/^\[Escalated\] ◆ Over: Humidity low/);
   });
 });
