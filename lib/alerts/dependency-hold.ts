@@ -122,8 +122,10 @@ export function createDependencyHold(parents: readonly DependencyParent[], grace
 
   function push(e: ConditionEvent): ConditionEvent[] {
     const sensor = e.kind === "sensor_silent" || e.family === "sensor" ? sensorOfSubject(e.subjectKey) : null;
-    if (sensor === null || !parentsOf.has(sensor)) return [e];
+    if (sensor === null) return [e];
     const holder = heldBy.get(sensor);
+    // a sensor no longer behind any parent (the plant changed) may still be held: its clear frees it
+    if (holder === undefined && !parentsOf.has(sensor)) return [e];
     if (e.type === "raise" && e.kind === "sensor_silent") {
       if (holder !== undefined) return [];
       const already = parentsOf.get(sensor)!.find((p) => down.has(p.key));
