@@ -1,6 +1,6 @@
 // The backfill's alerts, from the database's side: loads the rules and the plant like the live
 // runner (db/queries/rule-rows.ts, db/queries/topology.ts), plays each chunk of backfilled
-// readings through simulators/backfill-alerts.ts while the chunk is written, answers the cleared
+// readings through simulators/backfill-alerts.ts as the chunk is written, answers the cleared
 // alerts as the demo people would (simulators/backfill-responses.ts) and stores them in bulk
 // (db/seed-alert-history.ts). Alerts still open when the history ends are cleared there: the
 // live worker starts without their engine state and would otherwise clear them itself at its

@@ -4,7 +4,7 @@
 // second run over the same span changes nothing. It resumes where the stored history ends.
 // Raw rows are kept only within the raw retention (RAW_RETENTION_DAYS); older history goes to
 // the rollups only, as whole hours written with INSERT IGNORE (a bucket is complete or absent).
-// While each chunk is written, the rules play over it in reading time through the worker's alert
+// As each chunk is written, the rules play over it in reading time through the worker's alert
 // pipeline, and the alerts (already answered by the demo people, never e-mailed) are stored
 // (simulators/backfill-alert-writer.ts); the first full run also records a few months of
 // cleanings and charged-plate checks (db/seed-equipment-history.ts).
@@ -66,7 +66,7 @@ export type BackfillOptions = {
    * half the shortest sensor-silence time, so thinning never looks like a silent sensor.
    */
   maxPeriodMs?: number;
-  /** Every chunk's rows of all devices (chunks in time order, rows in no order) while they are written. */
+  /** Every chunk's rows of all devices (chunks in time order, rows in no order), as they are written. */
   onRows?: (rows: ReadingRow[], chunkEndMs: number) => Promise<void>;
   onProgress?: (doneMs: number, rows: number) => void;
 };
@@ -132,7 +132,7 @@ export async function backfill(opts: BackfillOptions): Promise<BackfillReport> {
         report.duplicates += res.duplicates;
       }),
     ).then(() => opts.onProgress?.(end, report.rawRows + report.rollupOnlyRows));
-    // the rules play this chunk while the database stores it
+    // the rules play this chunk (chunks come in time order, so the engine sees reading time pass)
     if (opts.onRows) await opts.onRows(parts.flat(), end);
   }
   await pending;
