@@ -77,9 +77,12 @@ export class ChargeRateEvaluator extends BaseEvaluator<ChargeRateRule, SampleWin
       return;
     }
     const line = fitSampleWindow(w);
-    const fittedNowKv = getFittedValue(line, t);
+    // the charge's polarity from the middle of the window (the fitted line there is the window's
+    // mean), not from its end: a steep drop from 15 to 3 kV extrapolates below zero at the end and
+    // would read as a negative charge rising fast
+    const polarityKv = getFittedValue(line, t - windowMs / 2);
     const rateKvPerMin =
-      fittedNowKv > 0 ? line.slopePerMin : fittedNowKv < 0 ? -line.slopePerMin : Math.abs(line.slopePerMin);
+      polarityKv > 0 ? line.slopePerMin : polarityKv < 0 ? -line.slopePerMin : Math.abs(line.slopePerMin);
     const valueClear = rateKvPerMin < this.rule.params.clearRateKvPerMin;
     this.stoppedClear = stopped && !valueClear;
     stepHysteresis(this, t, running && rateKvPerMin > this.rule.params.rateKvPerMin, valueClear || stopped, rateKvPerMin, undefined, out);

@@ -64,6 +64,17 @@ describe("charge_rate", () => {
     expect(transitions).toEqual([]);
   });
 
+  it("does not raise for a steep drop whose fitted line ends below zero (15 kV falling to 0.5 kV)", () => {
+    // y = 15, 15, 15, 15, 0.5, 0.5, 0.5 kV at x = 0…60 s: ȳ = 61.5/7 = 8.786 kV,
+    // Σ(x − x̄)·y = (−30 − 20 − 10)·15 + (10 + 20 + 30)·0.5 = −870 kV·s, m = −870/2800 = −0.3107 kV/s;
+    // the fitted value at 60 s is 8.786 − 0.3107·30 = −0.54 kV, below zero, though every reading is
+    // positive. Judged by the end of the line this reads as a negative charge growing at
+    // 18.6 kV/min; it is a fall toward zero, never a rise.
+    const values = [15, 15, 15, 15, 0.5, 0.5, 0.5];
+    const { transitions } = runRules([rateRule(1)], series(UNWIND, "charge_kv", T0, 10 * S, values));
+    expect(transitions).toEqual([]);
+  });
+
   it("judges nothing until the window is full", () => {
     // A steep rise over 40 s only: 4 readings, oldest 30 s back < 0.9 × 60 s.
     const { transitions } = runRules([rateRule(1)], series(UNWIND, "charge_kv", T0, 10 * S, [-1, -5, -9, -13]));
