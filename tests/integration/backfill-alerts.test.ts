@@ -20,6 +20,7 @@ import { getAlertLoad } from "@/db/queries/alert-load";
 import { listNotifyCandidates } from "@/db/queries/alert-notify-candidates";
 import { buildHandoverForWindow } from "@/db/use-cases/handover-report";
 import { getComplianceReport } from "@/db/use-cases/compliance-report";
+import { getWeeklyReport } from "@/db/use-cases/weekly-report";
 import { DEMO_PEOPLE, fieldMeterCode } from "@/lib/demo-plant";
 
 const H = 3_600_000;
@@ -126,6 +127,19 @@ describe("alerts over the backfilled history", () => {
     for (const p of over) {
       expect(report.alerts.filter((a) => a.pointId === p.pointId), `point ${p.pointId} over for ${p.overMs} ms`).not.toHaveLength(0);
     }
+  });
+
+  it("agree with the weekly review of a line", async () => {
+    const lineId = await idOf.line("gravure-1");
+    // the week holding the extra fault on its unwind
+    const weekly = (await getWeeklyReport(tdb.db, { lineId, date: new Date(anchor - 3 * H).toISOString().slice(0, 10) }, anchor))!;
+    const hallId = weekly.hall.id;
+    // lib/reports/weekly.ts: alerts raised in the week on the line, its points and its hall
+    const expected = stored.filter(
+      (a) => a.startTs >= weekly.window.startTs && a.startTs < weekly.window.endTs && (a.lineId === lineId || (a.areaId === hallId && a.lineId === null && a.pointId === null)),
+    );
+    expect(expected.length).toBeGreaterThanOrEqual(1);
+    expect(weekly.alerts.total).toBe(expected.length);
   });
 
   it("are answered like a plant's and never mailed", async () => {
