@@ -14,7 +14,6 @@ import type { ReadingRow } from "../db/queries/readings-write";
 import { loadRuleDefinitions } from "../db/queries/rule-rows";
 import { loadPlantTopology } from "../db/queries/topology";
 import { loadDemoResponders, storeAlertHistory, type AlertHistoryRow } from "../db/seed-alert-history";
-import type { DependencyParent } from "../lib/alerts/dependency-hold";
 import type { Reading } from "../lib/rules/types";
 import { createAlertHistoryPlayer, isRuleChannel, type HistoryAlert, type Responder } from "./backfill-alerts";
 import { createResponsePlayer } from "./backfill-responses";
@@ -50,9 +49,8 @@ export async function createHistoryAlertWriter(db: Db, opts: { fromMs: number; t
   const codeOf = new Map<number, string>();
   for (const [code, id] of topo.deviceIdByCode) codeOf.set(id, code);
 
-  // the edge nodes and the feed the sensors report through (loaded with the plant; absent in older checkouts)
-  const parents = (topo as { parents?: readonly DependencyParent[] }).parents ?? [];
-  const player = createAlertHistoryPlayer({ rules, topology: topo.topology, parents, fromMs: opts.fromMs });
+  // the edge nodes and the feed the sensors report through hold their silent sensors, as live
+  const player = createAlertHistoryPlayer({ rules, topology: topo.topology, parents: topo.parents, fromMs: opts.fromMs });
   const responses = people !== null ? createResponsePlayer(opts.toMs) : null;
   const personOf = (r: Responder | null) => (r === null || people === null ? null : people[r]);
   const report: HistoryAlertReport = { readings: 0, alerts: 0, events: 0, alreadyStored: 0, engineMs: 0, storeMs: 0 };
