@@ -10,6 +10,7 @@ import { addShift, saveAlertingSettings } from "@/db/queries/oncall";
 import { loadPlantTopology, type AlertSubject } from "@/db/queries/topology";
 import { runEscalation } from "@/ingest/alerts-escalation";
 import { listAlertDeliveries } from "@/db/queries/alert-chart";
+import { applyWorsened } from "@/db/queries/alert-transitions";
 import { DEMO_PEOPLE } from "@/lib/demo-plant";
 
 const NAME = "alerts_storm";
@@ -125,9 +126,8 @@ describe("a storm on call", () => {
   it("an alert that got worse is told again at once, in an e-mail beginning 'Worse:'", async () => {
     const worsenedTs = T0 + 12 * MIN + 5000;
     const id = storm[1];
-    // what the live runner does when a condition gets worse (db/queries/alert-transitions.ts applyWorsened)
-    await tdb.db.update(alerts).set({ severity: "high", peakValue: -22.8, message: "test charge_high -22.8", worsenedTs, notifiedLevel: 0, state: "active_unacked" }).where(eq(alerts.id, id));
-    await tdb.db.insert(alertEvents).values({ alertId: id, ts: worsenedTs, kind: "worsened", comment: "Now high (was medium)", value: "-22.8" });
+    // the live runner's step when a condition gets worse
+    await tdb.db.transaction((tx) => applyWorsened(tx, id, { type: "escalate", ts: worsenedTs, kind: "charge_high", severity: "high", previousSeverity: "medium", peakValue: -22.8, message: "test charge_high -22.8" }));
     const r = await run(worsenedTs); // no notifyAfterS wait
     expect(r.notified.map((n) => n.alertId)).toEqual([id]);
     const worse = await mails(`alert:${id}:w${worsenedTs}:order:1:`);
@@ -155,8 +155,7 @@ describe("a storm on call", () => {
     const raisedTs = T0 + 30 * MIN;
     const id = await raise({ kind: "rh_low", severity: "medium", areaId: third.id, lineId: null, pointId: null, ts: raisedTs, peak: 28.9 });
     const worsenedTs = raisedTs + MIN; // four minutes before its first message would be due
-    await tdb.db.update(alerts).set({ severity: "high", peakValue: 24.1, worsenedTs, notifiedLevel: 0 }).where(eq(alerts.id, id));
-    await tdb.db.insert(alertEvents).values({ alertId: id, ts: worsenedTs, kind: "worsened", comment: "Now high (was medium)", value: "24.1" });
+    await tdb.db.transaction((tx) => applyWorsened(tx, id, { type: "escalate", ts: worsenedTs, kind: "rh_low", severity: "high", previousSeverity: "medium", peakValue: 24.1, message: "test rh_low 24.1" }));
     expect((await run(worsenedTs - 1000)).notified).toEqual([]);
     expect((await run(worsenedTs)).notified.map((n) => n.alertId)).toEqual([id]);
     const first = await mails(`alert:${id}:`);
