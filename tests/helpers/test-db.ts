@@ -25,10 +25,15 @@ const conn = () => ({
   password: process.env.DB_PASSWORD ?? "stillfield-local",
 });
 
-/** Drops and recreates `stillfield_t_<suffix>`, applies the migrations, optionally seeds. */
+/**
+ * Drops and recreates `stillfield_t_<suffix>` (`stillfield_t<slot>_<suffix>` for a second stack,
+ * STACK_SLOT=N, so two people running the same suite side by side never share a database),
+ * applies the migrations, optionally seeds.
+ */
 export async function createTestDatabase(suffix: string, opts: { seed?: boolean } = {}): Promise<TestDatabase> {
   if (!/^[a-z0-9_]+$/.test(suffix)) throw new Error("test database suffix: a-z, 0-9, _");
-  const name = `stillfield_t_${suffix}`;
+  const slot = process.env.STACK_SLOT && /^[1-9][0-9]?$/.test(process.env.STACK_SLOT) ? process.env.STACK_SLOT : "";
+  const name = `stillfield_t${slot}_${suffix}`;
   const admin = await mysql.createConnection(conn());
   await admin.query(`DROP DATABASE IF EXISTS \`${name}\``);
   await admin.query(`CREATE DATABASE \`${name}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci`);

@@ -13,6 +13,7 @@
 // The effect-loss part publishes crafted readings (as the devices, through the broker): the
 // simulator's fouling neutralizer sits at Gravure Press 1's unwind, the first point of the web
 // path, so no meter measures the charge before it and its effect cannot be judged from charge.
+import fs from "node:fs";
 import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { and, eq } from "drizzle-orm";
@@ -40,7 +41,7 @@ let stack: IngestStack;
 let sink: Proc;
 let mailer: Proc;
 let smtpPort = 0;
-const mailDataDir = path.join(ROOT, ".data", "test-ingest", `${NAME}-mail`);
+const mailDataDir = path.join(ROOT, ".data", "test-ingest", `${NAME}${process.env.STACK_SLOT ?? ""}-mail`);
 const clients: MqttClient[] = [];
 const deviceClients = new Map<string, MqttClient>();
 const procs: Proc[] = [];
@@ -121,6 +122,7 @@ beforeAll(async () => {
   await saveAlertingSettings(db, { notifyMinSeverity: "medium", notifyAfterS: 20, escalateAfterS: 8, digestHourLocal: 6 }, engineerId);
 
   smtpPort = await freePort();
+  fs.rmSync(mailDataDir, { recursive: true, force: true }); // the sink's index of an earlier run
   sink = spawnTs("smtp-sink", "ingest/smtp-sink.ts", [], { SMTP_PORT: String(smtpPort), DATA_DIR: mailDataDir });
   procs.push(sink);
   await waitFor("the SMTP sink", async () => /listening/.test(sink.output()), 60_000);
