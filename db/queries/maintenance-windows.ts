@@ -5,7 +5,7 @@
 import { and, asc, desc, eq, gt, inArray, lte, or, sql, type SQL } from "drizzle-orm";
 import type { Db } from "../client";
 import { areas, lines, maintenanceWindows, neutralizers, people, points } from "../schema";
-import { checkExtension, MAX_WINDOW_MS, type MaintenanceTarget } from "../../lib/alerts/maintenance-windows";
+import { checkExtension, MAX_WINDOW_MS, type MaintenanceTarget, type MaintenanceWindow } from "../../lib/alerts/maintenance-windows";
 import { AppError, badInput, notFound } from "../../lib/errors";
 import { targetValue, type MaintenanceTargetGroup, type MaintenanceWindowView } from "../../lib/views/maintenance";
 import { writeAudit } from "./audit";
@@ -151,16 +151,8 @@ export async function listLineWindows(db: Db, opts: { lineId: number; fromTs: nu
   return selectWindows(db, and(lte(maintenanceWindows.startTs, opts.toTs), gt(maintenanceWindows.endTs, opts.fromTs), touches), "asc", 200);
 }
 
-export type OpenWindow = {
-  targetKind: MaintenanceTarget;
-  targetId: number;
-  ownerId: number;
-  reason: string;
-  startTs: number;
-  endTs: number;
-  /** needed when the window is longer than MAX_WINDOW_MS */
-  extendReason: string | null;
-};
+/** A window to open: everything but its id (extendReason is needed when it is longer than MAX_WINDOW_MS). */
+export type OpenWindow = Omit<MaintenanceWindow, "id">;
 
 /** Opens a window (now or later). Longer than 12 h only with a reason, never longer than a week. */
 export async function openMaintenanceWindow(db: Db, w: OpenWindow, createdBy: number, nowMs: number): Promise<number> {
