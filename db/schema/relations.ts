@@ -15,6 +15,7 @@ import { phoneOutbox, pushSubscriptions } from "./notify";
 import { auditLog, people } from "./people";
 import { areas, devices, lines, neutralizers, points } from "./plant";
 import { checks, equipmentEvents, importedFiles, uploads } from "./records";
+import { maintenanceWindows } from "./maintenance";
 import { meterCrossChecks, surveyActions, surveyFindings, surveyPhotos, surveyPlanVersions, surveyPlans, surveyReadings, surveys } from "./surveys";
 
 // ── the plant ────────────────────────────────────────────────────────────────────────────────
@@ -218,4 +219,11 @@ export const phoneOutboxRelations = relations(phoneOutbox, ({ one }) => ({
 
 export const pushSubscriptionsRelations = relations(pushSubscriptions, ({ one }) => ({
   person: one(people, { fields: [pushSubscriptions.personId], references: [people.id] }),
+}));
+
+// ── planned work ────────────────────────────────────────────────────────────────────────────
+
+export const maintenanceWindowsRelations = relations(maintenanceWindows, ({ one }) => ({
+  owner: one(people, { fields: [maintenanceWindows.ownerId], references: [people.id] }),
+  createdByPerson: one(people, { fields: [maintenanceWindows.createdBy], references: [people.id] }),
 }));
