@@ -7,6 +7,7 @@ import { countActiveAdmins, createPerson, getPerson, setPassword, updatePerson }
 import { AppError } from "@/lib/errors";
 import { ROLE_NAMES } from "@/lib/permissions";
 import { defineAction } from "../action";
+import { forgetCheckedSessions } from "../session";
 
 const password = z.string().min(10, "At least 10 characters").max(200, "At most 200 characters");
 const idField = z.coerce.number().int().positive();
@@ -50,6 +51,7 @@ export const setRoleAction = defineAction(
   async ({ id, role }, session) => {
     const person = await guardLastAdmin(id, role !== "admin");
     await updatePerson(getDb(), id, { role });
+    forgetCheckedSessions();
     await writeAudit(getDb(), { personId: session.personId, action: "person.role", subjectType: "person", subjectId: id, summary: `Role of ${person.name}: ${person.role} → ${role}` });
     return { id };
   },
@@ -62,6 +64,7 @@ export const setActiveAction = defineAction(
     if (!active && id === session.personId) throw new AppError("conflict", "You cannot deactivate yourself.");
     const person = await guardLastAdmin(id, !active);
     await updatePerson(getDb(), id, { active });
+    forgetCheckedSessions();
     await writeAudit(getDb(), { personId: session.personId, action: active ? "person.reactivate" : "person.deactivate", subjectType: "person", subjectId: id, summary: `${active ? "Reactivated" : "Deactivated"} ${person.name}` });
     return { id };
   },
@@ -74,6 +77,7 @@ export const resetPasswordAction = defineAction(
     const person = await getPerson(getDb(), id);
     if (!person) throw new AppError("not_found", "No such person.");
     await setPassword(getDb(), id, pw);
+    forgetCheckedSessions();
     await writeAudit(getDb(), { personId: session.personId, action: "person.password", subjectType: "person", subjectId: id, summary: `Reset the password of ${person.name}` });
     return { id };
   },
