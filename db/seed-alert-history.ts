@@ -1,9 +1,9 @@
 // Stores the alerts of backfilled demo history (simulators/backfill.ts plays them through the
 // alert pipeline) in bulk: multi-row inserts of `alerts`, then of their `alert_events`. Rows
-// are written as history: already cleared or closed, with notified_level 1 (the first on call
-// counts as told), so the escalation runner, which only looks at active unacknowledged alerts
-// (db/queries/alert-notify-candidates.ts), never e-mails anyone about them and no outbox row is
-// written. An alert already stored with the same rule, subject and start is skipped, so a
+// are written as history: already cleared or closed, so the escalation runner, which only
+// looks at active unacknowledged alerts (db/queries/alert-notify-candidates.ts), never e-mails
+// anyone about them and no outbox row is written. Nobody was told of them (notified_level 0, no
+// "notified" event): the history does not pretend to messages that were never sent. An alert already stored with the same rule, subject and start is skipped, so a
 // second run over the same span adds nothing.
 import { and, asc, gte, inArray, lte } from "drizzle-orm";
 import type { Db } from "./client";
@@ -96,7 +96,7 @@ export async function storeAlertHistory(
           chattering: a.chattering,
           ackedBy: a.ackedBy,
           ackedTs: a.ackedTs,
-          notifiedLevel: 1,
+          notifiedLevel: 0,
           worsenedTs: a.worsenedTs,
         };
       }),

@@ -205,7 +205,8 @@ export function createConditionMerger(state?: ConditionMergerState, worseByFract
       }
       return [event(c, t, "update", false)];
     }
-    // clear
+    // clear: the rule's final peak counts (a silence's length is known only when it ends)
+    c.peakValue = worsePeak(family, c.peakValue, t.peakValue);
     c.rules.delete(t.ruleId);
     const top = strongest(c.rules.values());
     if (top === null) {

@@ -63,6 +63,13 @@ describe("one alert per condition", () => {
     expect(m.push(t({ ruleId: 1, type: "update", ts: T0 + 240 * S, raisedTs: T0, value: -20.5, peakValue: -20.5 }))[0].type).toBe("worse");
   });
 
+  it("keeps the clear's peak: a silence's length is known only when it ends", () => {
+    const m = createConditionMerger();
+    m.push(t({ ruleId: 6, type: "raise", ts: T0, subjectKey: "sensor:fm-a", kind: "sensor_silent", unit: "s", value: 120, peakValue: 120 }));
+    const end = m.push(t({ ruleId: 6, type: "clear", ts: T0 + 7200 * S, raisedTs: T0, subjectKey: "sensor:fm-a", kind: "sensor_silent", unit: "s", value: 7320, peakValue: 7320 }));
+    expect(end.map((e) => [e.type, e.peakValue])).toEqual([["clear", 7320]]);
+  });
+
   it("continues from a snapshot", () => {
     const a = createConditionMerger();
     a.push(t({ ruleId: 1, type: "raise", ts: T0 }));
