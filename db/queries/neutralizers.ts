@@ -8,6 +8,7 @@ import { DAY_MS, NEUTRALIZER_STATE_WORDS, type NeutralizerState } from "../../li
 import { lastCheckTimes } from "./checks";
 import { dateOnlyMs, type EquipmentEventKind } from "./equipment-labels";
 import { notFound } from "../../lib/errors";
+import type { NeutralizerWrite } from "../../lib/views/neutralizers";
 
 export type NeutralizerListItem = {
   id: number;
@@ -94,21 +95,8 @@ export async function getNeutralizer(db: Db, id: number): Promise<NeutralizerLis
   return (await listNeutralizers(db, { ids: [id] }))[0] ?? null;
 }
 
-export type NeutralizerWrite = {
-  tag: string;
-  kind: NeutralizerKind;
-  lengthMm: number | null;
-  powerUnit: string | null;
-  outputKv: number | null;
-  airAssisted: boolean;
-  mountingDistanceMm: number | null;
-  pointId: number | null;
-  installedOn: string | null;
-  cleaningIntervalDays: number;
-  checkIntervalDays: number;
-  state: NeutralizerState;
-  notes: string | null;
-};
+/** What the equipment form writes (the view type lives in lib/views so the form shares it). */
+export type { NeutralizerWrite };
 
 export async function pointExists(db: Db, pointId: number): Promise<boolean> {
   return (await db.select({ id: points.id }).from(points).where(eq(points.id, pointId)).limit(1)).length > 0;

@@ -4,27 +4,13 @@
 import { useState } from "react";
 import { ActionForm, Field, inputClass, SubmitButton, type FormResult } from "@/components/forms/action-form";
 import { neutralizerWarnings, type EquipmentWarning, type NeutralizerSettings } from "@/lib/equipment-warnings";
+import type { NeutralizerWrite } from "@/lib/views/neutralizers";
 import { NEUTRALIZER_KIND_LABELS, NEUTRALIZER_KIND_SPECS, NEUTRALIZER_KINDS, type NeutralizerKind } from "@/lib/physics/neutralizer-kinds";
 import { NEUTRALIZER_STATES, NEUTRALIZER_STATE_WORDS } from "@/lib/vocabulary";
 
 type Place = { points: { id: number; lineId: number; label: string }[]; lines: { id: number; solvent: boolean }[] };
 
-export type NeutralizerFormValues = {
-  id?: number;
-  tag: string;
-  kind: NeutralizerSettings["kind"];
-  lengthMm: number | null;
-  powerUnit: string | null;
-  outputKv: number | null;
-  airAssisted: boolean;
-  mountingDistanceMm: number | null;
-  pointId: number | null;
-  installedOn: string | null;
-  cleaningIntervalDays: number;
-  checkIntervalDays: number;
-  state: NeutralizerSettings["state"];
-  notes: string | null;
-};
+export type NeutralizerFormValues = NeutralizerWrite & { id?: number };
 
 const KINDS: Array<[NeutralizerSettings["kind"], string]> = NEUTRALIZER_KINDS.map((k) => [k, NEUTRALIZER_KIND_LABELS[k]]);
 
