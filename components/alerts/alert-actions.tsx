@@ -22,6 +22,28 @@ export const SHELVE_CHOICES: Array<{ min: number; label: string }> = [
   { min: 10080, label: "7 days (longest)" },
 ];
 
+/** The fields of a shelving (how long, why) with the words that say what it does; the board's panel and the phone cards both use it. */
+export function ShelveFields({ alertId }: { alertId: number }) {
+  return (
+    <>
+      <p className="text-xs text-ink-soft">Shelving holds this alert&apos;s messages for a stated time; it ends on its own.</p>
+      <input type="hidden" name="alertId" value={alertId} />
+      <Field label="For" name="durationMin">
+        <select name="durationMin" className={inputClass} defaultValue="120">
+          {SHELVE_CHOICES.map((c) => (
+            <option key={c.min} value={c.min}>
+              {c.label}
+            </option>
+          ))}
+        </select>
+      </Field>
+      <Field label="Reason" name="reason">
+        <input name="reason" className={inputClass} placeholder="e.g. bar cleaned, waiting for new roll" maxLength={300} />
+      </Field>
+    </>
+  );
+}
+
 const bigButton = "inline-flex min-h-11 flex-1 items-center justify-center rounded px-3 text-sm font-medium";
 
 /**
@@ -75,20 +97,7 @@ export function AlertActionBar({
           }}
           className="space-y-2 rounded border border-paper-line bg-paper p-3"
         >
-          <p className="text-xs text-ink-soft">Shelving holds this alert&apos;s messages for a stated time; it ends on its own.</p>
-          <input type="hidden" name="alertId" value={alertId} />
-          <Field label="For" name="durationMin">
-            <select name="durationMin" className={inputClass} defaultValue="120">
-              {SHELVE_CHOICES.map((c) => (
-                <option key={c.min} value={c.min}>
-                  {c.label}
-                </option>
-              ))}
-            </select>
-          </Field>
-          <Field label="Reason" name="reason">
-            <input name="reason" className={inputClass} placeholder="e.g. bar cleaned, waiting for new roll" maxLength={300} />
-          </Field>
+          <ShelveFields alertId={alertId} />
           <SubmitButton>Shelve alert</SubmitButton>
         </ActionForm>
       ) : null}

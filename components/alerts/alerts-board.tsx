@@ -18,7 +18,7 @@ import { ALERT_EVENT_WORDS, ALERT_STATE_WORDS, ALERT_STATE_SHORT, RULE_KIND_WORD
 import { isStateChoice, type AlertFilterState } from "./filters";
 import { useAlertDetail, useAlerts, type AlertsResponse } from "./use-alerts";
 import { FoundLateMark } from "./found-late-mark";
-import { SHELVE_CHOICES, type AlertFormActions } from "./alert-actions";
+import { ShelveFields, type AlertFormActions } from "./alert-actions";
 import { AlertCards, usePhoneWidth } from "./alert-cards";
 import { AlertGroupRows } from "./alert-groups";
 import { groupAlertList } from "@/lib/alerts/alert-list-groups";
@@ -359,20 +359,7 @@ function AlertDetailPanel({ id, a, timeZone, canRespond, actions }: { id: number
           {!closed && !shelved ? (
             <ActionForm action={actions.shelve} onSuccess={refresh} className="space-y-2 rounded border border-paper-line bg-paper-raised p-3">
               <h3 className="text-sm font-semibold text-ink">Shelve</h3>
-              <p className="text-xs text-ink-soft">Shelving holds this alert&apos;s e-mails for a stated time; it ends on its own.</p>
-              <input type="hidden" name="alertId" value={a.id} />
-              <Field label="For" name="durationMin">
-                <select name="durationMin" className={inputClass} defaultValue="120">
-                  {SHELVE_CHOICES.map((c) => (
-                    <option key={c.min} value={c.min}>
-                      {c.label}
-                    </option>
-                  ))}
-                </select>
-              </Field>
-              <Field label="Reason" name="reason">
-                <input name="reason" className={inputClass} placeholder="e.g. bar cleaned, waiting for new roll" maxLength={300} />
-              </Field>
+              <ShelveFields alertId={a.id} />
               <SubmitButton variant="quiet">Shelve alert</SubmitButton>
             </ActionForm>
           ) : null}
