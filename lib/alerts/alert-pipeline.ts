@@ -37,6 +37,18 @@ export type AlertPipelineOptions = {
   engine?: RuleEngine;
 };
 
+/**
+ * One reading can move the milder rule's peak past "clearly worse" and raise the more severe
+ * rule at the same moment: the escalation says all the worse would, so the worse is dropped
+ * (one "got worse", one message).
+ */
+function dropWorseBeforeEscalation(events: ConditionEvent[]): ConditionEvent[] {
+  if (events.length < 2) return events;
+  const escalated = new Set(events.filter((e) => e.type === "escalate").map((e) => `${e.conditionKey}|${e.ts}`));
+  if (escalated.size === 0) return events;
+  return events.filter((e) => e.type !== "worse" || !escalated.has(`${e.conditionKey}|${e.ts}`));
+}
+
 export function createAlertPipeline(options: AlertPipelineOptions): AlertPipeline {
   const engine = options.engine ?? createRuleEngine({ rules: options.rules, topology: options.topology, state: options.engineState });
   const merger = options.merger ?? createConditionMerger(options.mergerState);
@@ -46,7 +58,7 @@ export function createAlertPipeline(options: AlertPipelineOptions): AlertPipelin
     const out: ConditionEvent[] = [];
     for (const t of transitions) for (const e of merger.push(t)) for (const h of hold.push(e)) out.push(h);
     for (const e of hold.advance(ts)) out.push(e);
-    return out;
+    return dropWorseBeforeEscalation(out);
   }
 
   return {
