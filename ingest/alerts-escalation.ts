@@ -28,7 +28,7 @@ export function severitiesAtOrAbove(min: Severity): Severity[] {
  * orders on call.
  */
 export function planNotification(
-  alert: { startTs: number; notifiedLevel: number; worsenedTs?: number | null },
+  alert: { startTs: number; shownTs?: number | null; notifiedLevel: number; worsenedTs?: number | null },
   orders: readonly number[],
   settings: Pick<AlertingSettings, "notifyAfterS" | "escalateAfterS">,
   nowMs: number,

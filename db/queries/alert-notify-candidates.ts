@@ -16,6 +16,8 @@ export type NotifyCandidate = {
   pointId: number | null;
   message: string;
   startTs: number;
+  /** when the worker wrote it (null: written by other means, e.g. tests or history) */
+  shownTs: number | null;
   peakValue: number | null;
   expectedCrossingTs: number | null;
   notifiedLevel: number;
@@ -42,6 +44,7 @@ export async function listNotifyCandidates(db: Db, severities: Severity[], start
       pointId: alerts.pointId,
       message: alerts.message,
       startTs: alerts.startTs,
+      shownTs: alerts.shownTs,
       peakValue: alerts.peakValue,
       expectedCrossingTs: alerts.expectedCrossingTs,
       notifiedLevel: alerts.notifiedLevel,

@@ -49,6 +49,7 @@ export async function insertRaisedAlert(tx: DbWriter, t: RaiseFields, subject: A
     state: "active_unacked",
     message: t.message.slice(0, 300),
     startTs: t.raisedTs,
+    shownTs: nowMs,
     peakValue: Number.isFinite(t.peakValue) ? t.peakValue : null,
     expectedCrossingTs: t.expectedCrossingTs ?? null,
     chattering: t.chattering,

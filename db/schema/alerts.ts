@@ -74,6 +74,13 @@ export const alerts = mysqlTable(
     notifiedLevel: int("notified_level").notNull().default(0),
     /** When the alert last got worse (a higher severity, or a peak past the plant's setting): on call is told again from then. */
     worsenedTs: bigint("worsened_ts", { mode: "number" }),
+    /**
+     * When the worker wrote the row (wall clock). A raise can be written after its reading-time
+     * start (a silence held back while its siblings are awaited, an owner catching up on the
+     * journal): the first message waits notifyAfterS from whichever is later, so people get the
+     * time to acknowledge it that the setting promises.
+     */
+    shownTs: bigint("shown_ts", { mode: "number" }),
     /** The storm group it was sent to on call with (ingest/alerts-escalation.ts): alerts sharing it went out as one message. */
     notifyGroup: varchar("notify_group", { length: 80 }),
   },

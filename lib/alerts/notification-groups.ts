@@ -125,11 +125,13 @@ export type PendingNotifyItem = NotifyItem & {
 export type PlannedGroupMessage = { key: string; order: number; dueTs: number; items: PendingNotifyItem[]; group: NotificationGroup };
 
 /**
- * When an alert's first message is due: notifyAfterS after the raise; at once from when it got
+ * When an alert's first message is due: notifyAfterS after the raise, or after it was shown
+ * when it was written later than its raise (`shownTs`: a silence held back for its siblings, an
+ * owner catching up), so people always get the time to acknowledge it; at once from when it got
  * worse. `toldBefore` false (it got worse before anybody was told of it): whichever is earlier.
  */
-export function firstDueTs(a: { startTs: number; worsenedTs?: number | null; toldBefore?: boolean }, notifyAfterS: number): number {
-  const normal = a.startTs + notifyAfterS * 1000;
+export function firstDueTs(a: { startTs: number; shownTs?: number | null; worsenedTs?: number | null; toldBefore?: boolean }, notifyAfterS: number): number {
+  const normal = Math.max(a.startTs, a.shownTs ?? a.startTs) + notifyAfterS * 1000;
   if (a.worsenedTs == null) return normal;
   return a.toldBefore === false ? Math.min(normal, a.worsenedTs) : a.worsenedTs;
 }

@@ -16,6 +16,16 @@ describe("planNotification", () => {
     expect(DEFAULT_ALERTING_SETTINGS.notifyMinSeverity).toBe("medium");
   });
 
+  it("counts notifyAfterS from when the alert was shown when it was written after its raise", () => {
+    // a silence held back 30 s for its siblings (lib/alerts/dependency-hold.ts), written at T0 + 30 s:
+    // people get the full 5 min to acknowledge it, so order 1 is due at T0 + 30 s + 5 min
+    const held = { startTs: T0, shownTs: T0 + 30_000, notifiedLevel: 0 };
+    expect(planNotification(held, [1, 2, 3], settings, T0 + 5 * MIN)).toBeNull();
+    expect(planNotification(held, [1, 2, 3], settings, T0 + 30_000 + 5 * MIN)).toEqual({ order: 1, dueTs: T0 + 30_000 + 5 * MIN });
+    // written at once (shown at its raise, or before in clock terms): the raise counts
+    expect(planNotification({ startTs: T0, shownTs: T0 - 2000, notifiedLevel: 0 }, [1, 2, 3], settings, T0 + 5 * MIN)).toEqual({ order: 1, dueTs: T0 + 5 * MIN });
+  });
+
   it("e-mails order 1 only once the alert has waited notifyAfterS", () => {
     const alert = { startTs: T0, notifiedLevel: 0 };
     expect(planNotification(alert, [1, 2, 3], settings, T0 + 5 * MIN - 1)).toBeNull();

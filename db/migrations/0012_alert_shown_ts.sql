@@ -1,0 +1,1 @@
+ALTER TABLE `alerts` ADD `shown_ts` bigint;
