@@ -18,7 +18,7 @@ import type { AlertSubject } from "../db/queries/topology";
 import { ALERT_CHART_CID, frozenLineLink } from "../lib/charts/alert-chart";
 import { groupTitle, type PlannedGroupMessage } from "../lib/alerts/notification-groups";
 import { RULE_KIND_WORDS, SEVERITY_RANK, SEVERITY_WORDS, formatAlertValue, type Severity } from "../lib/vocabulary";
-import { composeAlertEmail, type AlertMailInput } from "../lib/mail/alert-emails";
+import { alertMailInput, composeAlertEmail, type AlertMailInput } from "../lib/mail/alert-emails";
 import { composeGroupEmail, composeGroupPhoneText, type GroupMailItem } from "../lib/mail/alert-group-emails";
 
 /** The time it got worse, when on call is to be told again (it was told of it before); else null. */
@@ -29,21 +29,7 @@ export function toldAgainTs(a: Pick<NotifyCandidate, "worsenedTs" | "toldBefore"
 export type SendOptions = { appUrl: string; timeZone: string; subjects: ReadonlyMap<string, AlertSubject> };
 
 function mailInput(a: NotifyCandidate, subject: AlertSubject | undefined): AlertMailInput {
-  return {
-    alertId: a.id,
-    kind: a.kind,
-    severity: a.severity,
-    state: "active_unacked",
-    message: a.message,
-    startTs: a.startTs,
-    peakValue: a.peakValue,
-    expectedCrossingTs: a.expectedCrossingTs,
-    areaName: a.areaName,
-    lineName: a.lineName,
-    pointName: a.pointName,
-    where: subject?.where ?? null,
-    linkLineId: a.lineId ?? subject?.linkLineId ?? null,
-  };
+  return alertMailInput({ ...a, state: "active_unacked" }, subject);
 }
 
 /** Sends one planned message; returns the alerts it told (none if all were acknowledged or told meanwhile). */

@@ -33,7 +33,7 @@ import { loadDryAirWarnings } from "../db/queries/forecast";
 import { refreshStoredForecast } from "./forecast-store";
 import { getSettings, tlsFiles } from "../lib/settings";
 import { formatPlantTime, previousPlantDay } from "../lib/plant-time";
-import { composeDigestEmail } from "../lib/mail/alert-emails";
+import { alertMailInput, composeDigestEmail } from "../lib/mail/alert-emails";
 import { createLogger, describeError } from "./log";
 import { renderMailCharts } from "./mail-chart";
 
@@ -97,19 +97,7 @@ export async function queueDailyDigests(db: Db, nowMs: number, appUrl: string): 
   for (const r of missing) {
     const mail = composeDigestEmail(
       alerts.map((a) => ({
-        alertId: a.id,
-        kind: a.kind,
-        severity: a.severity,
-        state: a.state,
-        message: a.message,
-        startTs: a.startTs,
-        peakValue: a.peakValue,
-        expectedCrossingTs: a.expectedCrossingTs,
-        areaName: a.areaName,
-        lineName: a.lineName,
-        pointName: a.pointName,
-        where: topo.subjects.get(a.subjectKey)?.where ?? null,
-        linkLineId: a.lineId ?? topo.subjects.get(a.subjectKey)?.linkLineId ?? null,
+        ...alertMailInput(a, topo.subjects.get(a.subjectKey)),
         endTs: a.endTs,
         shelved: a.shelvedUntilTs !== null && a.shelvedUntilTs > nowMs,
         chattering: a.chattering,

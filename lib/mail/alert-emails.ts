@@ -24,6 +24,28 @@ export type AlertMailInput = {
   linkLineId: number | null;
 };
 
+/** An alert row (with its hall, line and point names) and its place in the subject directory, as a mail sees it. */
+export function alertMailInput(
+  a: Omit<AlertMailInput, "alertId" | "where" | "linkLineId"> & { id: number; lineId: number | null },
+  subject: { where: string; linkLineId: number | null } | undefined,
+): AlertMailInput {
+  return {
+    alertId: a.id,
+    kind: a.kind,
+    severity: a.severity,
+    state: a.state,
+    message: a.message,
+    startTs: a.startTs,
+    peakValue: a.peakValue,
+    expectedCrossingTs: a.expectedCrossingTs,
+    areaName: a.areaName,
+    lineName: a.lineName,
+    pointName: a.pointName,
+    where: subject?.where ?? null,
+    linkLineId: a.lineId ?? subject?.linkLineId ?? null,
+  };
+}
+
 function whereText(a: AlertMailInput): string {
   return a.where ?? ([a.areaName, a.lineName, a.pointName].filter(Boolean).join(" › ") || "the plant");
 }
