@@ -1,6 +1,7 @@
 // MariaDB's transient refusals: a deadlock (1213) or a lock wait that ran out (1205) roll the
 // transaction back and ask for it to be run again. A person's action on a busy alert (the
-// worker escalating it at the same moment) is retried a few times instead of failing with a 500.
+// worker escalating it at the same moment) is retried a few times instead of failing with a 500;
+// the readings writer (db/queries/readings-write.ts) asks the same question before its own retry.
 const TRANSIENT = new Set([1213 /* deadlock */, 1205 /* lock wait timeout */]);
 
 export function isTransientDbError(err: unknown): boolean {

@@ -21,6 +21,7 @@ import type mysql from "mysql2/promise";
 import type { Db } from "../client";
 import { devices as devicesTable, rollup1m } from "../schema";
 import { CHANNELS, type Channel } from "../../lib/contract/readings-payload";
+import { isTransientDbError } from "../transient";
 
 /** `historical` rides along to the reading sinks (ingest/sinks.ts); it is not stored. */
 export type ReadingRow = { deviceId: number; channel: Channel; ts: number; value: number; historical?: boolean };
@@ -40,7 +41,6 @@ export const MINUTE_MS = 60_000;
 export const HOUR_MS = 3_600_000;
 const STATEMENT_ROWS = 5000;
 const CHANNEL_SET = new Set<string>(CHANNELS);
-const RETRYABLE = new Set([1213 /* deadlock */, 1205 /* lock wait timeout */]);
 const MAX_ATTEMPTS = 16;
 
 function assertSafeRow(r: ReadingRow): void {
@@ -272,7 +272,7 @@ export async function writeReadings(pool: mysql.Pool, input: readonly ReadingRow
       } catch (err) {
         await conn.rollback().catch(() => undefined);
         const code = errno(err);
-        const retry = code === 1062 /* duplicate key: a concurrent writer got there first */ || (code !== undefined && RETRYABLE.has(code));
+        const retry = code === 1062 /* duplicate key: a concurrent writer got there first */ || isTransientDbError(err);
         if (!retry || attempt >= MAX_ATTEMPTS) throw err;
         // writers racing over the same keys: step back a growing random moment
         await new Promise((r) => setTimeout(r, 5 + Math.random() * 10 * 2 ** Math.min(attempt, 6)));
