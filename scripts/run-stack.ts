@@ -5,6 +5,12 @@
 // simulators) and by `npm test` (without them). Written here rather than with `concurrently`
 // because start-up must be ordered by readiness (broker before worker before app) and a busy
 // port must give a clear message before anything starts.
+//   STACK_ONLY=smtp,broker,worker,mailer   start only the named processes (names as in the log;
+//     a worker is "worker", or "worker-1" … with WORKERS > 1); an unknown name stops with a
+//     message. The supervision drill (tests/integration/supervision.test.ts) runs the back end
+//     this way, without the app, which needs a `next build`.
+// Each start and restart is logged with the process id ("[stack] worker ready (pid 123)"), and each
+// unexpected stop with its signal or code and the delay before the restart.
 import { spawn, type ChildProcess } from "node:child_process";
 import fs from "node:fs";
 import net from "node:net";
@@ -49,6 +55,8 @@ if (mode === "demo") {
   services.push({ name: "plant", needs: "simulators/plant.ts", cmd: [...tsx, "simulators/plant.ts"], env: { SIM_SPARKPLUG_LINE: env.SIM_SPARKPLUG_LINE ?? "on" } });
 }
 
+const only = (env.STACK_ONLY ?? "").split(",").map((n) => n.trim()).filter(Boolean);
+
 const colours = ["36", "35", "33", "32", "34", "31", "90"];
 const running: { svc: Service; child: ChildProcess; startedTs: number; crashes: number }[] = [];
 let stopping = false;
@@ -64,10 +72,13 @@ function portOpen(port: number): Promise<boolean> {
   });
 }
 
+/** A child killed by a signal keeps exitCode null: it has ended when either is set. */
+const ended = (child: ChildProcess) => child.exitCode !== null || child.signalCode !== null;
+
 async function waitForPort(svc: Service, child: ChildProcess): Promise<void> {
   const deadline = Date.now() + (svc.readyTimeoutMs ?? 30_000);
   while (Date.now() < deadline) {
-    if (child.exitCode !== null) throw new Error(`${svc.name} exited with code ${child.exitCode} before it was ready`);
+    if (ended(child)) throw new Error(`${svc.name} exited (${child.signalCode ?? `code ${child.exitCode}`}) before it was ready`);
     if (await portOpen(svc.port!)) return;
     await new Promise((r) => setTimeout(r, 200));
   }
@@ -92,7 +103,8 @@ async function stopAll(code: number) {
   if (stopping) return;
   stopping = true;
   for (const { svc, child } of [...running].reverse()) {
-    if (child.exitCode !== null) continue;
+    // a process that crashed and waits for its restart has nothing to stop
+    if (ended(child)) continue;
     child.kill("SIGTERM");
     const done = await Promise.race([
       new Promise<boolean>((r) => child.once("exit", () => r(true))),
@@ -107,7 +119,12 @@ async function stopAll(code: number) {
 }
 
 async function main() {
-  const active = services.filter((s) => !s.needs || fs.existsSync(path.join(root, s.needs)));
+  const unknown = only.filter((n) => !services.some((s) => s.name === n));
+  if (unknown.length) {
+    console.error(`[stack] STACK_ONLY names no process called ${unknown.join(", ")} (there are: ${services.map((s) => s.name).join(", ")}).`);
+    process.exit(2);
+  }
+  const active = services.filter((s) => (!s.needs || fs.existsSync(path.join(root, s.needs))) && (only.length === 0 || only.includes(s.name)));
   for (const svc of active) {
     if (svc.port && (await portOpen(svc.port))) {
       console.error(
@@ -149,7 +166,7 @@ async function main() {
     running.push(entry);
     const child = launch(entry, i);
     if (svc.port) await waitForPort(svc, child);
-    console.log(`[stack] ${svc.name} ready${svc.port ? ` on 127.0.0.1:${svc.port}` : ""}`);
+    console.log(`[stack] ${svc.name} ready${svc.port ? ` on 127.0.0.1:${svc.port}` : ""} (pid ${child.pid})`);
   }
   started = true;
   console.log("[stack] all services ready");

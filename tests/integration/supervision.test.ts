@@ -1,0 +1,286 @@
+// The supervision drill: scripts/run-stack.ts, started as `npm test` starts it (`node --import tsx
+// scripts/run-stack.ts test`), with the embedded broker, against this slot's own test database,
+// running the back end only (STACK_ONLY: mail sink, broker, worker, mailer; the app needs a build).
+// Each process is killed with SIGKILL in turn:
+//  - the worker: the runner says so and starts it again after 1 s; killed again at once, after 2 s
+//    (scripts/stack-processes.ts restartDelayMs); a reading published afterwards is stored, and
+//    the Health report (db/queries/health.ts) shows the gap: the worker's last report stands still
+//    while it is down and is fresh again, from a new process, after;
+//  - the broker: started again, the worker reconnects (the Health report says it was not
+//    connected meanwhile) and a device's readings are stored again;
+//  - the mailer: started again, and a mail queued while it was down reaches the SMTP sink;
+//  - the runner stays up throughout, the processes not killed keep their process ids, and a
+//    SIGTERM while a crashed process waits for its restart stops everything at once.
+import fs from "node:fs";
+import path from "node:path";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { createTestDatabase, type TestDatabase } from "../helpers/test-db";
+import { readDeviceSecrets } from "../../db/seed";
+import { enqueueMail } from "../../db/queries/outbox";
+import { getHealthReport } from "../../db/queries/health";
+import { getIngestStatus } from "../../db/queries/ingest-diagnostics";
+import { deviceTopics } from "../../lib/contract/topics";
+import { healthVerdict } from "../../lib/health-verdict";
+import { readSinkIndex } from "../../ingest/smtp-sink";
+import { connectClient, endClient, freePort, getJson, publishAsync, ROOT, spawnTs, waitFor, type Proc } from "./ingest-support/processes";
+
+const FM = "fm-laminator-1-primary-unwind";
+const WORKER_ID = "ingest-supervision";
+const STATUS_MS = 500;
+const replica = { configured: false, usable: false, lagS: null, reason: "no replica is configured", checkedTs: null };
+
+let tdb: TestDatabase;
+let secrets: Record<string, string>;
+let runner: Proc;
+let dataDir: string;
+let mqttPort: number;
+let workerHealthPort: number;
+
+/** The runner's output without colours. */
+const log = () => runner.output().replace(/\x1b\[[0-9;]*m/g, "");
+
+/** The process id the runner last started a process with (from "[stack] worker ready … (pid N)"). */
+function pidOf(name: string): number {
+  const all = [...log().matchAll(new RegExp(`^\\[stack\\] ${name} (?:ready|restarted)\\b[^\\n]*\\(pid (\\d+)\\)$`, "gm"))];
+  if (all.length === 0) throw new Error(`no pid of ${name} in the runner's log:\n${log()}`);
+  return Number(all[all.length - 1][1]);
+}
+
+function alive(pid: number): boolean {
+  try {
+    process.kill(pid, 0);
+    return true;
+  } catch {
+    return false;
+  }
+}
+
+/**
+ * Kills a process with SIGKILL and waits for the runner to start it again; returns how long the
+ * runner took (from the kill to its "restarted" line) and the delay it announced.
+ */
+async function killAndAwaitRestart<T>(
+  name: string,
+  whileDown?: () => Promise<T>,
+): Promise<{ oldPid: number; newPid: number; tookMs: number; announced: string; killTs: number; during?: Promise<T> }> {
+  const oldPid = pidOf(name);
+  const restartsBefore = log().split(`[stack] ${name} restarted`).length;
+  const killTs = Date.now();
+  process.kill(oldPid, "SIGKILL");
+  const during = whileDown?.();
+  // a rejection is seen when the caller awaits it
+  during?.catch(() => undefined);
+  await waitFor(`the runner to restart ${name}`, async () => log().split(`[stack] ${name} restarted`).length > restartsBefore, 15_000, 25);
+  const tookMs = Date.now() - killTs;
+  const lines = log().split("\n").filter((l) => l.startsWith(`[stack] ${name} stopped unexpectedly`));
+  return { oldPid, newPid: pidOf(name), tookMs, announced: lines[lines.length - 1] ?? "", killTs, during };
+}
+
+async function stored(ts: number): Promise<boolean> {
+  const [rows] = await tdb.pool.query("SELECT COUNT(*) AS n FROM readings r JOIN devices d ON d.id = r.device_id WHERE d.code = ? AND r.ts = ?", [FM, ts]);
+  return Number((rows as Array<{ n: number }>)[0].n) === 1;
+}
+
+/** A device signs in (retrying while the broker starts), publishes one reading at QoS 1 and leaves. */
+async function publishReading(value: number): Promise<number> {
+  const client = await waitFor("the device's sign-in", () => connectClient(mqttPort, { clientId: FM, username: FM, password: secrets[FM], clean: true }), 20_000, 200);
+  const ts = Date.now();
+  await publishAsync(client, deviceTopics.readings(FM), JSON.stringify({ ts, values: { charge_kv: value } }));
+  await endClient(client);
+  return ts;
+}
+
+async function workerRow() {
+  const r = await getHealthReport(tdb.db, replica);
+  const w = r.workers.find((x) => x.id === WORKER_ID);
+  if (!w) throw new Error(`no worker ${WORKER_ID} in the Health report`);
+  return { report: r, worker: w };
+}
+
+async function startedTsOf(id: string): Promise<number | null> {
+  const row = (await getIngestStatus(tdb.db)).find((r) => r.workerId === id);
+  const s = row?.stats as { startedTs?: unknown } | null | undefined;
+  return typeof s?.startedTs === "number" ? s.startedTs : null;
+}
+
+beforeAll(async () => {
+  tdb = await createTestDatabase("supervision", { seed: true });
+  secrets = readDeviceSecrets(tdb.name);
+  const slot = process.env.STACK_SLOT ?? "0";
+  dataDir = path.join(ROOT, ".data", "test-supervision", `slot${slot}`);
+  fs.rmSync(dataDir, { recursive: true, force: true });
+  fs.mkdirSync(dataDir, { recursive: true });
+  [mqttPort, workerHealthPort] = [await freePort(), await freePort()];
+  const env: Record<string, string> = {
+    ...tdb.env,
+    STILLFIELD_MODE: "test",
+    STACK_ONLY: "smtp,broker,worker,mailer",
+    STACK_READY_FILE: path.join(dataDir, "stack-ready"),
+    BROKER: "embedded",
+    WORKERS: "1",
+    DATA_DIR: dataDir,
+    MQTT_HOST: "127.0.0.1",
+    MQTT_PORT: String(mqttPort),
+    MQTT_TLS_PORT: "0",
+    WORKER_HEALTH_PORT: String(workerHealthPort),
+    BROKER_HEALTH_PORT: String(await freePort()),
+    SMTP_HOST: "127.0.0.1",
+    SMTP_PORT: String(await freePort()),
+    MQTT_WORKER_PASSWORD: "worker-supervision-secret",
+    MQTT_APP_PASSWORD: "app-supervision-secret",
+    INGEST_CLIENT_ID: WORKER_ID,
+    BROKER_ID: "broker-supervision",
+    INGEST_STATUS_INTERVAL_MS: String(STATUS_MS),
+    MAILER_POLL_MS: "200",
+    DB_POOL_SIZE: "4",
+    SPARKPLUG_HOST: "off",
+  };
+  runner = spawnTs("stack", "scripts/run-stack.ts", ["test"], env);
+  await waitFor("the stack to start", async () => fs.existsSync(env.STACK_READY_FILE) || runner.child.exitCode !== null, 90_000, 200);
+  if (!fs.existsSync(env.STACK_READY_FILE)) throw new Error(`the stack did not start:\n${log()}`);
+});
+
+afterAll(async () => {
+  if (runner && runner.child.exitCode === null && runner.child.signalCode === null) await runner.stop("SIGTERM", 20_000);
+  await tdb?.close();
+});
+
+describe("supervision drill (scripts/run-stack.ts)", () => {
+  let smtpPid = 0;
+  let brokerPid = 0;
+  let brokerKillTs = 0;
+
+  it("starts only the processes STACK_ONLY names, and the worker stores a reading", async () => {
+    expect(log()).toMatch(/^\[stack\] all services ready$/m);
+    expect([...log().matchAll(/^\[stack\] (\S+) ready\b/gm)].map((m) => m[1])).toEqual(["smtp", "broker", "worker", "mailer"]);
+    smtpPid = pidOf("smtp");
+    brokerPid = pidOf("broker");
+    await waitFor("the worker's health endpoint", () => getJson(`http://127.0.0.1:${workerHealthPort}/health`).then(Boolean), 20_000);
+    const ts = await publishReading(1.5);
+    await waitFor("the reading to be stored", () => stored(ts), 15_000);
+  });
+
+  it("restarts a killed worker after 1 s; a reading published after is stored; the Health report shows the gap", async () => {
+    const before = await waitFor("the worker's first status", async () => (await workerRow()).worker, 10_000);
+    const startedBefore = await startedTsOf(WORKER_ID);
+    expect(startedBefore).not.toBeNull();
+
+    const r = await killAndAwaitRestart("worker", () => publishReading(2.0));
+    expect(r.announced).toBe("[stack] worker stopped unexpectedly (SIGKILL); restarting it in 1 s (crash 1 in a row)");
+    expect(r.tookMs).toBeGreaterThanOrEqual(1000);
+    expect(r.tookMs).toBeLessThan(4000);
+    expect(r.newPid).not.toBe(r.oldPid);
+    expect(alive(r.oldPid)).toBe(false);
+
+    // while it starts again the last report stands still: written before the kill, ageing
+    const during = (await workerRow()).worker;
+    expect(during.updatedTs).toBeLessThanOrEqual(r.killTs + STATUS_MS);
+    expect(during.updatedTs).toBeGreaterThanOrEqual(before.updatedTs);
+    const gapMs = Date.now() - during.updatedTs;
+    expect(gapMs).toBeGreaterThan(1000);
+
+    await waitFor("the restarted worker's health endpoint", () => getJson(`http://127.0.0.1:${workerHealthPort}/health`).then(Boolean), 30_000);
+    const ts = await publishReading(2.5);
+    await waitFor("the reading published after the restart to be stored", () => stored(ts), 15_000);
+    // and the one published while it was down, which the broker kept in the worker's session
+    expect(await stored(await r.during!)).toBe(true);
+
+    // fresh again, from the new process (its own start time), connected
+    const after = await waitFor("a fresh report from the new worker", async () => {
+      const { worker } = await workerRow();
+      return worker.updatedTs > r.killTs + 1000 && worker.mqttConnected ? worker : null;
+    }, 10_000);
+    expect(after.stale).toBe(false);
+    expect(await startedTsOf(WORKER_ID)).toBeGreaterThan(r.killTs);
+
+    // nothing else was touched, and the runner is still there
+    expect(pidOf("smtp")).toBe(smtpPid);
+    expect(pidOf("broker")).toBe(brokerPid);
+    expect(alive(brokerPid)).toBe(true);
+    expect(runner.child.exitCode).toBeNull();
+  });
+
+  it("waits 2 s before restarting a worker that crashes again at once", async () => {
+    const r = await killAndAwaitRestart("worker");
+    expect(r.announced).toBe("[stack] worker stopped unexpectedly (SIGKILL); restarting it in 2 s (crash 2 in a row)");
+    expect(r.tookMs).toBeGreaterThanOrEqual(2000);
+    expect(r.tookMs).toBeLessThan(5000);
+    await waitFor("the restarted worker's health endpoint", () => getJson(`http://127.0.0.1:${workerHealthPort}/health`).then(Boolean), 30_000);
+    const ts = await publishReading(3.5);
+    await waitFor("the reading to be stored", () => stored(ts), 15_000);
+    expect(runner.child.exitCode).toBeNull();
+  });
+
+  it("restarts a killed broker; the worker reconnects (the Health report shows it was cut off) and readings flow again", async () => {
+    const workerPid = pidOf("worker");
+    const r = await killAndAwaitRestart("broker");
+    brokerKillTs = r.killTs;
+    expect(r.announced).toBe("[stack] broker stopped unexpectedly (SIGKILL); restarting it in 1 s (crash 1 in a row)");
+    expect(r.tookMs).toBeGreaterThanOrEqual(1000);
+    expect(r.tookMs).toBeLessThan(4000);
+
+    // the gap: the worker, still reporting while the broker starts again, says it lost it (the
+    // broker is away for at least the 1 s delay; the worker reports every STATUS_MS)
+    const cutOff = await waitFor("a report that the worker lost the broker", async () => {
+      const { report, worker } = await workerRow();
+      return worker.updatedTs > r.killTs && worker.mqttConnected === false ? report : null;
+    }, 5000, 50);
+    expect(healthVerdict(cutOff).problems).toContain(`Ingest worker ${WORKER_ID} is not connected to the broker.`);
+    expect(log()).toMatch(/^\[worker\] .*lost the broker connection; reconnecting$/m);
+
+    const back = await waitFor("a report that the worker is connected again", async () => {
+      const { report, worker } = await workerRow();
+      return worker.mqttConnected === true && worker.updatedTs > r.killTs + 1000 ? report : null;
+    }, 30_000, 200);
+    expect(healthVerdict(back).problems.filter((p) => p.includes(WORKER_ID))).toEqual([]);
+    const ts = await publishReading(4.5);
+    await waitFor("a reading after the broker's restart to be stored", () => stored(ts), 20_000);
+    // the worker rode it out in the same process
+    expect(pidOf("worker")).toBe(workerPid);
+    expect(alive(workerPid)).toBe(true);
+    expect(pidOf("smtp")).toBe(smtpPid);
+    expect(runner.child.exitCode).toBeNull();
+  });
+
+  it("restarts a killed mailer and a mail queued while it was down reaches the SMTP sink", async () => {
+    const oldPid = pidOf("mailer");
+    const killTs = Date.now();
+    process.kill(oldPid, "SIGKILL");
+    const key = `supervision:${killTs}`;
+    await enqueueMail(tdb.db, { dedupeKey: key, toAddress: "lead@harrowfen.example", subject: "Queued while the mailer was down", bodyText: "Sent after the restart." }, killTs);
+    const waiting = await getHealthReport(tdb.db, replica);
+    expect(waiting.mail.pending).toBeGreaterThanOrEqual(1);
+
+    await waitFor("the runner to restart the mailer", async () => pidOf("mailer") !== oldPid, 15_000, 25);
+    expect(log()).toMatch(/^\[stack\] mailer stopped unexpectedly \(SIGKILL\); restarting it in 1 s \(crash 1 in a row\)$/m);
+    const entry = await waitFor("the mail in the SMTP sink", async () => readSinkIndex(dataDir).find((e) => e.key === key), 20_000, 200);
+    expect(entry).toMatchObject({ to: "lead@harrowfen.example", subject: "Queued while the mailer was down", duplicate: false });
+    expect((await getHealthReport(tdb.db, replica)).mail.pending).toBe(0);
+    expect(runner.child.exitCode).toBeNull();
+  });
+
+  it("the broker's own report comes from the new process once it has written one", async () => {
+    const started = await waitFor("the restarted broker's status", async () => {
+      const s = await startedTsOf("broker-supervision");
+      return s !== null && s > brokerKillTs ? s : null;
+    }, 20_000, 250);
+    expect(started).toBeGreaterThan(0);
+    const report = await getHealthReport(tdb.db, replica);
+    expect(report.brokers.find((b) => b.id === "broker-supervision")).toMatchObject({ stale: false });
+  });
+
+  it("stops everything at once on SIGTERM, even while a crashed process waits for its restart", async () => {
+    const pids = ["smtp", "broker", "worker"].map(pidOf);
+    process.kill(pidOf("mailer"), "SIGKILL");
+    await waitFor("the runner to notice the mailer's crash", async () => /^\[stack\] mailer stopped unexpectedly \(SIGKILL\); restarting it in 2 s/m.test(log()), 5000, 20);
+    const restarts = log().split("[stack] mailer restarted").length;
+    const t0 = Date.now();
+    const code = await runner.stop("SIGTERM", 20_000);
+    expect(code).toBe(0);
+    expect(Date.now() - t0).toBeLessThan(6000);
+    expect(log()).not.toMatch(/did not stop in 8 s/);
+    // the pending restart was dropped
+    expect(log().split("[stack] mailer restarted").length).toBe(restarts);
+    for (const pid of pids) expect(alive(pid)).toBe(false);
+  });
+});
