@@ -107,7 +107,7 @@ const schema = z.object({
   // worker
   WORKER_HEALTH_PORT: port(9464),
   INGEST_CLIENT_ID: z.string().min(1).max(64).default("stillfield-ingest-1"),
-  INGEST_FLUSH_MS: int(250, 5),
+  INGEST_FLUSH_MS: int(50, 5),
   INGEST_FLUSH_ROWS: int(5000, 1),
   /** parallel writers; a device always goes to the same one, so its readings stay in order */
   INGEST_LANES: int(2, 1),

@@ -33,6 +33,7 @@ import {
 } from "../tests/integration/ingest-support/processes";
 import { startPrivateMariadb, withDbPort, type PrivateMariadb } from "../tests/integration/ingest-support/private-mariadb";
 import { benchSparkplugDdata } from "./bench-sparkplug";
+import { WORKER_NODE_ARGS } from "./stack-processes";
 
 const { values: argv } = parseArgs({
   options: {
@@ -208,7 +209,7 @@ async function main(): Promise<void> {
 
     // (b) end to end, one reading per message
     // BENCH_WORKER_NODE_ARGS="--cpu-prof --cpu-prof-dir=.data/prof" profiles the worker
-    const worker = await stack.startWorker({}, process.env.BENCH_WORKER_NODE_ARGS?.split(" ").filter(Boolean) ?? []);
+    const worker = await stack.startWorker({}, process.env.BENCH_WORKER_NODE_ARGS?.split(" ").filter(Boolean) ?? WORKER_NODE_ARGS);
     let base = 0;
     const pubB = await connect(devices[1]);
     const cpuB = { worker: cpuMs(worker.child.pid), broker: cpuMs(stack.broker.child.pid), db: cpuMs(server.pid()), bench: process.cpuUsage() };
@@ -268,15 +269,19 @@ async function main(): Promise<void> {
     };
     const latencyFrom = Date.now() + 3000;
     const perDevice = Math.round(500 * opts.latencyS);
+    let rssSteady = 0;
+    const rssSampler = setInterval(() => (rssSteady = Math.max(rssSteady, rssMb(worker.child.pid))), 1000);
     await Promise.all(
       steady.map((cl, k) => publishMany(cl, deviceTopics.readings(devices[3 + k].code), perDevice, () => oneReading(stamp(k), 1.5), 100, 500)),
     );
+    clearInterval(rssSampler);
     await waitCommitted(stack, base + perDevice * 4, 60_000);
     base += perDevice * 4;
     const dStats = await stack.workerStats(latencyFrom);
     log(
       `(d) at 2,000 readings/s: publish-to-commit p50 ${dStats.freshness.p50Ms?.toFixed(0)} ms, p95 ${dStats.freshness.p95Ms?.toFixed(0)} ms ` +
-        `(${dStats.freshness.samples} readings); batch write p50 ${dStats.batch.p50Ms?.toFixed(1)} ms, p95 ${dStats.batch.p95Ms?.toFixed(1)} ms`,
+        `(${dStats.freshness.samples} readings); batch write p50 ${dStats.batch.p50Ms?.toFixed(1)} ms, p95 ${dStats.batch.p95Ms?.toFixed(1)} ms; ` +
+        `worker RSS at most ${rssSteady} MB (heap used ${(dStats as { memory?: { heapUsedMb?: number } }).memory?.heapUsedMb ?? "?"} MB)`,
     );
 
     // (e) memory while the database is down

@@ -8,6 +8,7 @@ import path from "node:path";
 import mqtt, { type IClientOptions, type MqttClient } from "mqtt";
 import { workerStatsSchema, type WorkerStats } from "../../../db/queries/ingest-diagnostics";
 import { SERVICE_ACCOUNTS, type ServiceRole } from "../../../lib/settings";
+import { WORKER_NODE_ARGS } from "../../../scripts/stack-processes";
 
 export const ROOT = path.resolve(import.meta.dirname, "../../..");
 
@@ -149,7 +150,7 @@ export async function startIngestStack(
     dataDir,
     broker,
     worker: null,
-    async startWorker(extraEnv = {}, nodeArgs = []) {
+    async startWorker(extraEnv = {}, nodeArgs = WORKER_NODE_ARGS) {
       const w = spawnTs("worker", "ingest/worker.ts", [], { ...env, ...extraEnv }, nodeArgs);
       stack.worker = w;
       await waitFor("the worker's health endpoint", () => getJson(`http://127.0.0.1:${workerHealthPort}/health`).then(Boolean), 60_000).catch((err) => {
