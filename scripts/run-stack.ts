@@ -153,11 +153,12 @@ async function main() {
       entry.crashes = Date.now() - entry.startedTs > STABLE_AFTER_MS ? 1 : entry.crashes + 1;
       const delay = restartDelayMs(entry.crashes);
       console.error(`[stack] ${svc.name} stopped unexpectedly (${signal ?? `code ${code}`}); restarting it in ${delay / 1000} s (crash ${entry.crashes} in a row)`);
+      // not unref'd: when every process has crashed, this timer is what keeps the runner alive
       setTimeout(() => {
         if (stopping) return;
         launch(entry, i);
         console.log(`[stack] ${svc.name} restarted (pid ${entry.child.pid})`);
-      }, delay).unref();
+      }, delay);
     });
     return child;
   };
