@@ -163,12 +163,15 @@ async function main() {
     return child;
   };
   for (const [i, svc] of active.entries()) {
+    // a Ctrl-C / SIGTERM during the start: start nothing more (stopAll stops what it saw)
+    if (stopping) return;
     const entry = { svc, child: null as unknown as ChildProcess, startedTs: 0, crashes: 0 };
     running.push(entry);
     const child = launch(entry, i);
     if (svc.port) await waitForPort(svc, child);
     console.log(`[stack] ${svc.name} ready${svc.port ? ` on 127.0.0.1:${svc.port}` : ""} (pid ${child.pid})`);
   }
+  if (stopping) return;
   started = true;
   console.log("[stack] all services ready");
   if (process.env.STACK_READY_FILE) fs.writeFileSync(process.env.STACK_READY_FILE, String(Date.now()));
