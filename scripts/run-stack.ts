@@ -16,7 +16,7 @@ import fs from "node:fs";
 import net from "node:net";
 import path from "node:path";
 import { getSettings } from "../lib/settings";
-import { brokerAndWorkers, restartDelayMs, STABLE_AFTER_MS } from "./stack-processes";
+import { brokerAndWorkers, nextCrashCount, restartDelayMs } from "./stack-processes";
 
 type Service = {
   name: string;
@@ -150,7 +150,7 @@ async function main() {
         void stopAll(1);
         return;
       }
-      entry.crashes = Date.now() - entry.startedTs > STABLE_AFTER_MS ? 1 : entry.crashes + 1;
+      entry.crashes = nextCrashCount(entry.crashes, Date.now() - entry.startedTs);
       const delay = restartDelayMs(entry.crashes);
       console.error(`[stack] ${svc.name} stopped unexpectedly (${signal ?? `code ${code}`}); restarting it in ${delay / 1000} s (crash ${entry.crashes} in a row)`);
       // not unref'd: when every process has crashed, this timer is what keeps the runner alive

@@ -5,7 +5,7 @@
 // Worker i (1-based) gets its own client id (its persistent session), health port (the first
 // one's + 100·(i−1)) and spill folder; only the first runs the Sparkplug host. With more than
 // one worker the alert owner is chosen by lease (ALERTS_OWNER=lease), unless set otherwise.
-// Also the restart delay of the supervisor (pure).
+// Also the supervisor's restart delay and crash count (pure).
 import type { Settings } from "../lib/settings";
 
 export type StackProcess = { name: string; needs?: string; cmd: string[]; port?: number; env?: Record<string, string>; readyTimeoutMs?: number };
@@ -53,3 +53,8 @@ export function restartDelayMs(crashesInARow: number): number {
 
 /** A process that ran this long before it crashed starts its count again. */
 export const STABLE_AFTER_MS = 60_000;
+
+/** The crash count after a crash, from the count before and how long the process had run. */
+export function nextCrashCount(before: number, ranMs: number): number {
+  return ranMs > STABLE_AFTER_MS ? 1 : before + 1;
+}

@@ -4,7 +4,7 @@
 // createRole, addRoleACL, removeRoleACL, modifyClient).
 import { describe, expect, it } from "vitest";
 import { credentialFingerprint, deviceRole, planDynsecSync, serviceClients, serviceRoles, type ActualClient, type DesiredClient } from "../../../lib/broker/dynsec-plan";
-import { restartDelayMs } from "../../../scripts/stack-processes";
+import { nextCrashCount, restartDelayMs, STABLE_AFTER_MS } from "../../../scripts/stack-processes";
 
 const dev = (code: string, over: Partial<DesiredClient> = {}): DesiredClient => ({
   username: code, clientid: code, password: `${code}-secret`, fingerprint: credentialFingerprint(`hash-${code}`), disabled: false, rolename: `sf-dev-${code}`, what: "device", ...over,
@@ -72,5 +72,12 @@ describe("planDynsecSync", () => {
 describe("supervisor restart delay", () => {
   it("doubles from 1 s per crash in a row up to 30 s", () => {
     expect([1, 2, 3, 4, 5, 6, 7].map(restartDelayMs)).toEqual([1000, 2000, 4000, 8000, 16_000, 30_000, 30_000]);
+  });
+
+  it("counts crashes in a row, and starts again at 1 after a minute of running", () => {
+    expect(nextCrashCount(0, 500)).toBe(1);
+    expect(nextCrashCount(3, STABLE_AFTER_MS)).toBe(4);
+    expect(nextCrashCount(5, STABLE_AFTER_MS + 1)).toBe(1);
+    expect(restartDelayMs(nextCrashCount(5, 90_000))).toBe(1000);
   });
 });
