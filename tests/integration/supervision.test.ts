@@ -1,22 +1,17 @@
-// The supervision drill: scripts/run-stack.ts, started as `npm test` starts it (`node --import tsx
-// scripts/run-stack.ts test`), against this slot's own test database, running the back end only
-// (STACK_ONLY; the app needs a `next build`). Processes are killed with SIGKILL in turn.
-// Embedded broker (mail sink, broker, worker, mailer):
-//  - the worker: the runner says so and starts it again after 1 s; killed again at once, after 2 s
-//    (scripts/stack-processes.ts restartDelayMs); readings published while it was down and after
-//    are stored, and the Health report (db/queries/health.ts) shows the gap: the worker's last
-//    report stands still while it is down and is fresh again, from a new process, after;
-//  - the broker: started again, the worker (same process) reconnects, the Health report says it
-//    was not connected meanwhile, and a device's readings are stored again;
-//  - the mailer: started again, and a mail queued while it was down reaches the SMTP sink;
-//  - the runner stays up throughout, the processes not killed keep their process ids; all of them
-//    killed at once are all started again; a SIGTERM while a crashed process waits for its
-//    restart stops everything at once.
-// Mosquitto profile (broker process and its mosquitto, two workers on a shared subscription):
-//  - the broker process killed: restarted, it stops the mosquitto the killed one left running,
-//    and both workers get readings again; mosquitto itself killed: its broker process exits and
-//    is restarted (2 s, the second crash in a row); SIGTERM stops mosquitto with the rest.
+// The supervision drill: scripts/run-stack.ts started as `npm test` starts it, against this slot's
+// own test database, back end only (STACK_ONLY; the app needs a `next build`); its processes are
+// killed with SIGKILL. Embedded broker (mail sink, broker, worker, mailer): the worker comes back
+// after 1 s, killed again at once after 2 s (scripts/stack-processes.ts), storing what was
+// published while it was down and after, and the Health report (db/queries/health.ts) shows the
+// gap (its last report stands still, then fresh from a new process); the broker comes back, the
+// worker reconnects (the report says it was cut off meanwhile) and readings are stored; a mail
+// queued while the mailer was down reaches the SMTP sink; all killed at once all come back; the
+// runner never exits, the others keep their process ids, and a SIGTERM while a crashed process
+// waits for its restart stops everything at once. Mosquitto profile (two workers, shared
+// subscription): the broker process killed comes back and stops the mosquitto it left running,
+// both workers get readings again; mosquitto itself killed: its broker process exits, is restarted.
 import fs from "node:fs";
+import net from "node:net";
 import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { createTestDatabase, type TestDatabase } from "../helpers/test-db";
@@ -52,6 +47,14 @@ function pidOf(name: string): number {
   return Number(all[all.length - 1][1]);
 }
 
+function portFree(port: number): Promise<boolean> {
+  return new Promise((resolve) => {
+    const srv = net.createServer();
+    srv.once("error", () => resolve(false));
+    srv.listen(port, "127.0.0.1", () => srv.close(() => resolve(true)));
+  });
+}
+
 function alive(pid: number): boolean {
   try {
     process.kill(pid, 0);
@@ -82,19 +85,9 @@ async function killAndAwaitRestart<T>(
   return { oldPid, newPid: pidOf(name), tookMs, announced: lines[lines.length - 1] ?? "", killTs, during };
 }
 
-async function stored(ts: number): Promise<boolean> {
-  const [rows] = await tdb.pool.query("SELECT COUNT(*) AS n FROM readings r JOIN devices d ON d.id = r.device_id WHERE d.code = ? AND r.ts = ?", [FM, ts]);
-  return Number((rows as Array<{ n: number }>)[0].n) === 1;
-}
-
 /** A device signs in (retrying while the broker starts), publishes one reading at QoS 1 and leaves. */
-async function publishReading(value: number): Promise<number> {
-  const client = await waitFor("the device's sign-in", () => connectClient(mqttPort, { clientId: FM, username: FM, password: secrets[FM], clean: true }), 20_000, 200);
-  const ts = Date.now();
-  await publishAsync(client, deviceTopics.readings(FM), JSON.stringify({ ts, values: { charge_kv: value } }));
-  await endClient(client);
-  return ts;
-}
+const publishReading = async () => (await publishReadings(1))[0];
+const stored = async (ts: number) => (await storedCount([ts])) === 1;
 
 /** One device connection publishing `n` readings at QoS 1 (each message one reading); their times. */
 async function publishReadings(n: number): Promise<number[]> {
@@ -130,7 +123,12 @@ async function startRunner(name: string, extra: Record<string, string>): Promise
   dataDir = path.join(ROOT, ".data", "test-supervision", `slot${slot}-${name}`);
   fs.rmSync(dataDir, { recursive: true, force: true });
   fs.mkdirSync(dataDir, { recursive: true });
-  [mqttPort, workerHealthPort] = [await freePort(), await freePort()];
+  mqttPort = await freePort();
+  // worker i listens on the first one's port + 100·(i−1) (scripts/stack-processes.ts): both free
+  workerHealthPort = await waitFor("two free health ports 100 apart", async () => {
+    const p = await freePort();
+    return p + 100 < 65_536 && (await portFree(p + 100)) ? p : null;
+  }, 5000, 0);
   const env: Record<string, string> = {
     ...tdb.env,
     STILLFIELD_MODE: "test",
@@ -188,7 +186,7 @@ describe("supervision drill (scripts/run-stack.ts), embedded broker", () => {
     smtpPid = pidOf("smtp");
     brokerPid = pidOf("broker");
     await waitFor("the worker's health endpoint", () => getJson(`http://127.0.0.1:${workerHealthPort}/health`).then(Boolean), 20_000);
-    const ts = await publishReading(1.5);
+    const ts = await publishReading();
     await waitFor("the reading to be stored", () => stored(ts), 15_000);
   });
 
@@ -197,7 +195,7 @@ describe("supervision drill (scripts/run-stack.ts), embedded broker", () => {
     const startedBefore = await startedTsOf(WORKER_ID);
     expect(startedBefore).not.toBeNull();
 
-    const r = await killAndAwaitRestart("worker", () => publishReading(2.0));
+    const r = await killAndAwaitRestart("worker", () => publishReading());
     expect(r.announced).toBe("[stack] worker stopped unexpectedly (SIGKILL); restarting it in 1 s (crash 1 in a row)");
     expect(r.tookMs).toBeGreaterThanOrEqual(1000);
     expect(r.tookMs).toBeLessThan(4000);
@@ -212,7 +210,7 @@ describe("supervision drill (scripts/run-stack.ts), embedded broker", () => {
     expect(gapMs).toBeGreaterThan(1000);
 
     await waitFor("the restarted worker's health endpoint", () => getJson(`http://127.0.0.1:${workerHealthPort}/health`).then(Boolean), 30_000);
-    const ts = await publishReading(2.5);
+    const ts = await publishReading();
     await waitFor("the reading published after the restart to be stored", () => stored(ts), 15_000);
     // and the one published while it was down, which the broker kept in the worker's session
     expect(await stored(await r.during!)).toBe(true);
@@ -238,7 +236,7 @@ describe("supervision drill (scripts/run-stack.ts), embedded broker", () => {
     expect(r.tookMs).toBeGreaterThanOrEqual(2000);
     expect(r.tookMs).toBeLessThan(5000);
     await waitFor("the restarted worker's health endpoint", () => getJson(`http://127.0.0.1:${workerHealthPort}/health`).then(Boolean), 30_000);
-    const ts = await publishReading(3.5);
+    const ts = await publishReading();
     await waitFor("the reading to be stored", () => stored(ts), 15_000);
     expect(runner.child.exitCode).toBeNull();
   });
@@ -265,7 +263,7 @@ describe("supervision drill (scripts/run-stack.ts), embedded broker", () => {
       return worker.mqttConnected === true && worker.updatedTs > r.killTs + 1000 ? report : null;
     }, 30_000, 200);
     expect(healthVerdict(back).problems.filter((p) => p.includes(WORKER_ID))).toEqual([]);
-    const ts = await publishReading(4.5);
+    const ts = await publishReading();
     await waitFor("a reading after the broker's restart to be stored", () => stored(ts), 20_000);
     // the worker rode it out in the same process
     expect(pidOf("worker")).toBe(workerPid);
@@ -287,7 +285,7 @@ describe("supervision drill (scripts/run-stack.ts), embedded broker", () => {
     expect(log()).toMatch(/^\[stack\] mailer stopped unexpectedly \(SIGKILL\); restarting it in 1 s \(crash 1 in a row\)$/m);
     const entry = await waitFor("the mail in the SMTP sink", async () => readSinkIndex(dataDir).find((e) => e.key === key), 20_000, 200);
     expect(entry).toMatchObject({ to: "lead@harrowfen.example", subject: "Queued while the mailer was down", duplicate: false });
-    expect((await getHealthReport(tdb.db, replica)).mail.pending).toBe(0);
+    await waitFor("an empty mail queue", async () => (await getHealthReport(tdb.db, replica)).mail.pending === 0, 10_000, 200);
     expect(runner.child.exitCode).toBeNull();
   });
 
@@ -313,7 +311,7 @@ describe("supervision drill (scripts/run-stack.ts), embedded broker", () => {
     expect(log()).toMatch(/^\[stack\] worker stopped unexpectedly \(SIGKILL\); restarting it in 4 s \(crash 3 in a row\)$/m);
     names.forEach((n, i) => expect(pidOf(n)).not.toBe(old[i]));
     await waitFor("the restarted worker's health endpoint", () => getJson(`http://127.0.0.1:${workerHealthPort}/health`).then(Boolean), 30_000);
-    const ts = await publishReading(5.5);
+    const ts = await publishReading();
     await waitFor("a reading after the whole back end restarted", () => stored(ts), 20_000);
   });
 
