@@ -6,6 +6,7 @@ import { areas, devices, equipmentEvents, lines, points, rollup1m } from "../sch
 import { DAY_MS } from "../../lib/vocabulary";
 import type { DeviceKind } from "./equipment-labels";
 import { getIngestStatus, listRecentRejections } from "./ingest-diagnostics";
+import { CHANNELS } from "../../lib/contract/readings-payload";
 import { getPlaceOptions, type PlaceOptions } from "./places";
 import { notFound } from "../../lib/errors";
 
@@ -68,7 +69,8 @@ export async function listDevices(db: Db, nowMs = Date.now(), opts: { ids?: numb
     db
       .select({ deviceId: rollup1m.deviceId, n: sql<number>`sum(${rollup1m.count})` })
       .from(rollup1m)
-      .where(and(inArray(rollup1m.deviceId, rows.map((r) => r.id)), gte(rollup1m.bucketTs, rateFrom)))
+      // every channel named, so the key (device, channel, minute) bounds the read to the window
+      .where(and(inArray(rollup1m.deviceId, rows.map((r) => r.id)), inArray(rollup1m.channel, [...CHANNELS]), gte(rollup1m.bucketTs, rateFrom)))
       .groupBy(rollup1m.deviceId),
     // the worker keeps the newest few hundred rejections (ingest diagnostics)
     listRecentRejections(db, { limit: 500 }),

@@ -7,6 +7,7 @@
 import { sql } from "drizzle-orm";
 import type { Db } from "../client";
 import type { RecentSeries } from "../../lib/views/floor";
+import { CHANNELS } from "../../lib/contract/readings-payload";
 
 export const ROLLUP_MINUTE_MS = 60_000;
 
@@ -30,10 +31,14 @@ export async function getFloorTrends(db: Db, deviceIds: number[], nowTs: number,
   if (deviceIds.length === 0) return [];
   const fromTs = Math.floor((nowTs - trendMs) / ROLLUP_MINUTE_MS) * ROLLUP_MINUTE_MS;
   const ids = sql.join(deviceIds.map((id) => sql`${id}`), sql`, `);
+  // every channel named: the key is (device, channel, minute), and with the devices alone
+  // MariaDB reads each device's whole kept history (1.5 M rows for the demo plant, 250 ms)
+  // instead of 15 rows per series
+  const channels = sql.join(CHANNELS.map((c) => sql`${c}`), sql`, `);
   const [minuteRes, latestRes] = await Promise.all([
     db.execute(sql`
       SELECT device_id AS d, channel AS c, bucket_ts AS t, sum / count AS v
-        FROM rollup_1m WHERE device_id IN (${ids}) AND bucket_ts >= ${fromTs} AND bucket_ts <= ${nowTs} AND count > 0
+        FROM rollup_1m WHERE device_id IN (${ids}) AND channel IN (${channels}) AND bucket_ts >= ${fromTs} AND bucket_ts <= ${nowTs} AND count > 0
        ORDER BY device_id, channel, bucket_ts`),
     // newest reading per series: MAX(ts) per (device, channel) over the whole plant is a loose
     // scan of the primary key (one dive per series); a device list there (turned into a table

@@ -1,11 +1,15 @@
 // The Floor's snapshot and the limits it draws, against a seeded database of its own.
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { createTestDatabase, type TestDatabase } from "../helpers/test-db";
-import { alerts, ruleVersions, rules, settings } from "@/db/schema";
+import { alerts, rollup1m, ruleVersions, rules, settings } from "@/db/schema";
 import { eq } from "drizzle-orm";
 import { getFloorSnapshot, getPlantSettings, listLineAlerts } from "@/db/queries/floor";
 import { DEMO_AREAS, DEMO_LINES } from "@/lib/demo-plant";
 import { writeReadings } from "@/db/queries/readings-write";
+import { getFloorTrends } from "@/db/queries/floor-trends";
+import * as schema from "@/db/schema";
+import { drizzle } from "drizzle-orm/mysql2";
+import mysql from "mysql2/promise";
 
 let tdb: TestDatabase;
 const now = Math.floor(Date.now() / 1000) * 1000;
@@ -132,5 +136,34 @@ describe("floor snapshot", () => {
     }
     // the answer stays small: a few hundred bytes per series, not one point per 10 s
     expect(JSON.stringify(s).length).toBeLessThan(600);
+  });
+
+  it("reads the trends' 15 minutes of rollups only, however much history a sensor has", async () => {
+    const minute = 60_000;
+    const at = Math.floor(now / minute) * minute;
+    const snap0 = await getFloorSnapshot(tdb.db, { nowMs: at });
+    const meter = snap0.areas[0].lines[1].points[0].fieldMeter!;
+    // 30 days of 1-minute rollups before the window, as the demo keeps
+    const old: (typeof rollup1m.$inferInsert)[] = [];
+    for (let ts = at - 30 * 1440 * minute; ts < at - 60 * minute; ts += minute) old.push({ deviceId: meter.deviceId, channel: "charge_kv", bucketTs: ts, min: 1, max: 2, count: 60, sum: 90, sumSq: 140 });
+    for (let i = 0; i < old.length; i += 2000) await tdb.db.insert(rollup1m).values(old.slice(i, i + 2000));
+    // one connection of its own, so its session counters count this query's row reads only
+    const conn = await mysql.createConnection({ host: tdb.env.DB_HOST, port: Number(tdb.env.DB_PORT), user: tdb.env.DB_USER, password: tdb.env.DB_PASSWORD, database: tdb.name });
+    try {
+      const db = drizzle(conn, { schema, mode: "default" });
+      const reads = async () => {
+        const [rows] = await conn.query("SHOW SESSION STATUS WHERE Variable_name IN ('Handler_read_next', 'Handler_read_key')");
+        return (rows as Array<{ Value: string }>).reduce((n, r) => n + Number(r.Value), 0);
+      };
+      const before = await reads();
+      const trends = await getFloorTrends(db, [meter.deviceId], at, 15 * minute);
+      const read = (await reads()) - before;
+      expect(trends.find((t) => t.channel === "charge_kv")?.samples.length ?? 0).toBeLessThanOrEqual(17);
+      // index dives and the window's rows (the newest-reading query reads the recent raw readings too);
+      // reading the device's history as well would be over 43,000
+      expect(read).toBeLessThan(10_000);
+    } finally {
+      await conn.end();
+    }
   });
 });
