@@ -1,5 +1,5 @@
 // The Floor's snapshot, shared by every screen this app process serves: built at most once per
-// FLOOR_CACHE_MS (per hall, or the whole plant) and serialised once, so fifty open Floors and
+// FLOOR_CACHE_MS (per hall, or the whole plant) and serialised and encoded once, so fifty open Floors and
 // wallboards cost one set of queries a second instead of fifty. Once it has aged past
 // FLOOR_CACHE_MS, one request starts the next build and every request meanwhile is answered at
 // once with the one before (stale while it is rebuilt), as long as that one is under
@@ -13,7 +13,8 @@ import { getEnv } from "@/db/env";
 import { getFloorSnapshot } from "@/db/queries/floor";
 import type { FloorSnapshot } from "@/lib/views/floor";
 
-export type CachedFloor = { snapshot: FloorSnapshot; json: string };
+/** The snapshot and its JSON, encoded once: every screen gets the same bytes. */
+export type CachedFloor = { snapshot: FloorSnapshot; body: Uint8Array<ArrayBuffer> };
 
 /** How much older than FLOOR_CACHE_MS a snapshot may be served while the next is built. */
 const STALE_SERVE_FACTOR = 3;
@@ -25,7 +26,7 @@ const holder = globalThis as unknown as { __stillfieldFloorCache?: Map<string, E
 
 async function build(areaId: number | undefined): Promise<CachedFloor> {
   const snapshot = await getFloorSnapshot(getDb(), { areaId, trendDb: await getReadDb() });
-  return { snapshot, json: JSON.stringify(snapshot) };
+  return { snapshot, body: new TextEncoder().encode(JSON.stringify(snapshot)) };
 }
 
 /** The Floor's snapshot for the whole plant (no areaId) or one hall, at most FLOOR_CACHE_MS old (or being rebuilt). */

@@ -15,7 +15,7 @@ const querySchema = z.object({ areaId: z.coerce.number().int().positive().option
 
 export const GET = route("view", async ({ request }) => {
   const q = parseOrThrow(querySchema, queryObject(request), "floor query");
-  const { snapshot, json } = await getCachedFloor(q.areaId);
+  const { snapshot, body } = await getCachedFloor(q.areaId);
   if (q.areaId !== undefined && snapshot.areas.length === 0) throw notFound(`No hall with id ${q.areaId}.`);
-  return new Response(json, { headers: { "Content-Type": "application/json", "Cache-Control": "private, no-store" } });
+  return new Response(body, { headers: { "Content-Type": "application/json", "Cache-Control": "private, no-store" } });
 });
