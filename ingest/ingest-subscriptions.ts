@@ -28,7 +28,7 @@ export function ingestSubscriptions(s: Pick<Settings, "BROKER" | "INGEST_SHARE_G
  * same filter does not repair it; unsubscribing first does. So a worker that finds its session
  * present unsubscribes and subscribes again (its queued messages stay in the session).
  * ingest/mosquitto/session-repair.ts does the same for every worker session right after a
- * restart, before devices reconnect.
+ * restart, while ingest/mosquitto/device-gate.ts keeps devices out until it is done.
  */
 export function subscribeIngest(
   client: MqttClient,

@@ -2,8 +2,9 @@
 // privately on 127.0.0.1:MQTT_PORT (and the TLS listener when MQTT_TLS_PORT is set), with its
 // configuration, credentials (dynamic-security plugin) and persistence under MOSQUITTO_DIR
 // (default DATA_DIR/mosquitto/<DB_NAME>). This process writes the configuration, makes the
-// plugin's admin once (`mosquitto_ctrl dynsec init`), starts mosquitto as its child, keeps the
-// plugin's clients and roles in step with the devices table (sync.ts), and serves counters on
+// plugin's admin once (`mosquitto_ctrl dynsec init`), starts mosquitto as its child with the
+// devices held back until it has repaired the workers' restored sessions (device-gate.ts), keeps
+// the plugin's clients and roles in step with the devices table (sync.ts), and serves counters on
 // GET 127.0.0.1:BROKER_HEALTH_PORT/health. When mosquitto stops, so does this process (the
 // supervisor restarts both); SIGTERM/SIGINT stop mosquitto cleanly (it saves its sessions).
 import { execFileSync, spawn, type ChildProcess } from "node:child_process";
@@ -16,6 +17,7 @@ import { getSettings } from "../../lib/settings";
 import { startHealthServer } from "../health-server";
 import { createLogger, describeError } from "../log";
 import { ADMIN_USERNAME, findDynsecPlugin, mosquittoConfig, mosquittoFiles } from "./config";
+import { closeDeviceGate, openDeviceGate } from "./device-gate";
 import { DynsecClient } from "./dynsec-client";
 import { repairWorkerSessions } from "./session-repair";
 import { keepDynsecInStep, type SyncReport } from "./sync";
@@ -68,6 +70,8 @@ export async function startMosquitto() {
   fs.writeFileSync(files.conf, mosquittoConfig(s, files, findDynsecPlugin()), { mode: 0o600 });
   stopLeftOver(files.pid, files.conf);
   if (await portOpen(s.MQTT_PORT)) throw new Error(`127.0.0.1:${s.MQTT_PORT} is taken by another program`);
+  // devices stay out until the workers' restored sessions are repaired (device-gate.ts says why)
+  const heldBack = closeDeviceGate(files, ADMIN_USERNAME);
 
   const child = spawn(s.MOSQUITTO_BIN, ["-c", files.conf], { stdio: ["ignore", "pipe", "pipe"] });
   starting = child;
@@ -94,6 +98,10 @@ export async function startMosquitto() {
   const repaired = await repairWorkerSessions(db, s, log).catch((err: unknown) => (log.warn("could not repair the workers' sessions", { error: describeError(err) }), []));
   if (repaired.length) log.info(`renewed the shared subscriptions of ${repaired.length} worker session(s)`, { workers: repaired });
   const dynsec = await DynsecClient.connect({ host: "127.0.0.1", port: s.MQTT_PORT, username: ADMIN_USERNAME, password: s.MQTT_ADMIN_PASSWORD, clientId: `stillfield-dynsec-${process.pid}` });
+  if (heldBack.length) {
+    await openDeviceGate(dynsec, files, heldBack);
+    log.info(`let ${heldBack.length} device account(s) in, held back until the workers' sessions were repaired`);
+  }
   let lastReport: (SyncReport & { ts: number }) | null = null;
   const stopSync = await keepDynsecInStep(
     db,

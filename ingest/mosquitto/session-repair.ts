@@ -1,6 +1,6 @@
 // Right after the private Mosquitto starts: repair the shared subscriptions of the workers'
-// persistent sessions (ingest/ingest-subscriptions.ts says why), before devices reconnect, so
-// nothing a device sends in the first second after a restart goes to a subscription that
+// persistent sessions (ingest/ingest-subscriptions.ts says why), while devices are still held
+// back (device-gate.ts), so nothing a device sends after a restart goes to a subscription that
 // delivers nothing. The workers' client ids are those that report to ingest_status. A session
 // the broker does not have is not created (ended at once with a session expiry of 0).
 import mqtt from "mqtt";
