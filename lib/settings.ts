@@ -185,6 +185,8 @@ const schema = z.object({
   /** header name, random per process, in which the app's server passes the socket's address */
   STILLFIELD_PEER_HEADER: optionalText,
   PLANT_TIME_ZONE: z.string().default("Europe/London"),
+  /** Next.js instances side by side on APP_PORT (scripts/app-server.mjs, node:cluster) */
+  APP_INSTANCES: z.coerce.number().int().min(1).max(16).default(1),
   /** how long one app process reuses a Floor snapshot (per hall) for every screen asking */
   FLOOR_CACHE_MS: int(1000, 0),
   /** bearer token for GET /api/health from a plant's monitoring (unset: admin sessions only) */

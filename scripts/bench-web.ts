@@ -11,7 +11,8 @@
 // Targets (README "Benchmarks"): /api/floor p95 < 150 ms at 50 concurrent; 1,000 points < 200 ms.
 // The last line reads:
 //   web: floor <N> req/s p95 <ms> ms, history <N> req/s p95 <ms> ms, page <N> req/s p95 <ms> ms, floor 1000 points <ms> ms
-// Options: --connections (50) --seconds (20 per endpoint) --skip-1000
+// Options: --connections (50) --seconds (20 per endpoint) --skip-1000 --only floor|history|page (one
+// endpoint, e.g. while profiling the app; the last line then names only that one)
 // Not part of npm test.
 import { parseArgs } from "node:util";
 import autocannon from "autocannon";
@@ -23,6 +24,7 @@ const { values: argv } = parseArgs({
     connections: { type: "string", default: "50" },
     seconds: { type: "string", default: "20" },
     "skip-1000": { type: "boolean", default: false },
+    only: { type: "string" },
   },
 });
 const appUrl = (process.env.APP_URL ?? "http://127.0.0.1:3000").replace(/\/$/, "");
@@ -108,7 +110,9 @@ async function main() {
   if (h.status !== 200) throw new Error(`GET ${historyPath} answered ${h.status}: ${(await h.text()).slice(0, 200)}`);
 
   const results: Record<string, Result> = {};
-  for (const [name, path] of [["floor", "/api/floor"], ["history", historyPath], ["page", "/floor"]] as const) {
+  const endpoints = ([["floor", "/api/floor"], ["history", historyPath], ["page", "/floor"]] as const).filter(([name]) => !argv.only || argv.only === name);
+  if (endpoints.length === 0) throw new Error(`--only takes floor, history or page (got ${argv.only})`);
+  for (const [name, path] of endpoints) {
     log(`${name}: ${connections} connections for ${seconds} s on ${path.split("?")[0]}…`);
     const r = await run(path, cookies);
     results[name] = r;
@@ -126,6 +130,11 @@ async function main() {
     } finally {
       await gen.close();
     }
+  }
+  if (argv.only) {
+    const r = results[argv.only];
+    console.log(`web: ${argv.only} ${r.rps.toFixed(0)} req/s p95 ${r.p95.toFixed(0)} ms (only this one)`);
+    return;
   }
   const f = results.floor;
   const hi = results.history;

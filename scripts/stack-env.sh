@@ -40,6 +40,8 @@ else
   export PUSH_FAKE_PORT="${PUSH_FAKE_PORT:-9467}"
   export WEATHER_FAKE_PORT="${WEATHER_FAKE_PORT:-9468}"
   export NEXT_DIST_DIR="${NEXT_DIST_DIR:-.next}"
+  # two Next.js instances on the one port (scripts/app-server.mjs): the Floor of many screens
+  export APP_INSTANCES="${APP_INSTANCES:-2}"
 fi
 export APP_URL="${APP_URL:-http://127.0.0.1:${APP_PORT}}"
 export NEXTAUTH_URL="${NEXTAUTH_URL:-$APP_URL}"
