@@ -94,9 +94,10 @@ export type RestartWindow = { begin: number; back: number };
  * One line on the readings acknowledged but not stored, by when the broker acknowledged them:
  * before a restart (they waited in a worker's session), while a restarted broker was starting
  * (before the workers' sessions were repaired), or after; with how many a plain subscriber saw
- * (the broker routed them) and how many were acknowledged "no matching subscribers" (16).
+ * (the broker routed them; when there is one) and how many were acknowledged "no matching
+ * subscribers" (16).
  */
-export function describeLost(missing: string[], acks: Map<string, Ack>, windows: RestartWindow[], seen: Set<string>): string {
+export function describeLost(missing: string[], acks: Map<string, Ack>, windows: RestartWindow[], seen: Set<string> | null): string {
   let before = 0;
   let starting = 0;
   let after = 0;
@@ -106,10 +107,10 @@ export function describeLost(missing: string[], acks: Map<string, Ack>, windows:
     else if (windows.length === 0 || at < windows[0].begin) before++;
     else after++;
   }
-  const routed = missing.filter((k) => seen.has(k)).length;
+  const routed = seen ? `seen by a plain subscriber ${missing.filter((k) => seen.has(k)).length}; ` : "";
   const noSubscribers = [...acks.values()].filter((a) => a.reasonCode === 16).length;
   return (
     `not stored ${missing.length}, acknowledged: before the first restart ${before}, while a restarted broker was starting ${starting}, after ${after}; ` +
-    `seen by a plain subscriber ${routed}; acknowledged "no matching subscribers" ${noSubscribers} of ${acks.size}`
+    `${routed}acknowledged "no matching subscribers" ${noSubscribers} of ${acks.size}`
   );
 }

@@ -118,16 +118,19 @@ async function main() {
     // BENCH_RESTART_AT: where Mosquitto is restarted, as fractions of the acknowledged stream
     const restartAt = (process.env.BENCH_RESTART_AT ?? "0.6").split(",").map(Number);
     let restarting = false;
-    // a plain (not shared) subscriber: tells a reading the broker routed nowhere from one lost after it
+    // BENCH_OBSERVE=1: a plain (not shared) subscriber tells a reading the broker routed nowhere
+    // from one lost after it (it also hides "no matching subscribers": there always is one)
     const seen = new Set<string>();
-    const observer = await mqtt.connectAsync({ host: "127.0.0.1", port: s.mqttPort, username: "svc-worker", password: s.env.MQTT_WORKER_PASSWORD, clientId: "bench-observer", protocolVersion: 5, clean: false, reconnectPeriod: 300, properties: { sessionExpiryInterval: 3600 } });
-    const oneReading = z.object({ ts: z.number() });
-    observer.on("message", (topic, payload) => {
-      const r = oneReading.safeParse(JSON.parse(payload.toString()));
-      if (r.success) seen.add(`${topic.split("/")[2]}|${r.data.ts}`);
-    });
-    await observer.subscribeAsync("stillfield/d/+/readings", { qos: 1 });
-    publishers.push(observer);
+    const observer = process.env.BENCH_OBSERVE !== "1" ? null : await mqtt.connectAsync({ host: "127.0.0.1", port: s.mqttPort, username: "svc-worker", password: s.env.MQTT_WORKER_PASSWORD, clientId: "bench-observer", protocolVersion: 5, clean: false, reconnectPeriod: 300, properties: { sessionExpiryInterval: 3600 } });
+    if (observer) {
+      const oneReading = z.object({ ts: z.number() });
+      observer.on("message", (topic, payload) => {
+        const r = oneReading.safeParse(JSON.parse(payload.toString()));
+        if (r.success) seen.add(`${topic.split("/")[2]}|${r.data.ts}`);
+      });
+      await observer.subscribeAsync("stillfield/d/+/readings", { qos: 1 });
+      publishers.push(observer);
+    }
     const before = await stored();
     const drill = publishStream(pubs, opts.drill, drillFrom, (code, ts, reasonCode) => acks.set(`${code}|${ts}`, { at: Date.now(), reasonCode }), async (sent) => {
       if (!killed && process.env.BENCH_DRILL !== "restart" && sent >= opts.drill * 0.3) {
@@ -155,10 +158,13 @@ async function main() {
     const have = new Set(rows.map((r) => `${String(r.code)}|${Number(r.ts)}`));
     const missing = [...acks.keys()].filter((k) => !have.has(k));
     const lost = missing.length;
-    for (const [i, w] of windows.entries()) log(`(c) restart ${i + 1}: devices let in again after ${((w.back - w.begin) / 1000).toFixed(1)} s`);
-    log(`(c) ${describeLost(missing, acks, windows, seen)}`);
+    for (const [i, w] of windows.entries()) {
+      const when = process.env.BENCH_VERBOSE ? ` (${new Date(w.begin).toISOString()} → ${new Date(w.back).toISOString()})` : "";
+      log(`(c) restart ${i + 1}: devices let in again after ${((w.back - w.begin) / 1000).toFixed(1)} s${when}`);
+    }
+    log(`(c) ${describeLost(missing, acks, windows, observer ? seen : null)}`);
     if (lost && process.env.BENCH_VERBOSE) {
-      for (const k of missing.slice(0, 20)) log(`(c)   not stored ${k}: acknowledged ${new Date(acks.get(k)!.at).toISOString()}, reason ${acks.get(k)!.reasonCode}`);
+      for (const k of missing.slice(0, 20)) log(`(c)   not stored ${k}: acknowledged ${new Date(acks.get(k)!.at).toISOString()}, reason ${acks.get(k)!.reasonCode}, seen ${seen.has(k)}`);
       log(`--- broker ---\n${s.broker.output().slice(-4000)}`);
       for (const [i, w] of s.workers) log(`--- worker ${i} ---\n${w.output().slice(-4000)}`);
     }

@@ -147,6 +147,8 @@ async function runLive(opts: PlantOptions, model: PlantModel, simDevices: SimDev
             password: secret,
             clean: true,
             reconnectPeriod: 2000,
+            // refused for a moment after a Mosquitto restart (ingest/mosquitto/device-gate.ts): try again
+            reconnectOnConnackError: true,
             keepalive: 30,
             will: { topic: deviceTopics.status(device.code), payload: Buffer.from('{"online":false}'), qos: 1, retain: false },
           });

@@ -7,20 +7,25 @@
 // reading lost in a restart was acknowledged by the new broker in the ~0.3–1 s between its
 // start and the end of the repair, and seen by a plain (not shared) subscriber.
 //
-// So, before mosquitto starts from a persistence file, every client of the dynamic-security
-// plugin except the admin and the service accounts is marked disabled in the plugin's file: a
+// So, before mosquitto starts from a persistence file, every device's client of the
+// dynamic-security plugin (one holding a device role) is marked disabled in the plugin's file: a
 // device that comes back early is refused at sign-in (CONNACK "not authorized") and retries;
-// nothing it holds is acknowledged and dropped. Once the sessions are repaired, the same clients
+// nothing it holds is acknowledged and dropped. Service accounts, the admin and Sparkplug edge
+// nodes (read by the Sparkplug host's own, not shared, subscription) are not held back. Once the sessions are repaired, the same clients
 // are enabled again over $CONTROL, and the credential sync (sync.ts) then repairs any drift from
 // the devices table as usual. The names held back are kept in a file beside the plugin's, so a
 // start interrupted between the two steps lets them in at the next start.
 import fs from "node:fs";
 import path from "node:path";
 import { z } from "zod";
-import { SERVICE_ACCOUNTS } from "../../lib/settings";
+import { deviceRoleName } from "../../lib/broker/dynsec-plan";
 import type { DynsecClient } from "./dynsec-client";
 
-const dynsecClientsSchema = z.looseObject({ clients: z.array(z.looseObject({ username: z.string(), disabled: z.boolean().optional() })).default([]) });
+const dynsecClientsSchema = z.looseObject({
+  clients: z.array(z.looseObject({ username: z.string(), disabled: z.boolean().optional(), roles: z.array(z.looseObject({ rolename: z.string() })).optional() })).default([]),
+});
+/** a device's client holds its device role (lib/broker/dynsec-plan.ts) */
+const DEVICE_ROLE_PREFIX = deviceRoleName("");
 const heldBackSchema = z.array(z.string().max(256)).max(1_000_000);
 
 export type GateFiles = { dir: string; dynsec: string };
@@ -40,19 +45,18 @@ function readHeldBack(files: GateFiles): string[] {
 }
 
 /**
- * Before mosquitto starts: disables in the plugin's file every client but the admin and the
- * service accounts, when there are sessions to restore. Returns the names to let in after the
- * repair (those disabled now and those an interrupted start left held back).
+ * Before mosquitto starts: disables in the plugin's file every enabled device client, when there
+ * are sessions to restore. Returns the names to let in after the repair (those disabled now and
+ * those an interrupted start left held back).
  */
-export function closeDeviceGate(files: GateFiles, adminUsername: string): string[] {
+export function closeDeviceGate(files: GateFiles): string[] {
   const earlier = readHeldBack(files);
   if (!fs.existsSync(persistenceFile(files)) || !fs.existsSync(files.dynsec)) return earlier;
-  const keep = new Set<string>([adminUsername, ...Object.values(SERVICE_ACCOUNTS)]);
   const raw: unknown = JSON.parse(fs.readFileSync(files.dynsec, "utf8"));
   const parsed = dynsecClientsSchema.parse(raw);
   const now: string[] = [];
   for (const c of parsed.clients) {
-    if (keep.has(c.username) || c.disabled === true) continue;
+    if (c.disabled === true || !c.roles?.some((r) => r.rolename.startsWith(DEVICE_ROLE_PREFIX))) continue;
     c.disabled = true;
     now.push(c.username);
   }

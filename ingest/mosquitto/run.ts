@@ -71,7 +71,7 @@ export async function startMosquitto() {
   stopLeftOver(files.pid, files.conf);
   if (await portOpen(s.MQTT_PORT)) throw new Error(`127.0.0.1:${s.MQTT_PORT} is taken by another program`);
   // devices stay out until the workers' restored sessions are repaired (device-gate.ts says why)
-  const heldBack = closeDeviceGate(files, ADMIN_USERNAME);
+  const heldBack = closeDeviceGate(files);
 
   const child = spawn(s.MOSQUITTO_BIN, ["-c", files.conf], { stdio: ["ignore", "pipe", "pipe"] });
   starting = child;
