@@ -25,10 +25,15 @@ export function ingestSubscriptions(s: Pick<Settings, "BROKER" | "INGEST_SHARE_G
 /**
  * Subscribes a worker's connection. Mosquitto 2.0.11 restores a persistent session's shared
  * subscription after a restart in a state that delivers nothing, and subscribing again to the
- * same filter does not repair it; unsubscribing first does. So a worker that finds its session
- * present unsubscribes and subscribes again (its queued messages stay in the session).
- * ingest/mosquitto/session-repair.ts does the same for every worker session right after a
- * restart, while ingest/mosquitto/device-gate.ts keeps devices out until it is done.
+ * same filter does not repair it; unsubscribing first does (renewIngestSubscriptions). But while
+ * a shared subscription is unsubscribed and no other member of the group is subscribed, the
+ * broker still acknowledges device messages (PUBACK reason 0, not 16 "no matching
+ * subscribers") and drops them: two workers reconnecting together after a broker restart both
+ * renew at once, and each renewal opens such a gap while devices are already sending.
+ * - mosquitto: our broker process renews every worker session right after a start, while devices
+ *   are held back (ingest/mosquitto/session-repair.ts, device-gate.ts), so a worker only
+ *   subscribes (a no-op on a working subscription; a fresh one if the renewal was cut short).
+ * - external: nobody else repairs; a worker that finds its session present renews it itself.
  */
 export function subscribeIngest(
   client: MqttClient,
@@ -36,8 +41,16 @@ export function subscribeIngest(
   sessionPresent: boolean,
   done: (err: Error | null, granted?: ISubscriptionGrant[]) => void,
 ): void {
+  if (s.BROKER === "external" && sessionPresent) return renewIngestSubscriptions(client, s, done);
   const topics = ingestSubscriptions(s);
-  const subscribe = () => client.subscribe(Object.fromEntries(topics.map((t) => [t, { qos: 1 as const }])), (err, granted) => done(err ?? null, granted));
-  if (s.BROKER === "embedded" || !sessionPresent) return void subscribe();
-  client.unsubscribe(topics, () => subscribe());
+  client.subscribe(Object.fromEntries(topics.map((t) => [t, { qos: 1 as const }])), (err, granted) => done(err ?? null, granted));
+}
+
+/** Unsubscribes, then subscribes again: repairs a shared subscription Mosquitto restored broken. */
+export function renewIngestSubscriptions(client: MqttClient, s: Pick<Settings, "BROKER" | "INGEST_SHARE_GROUP">, done: (err: Error | null, granted?: ISubscriptionGrant[]) => void): void {
+  const topics = ingestSubscriptions(s);
+  // an answer "no subscription existed" (a renewal cut short earlier) is fine: subscribe all the same
+  client.unsubscribe(topics, () => {
+    client.subscribe(Object.fromEntries(topics.map((t) => [t, { qos: 1 as const }])), (err2, granted) => done(err2 ?? null, granted));
+  });
 }
