@@ -20,3 +20,15 @@ export function healthVerdict(r: HealthReport): { ok: boolean; problems: string[
   if (r.replica.configured && !r.replica.usable) problems.push(`Reads go to the primary: ${r.replica.reason}.`);
   return { ok: problems.length === 0, problems };
 }
+
+/** How long a process that was started again is marked on the Health page. */
+export const RESTART_SHOWN_MS = 10 * 60_000;
+
+/**
+ * Whether a process was started again lately (the runner or systemd restarted it): it started in
+ * the last RESTART_SHOWN_MS and over a minute after the first process of the stack that reports.
+ * A stack that just started as a whole marks nothing.
+ */
+export function restartedLately(startedTs: number | null, firstStartTs: number | null, nowTs: number): boolean {
+  return startedTs !== null && firstStartTs !== null && startedTs - firstStartTs > 60_000 && nowTs - startedTs < RESTART_SHOWN_MS;
+}

@@ -75,7 +75,7 @@ export async function getHealthReport(db: Db, replica: ReplicaView, nowTs = Date
     const stale = nowTs - row.updatedTs > HEALTH_STALE_MS;
     const rates = rec(s.rates);
     if (s.kind === "broker") {
-      brokers.push({ id: row.workerId, updatedTs: row.updatedTs, stale, clients: numOrNull(s.clients), messagesPerS: numOrNull(rates.messagesPerS), messagesIn: numOrNull(s.messagesIn) });
+      brokers.push({ id: row.workerId, updatedTs: row.updatedTs, stale, startedTs: numOrNull(s.startedTs), clients: numOrNull(s.clients), messagesPerS: numOrNull(rates.messagesPerS), messagesIn: numOrNull(s.messagesIn) });
     } else {
       const buffered = rec(s.buffered);
       const spilled = rec(s.spilled);
@@ -83,6 +83,7 @@ export async function getHealthReport(db: Db, replica: ReplicaView, nowTs = Date
         id: row.workerId,
         updatedTs: row.updatedTs,
         stale,
+        startedTs: numOrNull(s.startedTs),
         mqttConnected: typeof s.mqttConnected === "boolean" ? s.mqttConnected : null,
         dbHealthy: typeof s.dbHealthy === "boolean" ? s.dbHealthy : null,
         readingsPerS: numOrNull(rates.readingsPerS),

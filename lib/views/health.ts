@@ -6,6 +6,8 @@ export type BrokerHealth = {
   updatedTs: number;
   /** no status for longer than HEALTH_STALE_MS */
   stale: boolean;
+  /** when the process that wrote the status started: a restart shows as a recent start */
+  startedTs: number | null;
   clients: number | null;
   messagesPerS: number | null;
   messagesIn: number | null;
@@ -15,6 +17,7 @@ export type WorkerHealth = {
   id: string;
   updatedTs: number;
   stale: boolean;
+  startedTs: number | null;
   mqttConnected: boolean | null;
   dbHealthy: boolean | null;
   readingsPerS: number | null;

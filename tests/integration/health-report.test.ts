@@ -36,9 +36,9 @@ describe("health report", () => {
     expect(a.readingsPerS).toBeGreaterThan(0);
     expect(a.readingsPerS).toBeLessThanOrEqual(60);
     expect(a.messagesPerS).toBeLessThanOrEqual(30);
-    expect(a).toMatchObject({ stale: false, inFlightReadings: 7, unackedMessages: 3, spillPendingReadings: 0 });
+    expect(a).toMatchObject({ stale: false, inFlightReadings: 7, unackedMessages: 3, spillPendingReadings: 0, startedTs: w.startedTs });
     expect(r.workers.find((x) => x.id === "worker-b")!.stale).toBe(true);
-    expect(r.brokers).toEqual([expect.objectContaining({ id: "broker@test", clients: 27, messagesPerS: 30, stale: false })]);
+    expect(r.brokers).toEqual([expect.objectContaining({ id: "broker@test", clients: 27, messagesPerS: 30, stale: false, startedTs: now - 5000 })]);
     expect(healthVerdict(r).problems).toEqual([expect.stringMatching(/worker-b has not reported/)]);
   });
 

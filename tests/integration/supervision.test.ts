@@ -222,6 +222,8 @@ describe("supervision drill (scripts/run-stack.ts), embedded broker", () => {
     }, 10_000);
     expect(after.stale).toBe(false);
     expect(await startedTsOf(WORKER_ID)).toBeGreaterThan(r.killTs);
+    // the Health report shows the restart as a recent start
+    expect(after.startedTs).toBeGreaterThan(r.killTs);
 
     // nothing else was touched, and the runner is still there
     expect(pidOf("smtp")).toBe(smtpPid);

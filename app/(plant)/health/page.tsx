@@ -6,7 +6,7 @@ import { requirePagePermission } from "@/app/_server/session";
 import { getDb, getReplicaState } from "@/db/client";
 import { getHealthReport } from "@/db/queries/health";
 import { Card, EmptyState, Forbidden, PageHeader } from "@/components/ui/page";
-import { healthVerdict } from "@/lib/health-verdict";
+import { healthVerdict, restartedLately } from "@/lib/health-verdict";
 import type { QueueHealth } from "@/lib/views/health";
 import { fmtAgo } from "../equipment/_components/format";
 
@@ -14,13 +14,19 @@ export const metadata: Metadata = { title: "Health" };
 export const dynamic = "force-dynamic";
 
 const fig = (v: number | null, unit = "") => (v === null ? "not reported" : `${v.toLocaleString("en-GB")}${unit}`);
+const utc = (ts: number) => `${new Date(ts).toISOString().slice(0, 19).replace("T", " ")} UTC`;
+const since = (ts: number | null, now: number) => (ts === null ? "not reported" : `${utc(ts)} (${fmtAgo(ts, now)})`);
+function Started({ ts, firstStartTs, now }: { ts: number | null; firstStartTs: number | null; now: number }) {
+  const again = restartedLately(ts, firstStartTs, now);
+  return <Row label="Running since" value={again ? `${since(ts, now)}, started again` : since(ts, now)} warn={again} />;
+}
 const yesNo = (v: boolean | null, yes: string, no: string) => (v === null ? "not reported" : v ? yes : no);
 
 function Row({ label, value, warn }: { label: string; value: React.ReactNode; warn?: boolean }) {
   return (
     <div className="flex justify-between gap-4 border-b border-paper-line py-1 text-sm last:border-0">
       <dt className="text-ink-soft">{label}</dt>
-      <dd className={warn ? "font-semibold text-over" : "tabular-nums"}>{value}</dd>
+      <dd className={warn ? "text-right font-semibold text-over" : "text-right tabular-nums"}>{value}</dd>
     </div>
   );
 }
@@ -49,6 +55,8 @@ export default async function HealthPage() {
   const r = await getHealthReport(getDb(), await getReplicaState());
   const verdict = healthVerdict(r);
   const now = r.nowTs;
+  const starts = [...r.brokers, ...r.workers].map((p) => p.startedTs).filter((t): t is number => t !== null);
+  const firstStartTs = starts.length ? Math.min(...starts) : null;
   return (
     <div className="space-y-4" data-testid="health-page">
       <PageHeader title="Health" subtitle="Each process's figures as it last reported them. Also as JSON at /api/health." />
@@ -73,6 +81,7 @@ export default async function HealthPage() {
             <Card key={b.id} title={`Broker ${b.id}`} aside={fmtAgo(b.updatedTs, now)}>
               <dl data-testid="health-broker">
                 <Row label="Reporting" value={b.stale ? "no" : "yes"} warn={b.stale} />
+                <Started ts={b.startedTs} firstStartTs={firstStartTs} now={now} />
                 <Row label="Clients connected" value={fig(b.clients)} />
                 <Row label="Messages per second" value={fig(b.messagesPerS)} />
                 <Row label="Messages since start" value={fig(b.messagesIn)} />
@@ -84,6 +93,7 @@ export default async function HealthPage() {
           <Card key={w.id} title={`Ingest worker ${w.id}`} aside={fmtAgo(w.updatedTs, now)}>
             <dl data-testid="health-worker">
               <Row label="Reporting" value={w.stale ? "no" : "yes"} warn={w.stale} />
+              <Started ts={w.startedTs} firstStartTs={firstStartTs} now={now} />
               <Row label="Broker" value={yesNo(w.mqttConnected, "connected", "not connected")} warn={w.mqttConnected === false} />
               <Row label="Database" value={yesNo(w.dbHealthy, "writing", "not writing")} warn={w.dbHealthy === false} />
               <Row label="Readings stored per second" value={fig(w.readingsPerS)} />
@@ -101,7 +111,7 @@ export default async function HealthPage() {
             {r.alertOwner ? (
               <>
                 <Row label="Held by" value={r.alertOwner.held ? (r.alertOwner.holder ?? "–") : "nobody"} warn={!r.alertOwner.held} />
-                <Row label="Since" value={r.alertOwner.sinceTs === null ? "not reported" : `${new Date(r.alertOwner.sinceTs).toISOString().slice(0, 19).replace("T", " ")} UTC (${fmtAgo(r.alertOwner.sinceTs, now)})`} />
+                <Row label="Since" value={since(r.alertOwner.sinceTs, now)} />
                 <Row label="Hand-overs so far" value={Math.max(0, r.alertOwner.token - 1)} />
               </>
             ) : (
