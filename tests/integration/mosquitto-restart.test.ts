@@ -2,7 +2,9 @@
 // 2.0.11 restores a worker session's shared subscription in a state that delivers nothing, so a
 // device that signs in before the broker process has repaired the workers' sessions would have
 // its readings acknowledged and dropped. Devices are refused until the repair is done; a device
-// publishing through the restart has every acknowledged reading stored.
+// publishing through the restart has every acknowledged reading stored. And a worker coming back
+// with its session present does not renew its subscription by unsubscribing first: with no
+// other member in the share group, Mosquitto acknowledges and drops what arrives meanwhile.
 // The repair is held up on purpose by a write lock on ingest_status (the repair reads the
 // workers' client ids from it), so the moment between "broker up" and "sessions repaired" lasts
 // long enough to be looked at.
@@ -23,6 +25,59 @@ let secrets: Record<string, string>;
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 const probe = (v: 4 | 5) => signInCode(stack.mqttPort, { username: PROBE, password: secrets[PROBE], clientId: PROBE, protocolVersion: v, connectTimeout: 1000 });
 
+/** A device publishing readings of STREAMER (QoS 1, up to `perTick` every `pauseMs`, `window` unacknowledged), retrying when refused, as devices do. */
+async function streamReadings(t0: number, window: number, perTick: number, pauseMs: number) {
+  const client: MqttClient = await mqtt.connectAsync({
+    host: "127.0.0.1",
+    port: stack.mqttPort,
+    username: STREAMER,
+    password: secrets[STREAMER],
+    clientId: STREAMER,
+    protocolVersion: 5,
+    reconnectPeriod: 50,
+    reconnectOnConnackError: true,
+  });
+  client.on("error", () => undefined); // refusals and refused connections while the broker restarts
+  const acked: number[] = [];
+  let i = 0;
+  let inFlight = 0;
+  let streaming = true;
+  const loop = (async () => {
+    while (streaming) {
+      for (let k = 0; k < perTick && inFlight < window; k++) {
+        const ts = t0 + i++ * 10;
+        inFlight++;
+        client.publish(`stillfield/d/${STREAMER}/readings`, JSON.stringify({ ts, values: { charge_kv: 2.5 } }), { qos: 1 }, (err) => {
+          inFlight--;
+          if (!err) acked.push(ts);
+        });
+      }
+      await sleep(pauseMs);
+    }
+  })();
+  return {
+    acked,
+    async stop() {
+      streaming = false;
+      await loop;
+      await waitFor("nothing left in flight", async () => Object.keys(client.outgoing).length === 0, 15_000);
+      await client.endAsync();
+    },
+  };
+}
+
+/** Every reading the broker acknowledged for STREAMER since t0 is in the readings table. */
+async function notStored(t0: number, acked: number[]): Promise<number[]> {
+  const stored = async () => {
+    const [rows] = await tdb.pool.query<RowDataPacket[]>(`SELECT ts FROM readings WHERE device_id = (SELECT id FROM devices WHERE code = ?) AND channel = 'charge_kv' AND ts >= ?`, [STREAMER, t0]);
+    return new Set(rows.map((r) => Number(r.ts)));
+  };
+  // a reading not stored by now never will be: the caller's assertion names it
+  await waitFor("every acknowledged reading stored", async () => (await stored()).size >= acked.length, 20_000, 250).catch(() => undefined);
+  const have = await stored();
+  return acked.filter((ts) => !have.has(ts));
+}
+
 describe.skipIf(!ensureMosquitto())("Mosquitto profile: a broker restart", () => {
   beforeAll(async () => {
     tdb = await createTestDatabase("mq_restart", { seed: true });
@@ -42,29 +97,9 @@ describe.skipIf(!ensureMosquitto())("Mosquitto profile: a broker restart", () =>
       return Number(rows[0].n) >= 2;
     }, 10_000);
 
-    // a device publishing one reading every 5 ms, retrying when refused, as devices do
-    const streamer: MqttClient = await mqtt.connectAsync({
-      host: "127.0.0.1",
-      port: stack.mqttPort,
-      username: STREAMER,
-      password: secrets[STREAMER],
-      clientId: STREAMER,
-      protocolVersion: 5,
-      reconnectPeriod: 50,
-      reconnectOnConnackError: true,
-    });
-    streamer.on("error", () => undefined); // refusals and refused connections while the broker restarts
-    const acked: number[] = [];
+    // a device publishing about one reading every 5 ms
     const t0 = Date.now() - 10 * 60_000;
-    let i = 0;
-    let streaming = true;
-    const stream = (async () => {
-      while (streaming) {
-        const ts = t0 + i++ * 10;
-        streamer.publish(`stillfield/d/${STREAMER}/readings`, JSON.stringify({ ts, values: { charge_kv: 2.5 } }), { qos: 1 }, (err) => void (err ? undefined : acked.push(ts)));
-        await sleep(5);
-      }
-    })();
+    const streamer = await streamReadings(t0, 100, 1, 5);
     await sleep(500);
 
     let lock: PoolConnection | null = await tdb.pool.getConnection();
@@ -98,22 +133,32 @@ describe.skipIf(!ensureMosquitto())("Mosquitto profile: a broker restart", () =>
     expect(stack.broker.output()).toMatch(/let \d+ device account\(s\) in, held back until the workers' sessions were repaired/);
     // repaired: devices sign in again, and the streamer's readings flow
     expect(await probe(5)).toBe(0);
-    const afterRestart = acked.length;
-    await waitFor("readings acknowledged after the restart", async () => acked.length > afterRestart + 100, 15_000);
-    streaming = false;
-    await stream;
-    await waitFor("nothing left in flight", async () => Object.keys(streamer.outgoing).length === 0, 15_000);
-    await streamer.endAsync();
+    const afterRestart = streamer.acked.length;
+    await waitFor("readings acknowledged after the restart", async () => streamer.acked.length > afterRestart + 100, 15_000);
+    await streamer.stop();
+    expect(streamer.acked.length).toBeGreaterThan(200);
+    expect(await notStored(t0, streamer.acked)).toEqual([]);
+  });
 
-    const inList = `(SELECT id FROM devices WHERE code = '${STREAMER}')`;
-    const stored = async () => {
-      const [rows] = await tdb.pool.query<RowDataPacket[]>(`SELECT ts FROM readings WHERE device_id IN ${inList} AND channel = 'charge_kv' AND ts >= ?`, [t0]);
-      return new Set(rows.map((r) => Number(r.ts)));
-    };
-    // a reading not stored by now never will be: the assertion below names it
-    await waitFor("every acknowledged reading stored", async () => (await stored()).size >= acked.length, 20_000, 250).catch(() => undefined);
-    const have = await stored();
-    expect(acked.length).toBeGreaterThan(200);
-    expect(acked.filter((ts) => !have.has(ts))).toEqual([]);
+  it("a worker back with its session (the only one of the share group) loses nothing the devices send meanwhile", async () => {
+    // worker 2 leaves for good (its session ended): worker 1 alone holds the shared subscription
+    await stack.workers.get(2)!.stop("SIGTERM");
+    const end = await mqtt.connectAsync({ host: "127.0.0.1", port: stack.mqttPort, username: "svc-worker", password: stack.env.MQTT_WORKER_PASSWORD, clientId: "mq-restart-2", protocolVersion: 5, clean: true, properties: { sessionExpiryInterval: 0 } });
+    await end.endAsync();
+    // a device sending as fast as it is acknowledged (up to 200 unacknowledged)
+    const t0 = Date.now() - 20 * 60_000;
+    const streamer = await streamReadings(t0, 200, 20, 1);
+    await sleep(300);
+    // killed mid-stream and back: it finds its session present and takes what waited there; had
+    // it unsubscribed to renew the subscription, the group would have had no member for a moment
+    // and the broker would have acknowledged and dropped what came in (PUBACK reason 0)
+    const w1 = stack.workers.get(1)!;
+    w1.child.kill("SIGKILL");
+    await w1.exit(5000);
+    await stack.startWorker(1);
+    const back = streamer.acked.length;
+    await waitFor("readings acknowledged with the worker back", async () => streamer.acked.length > back + 2000, 20_000);
+    await streamer.stop();
+    expect(await notStored(t0, streamer.acked)).toEqual([]);
   });
 });
