@@ -104,9 +104,10 @@ describe.skipIf(!ensureMosquitto())("Mosquitto profile: a broker restart", () =>
 
     let lock: PoolConnection | null = await tdb.pool.getConnection();
     const codes: number[] = [];
+    let restarted: Promise<void> | null = null;
     try {
       await lock.query("LOCK TABLES ingest_status WRITE");
-      const restarted = stack.restartBroker();
+      restarted = stack.restartBroker();
       const answered = (c: number) => c === 0 || c === 135;
       // first the old broker goes away (no answer at all) …
       await waitFor("the old broker stopped", async () => !answered(await probe(5)), 15_000, 20);
@@ -129,6 +130,8 @@ describe.skipIf(!ensureMosquitto())("Mosquitto profile: a broker restart", () =>
         await lock.query("UNLOCK TABLES").catch(() => undefined);
         lock.release();
       }
+      // on a failure too: the new broker process belongs to the stack, which stops it after the tests
+      await restarted?.catch(() => undefined);
     }
     expect(stack.broker.output()).toMatch(/let \d+ device account\(s\) in, held back until the workers' sessions were repaired/);
     // repaired: devices sign in again, and the streamer's readings flow
