@@ -281,6 +281,10 @@ export async function startBroker() {
   // every connection, plain or TLS, goes through the packet-size guard and the connection cap
   const maxRemaining = cfg.MQTT_MAX_PAYLOAD_BYTES + 1024; // payload plus topic and header fields
   const onSocket = (socket: net.Socket) => {
+    // small packets (PUBACKs above all) go out at once: with Nagle's algorithm on, each waited
+    // for the peer's delayed ACK, and one publisher got ~8,000 QoS 1 messages/s through an idle
+    // broker instead of ~40,000 (npm run bench:ingest, part a)
+    socket.setNoDelay(true);
     const conn = guardConnection(socket, maxRemaining, (bytes) => {
       stats.refused.oversized++;
       log.warn("connection closed: a packet announced over the size limit", { bytes, limit: maxRemaining });

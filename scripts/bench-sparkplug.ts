@@ -61,6 +61,13 @@ export async function benchSparkplugDdata(
   const t0 = Date.now() - 20 * 60_000;
   const topic = node.rawTopic("DDATA", "meters");
   const seqOf = () => (node as unknown as { nextSeq(): number }).nextSeq();
+  // encoded before the clock starts, in sending order (seq runs on): the device's encoder is not
+  // ours to measure, and the JSON batches of (c) are built beforehand too
+  const bodies: Buffer[] = [];
+  for (let i = 0; i < messages; i++) {
+    const ts = t0 + i;
+    bodies.push(node.encode({ timestamp: ts, seq: seqOf(), metrics: names.map((_, k) => ({ alias: k + 1, type: "Float", value: -((i + k) % 1000) * 10, timestamp: ts })) }));
+  }
   const startTs = Date.now();
   await new Promise<void>((resolve, reject) => {
     let sent = 0;
@@ -68,13 +75,7 @@ export async function benchSparkplugDdata(
     const window = Math.max(50, Math.round(opts.window / 5));
     const pump = () => {
       while (sent < messages && sent - acked < window) {
-        const i = sent++;
-        const ts = t0 + i;
-        const body = node.encode({
-          timestamp: ts,
-          seq: seqOf(),
-          metrics: names.map((_, k) => ({ alias: k + 1, type: "Float", value: -((i + k) % 1000) * 10, timestamp: ts })),
-        });
+        const body = bodies[sent++];
         client.publish(topic, body, { qos: 1 }, (err) => {
           if (err) return reject(err);
           acked++;
