@@ -315,7 +315,11 @@ export async function startWorker() {
       subscribed();
     });
   };
-  mqttClient.on("connect", (connack) => onConnect(connack.sessionPresent));
+  mqttClient.on("connect", (connack) => {
+    // acknowledgements leave right after each commit, not held back by Nagle's algorithm
+    (mqttClient.stream as unknown as { setNoDelay?: (on: boolean) => void }).setNoDelay?.(true);
+    onConnect(connack.sessionPresent);
+  });
   // the client was created before the sinks and the directory were ready: when it signed in
   // meanwhile, its first "connect" has already passed and nobody subscribed
   if (mqttClient.connected) onConnect(false);
