@@ -21,17 +21,26 @@ export class ClockSkewTracker {
 
   constructor(private readonly windowMs = CLOCK_WINDOW_MS) {}
 
-  /** Records one message: its arrival and the newest reading time it carried. */
+  /**
+   * Records one message: its arrival and the newest reading time it carried. Messages arriving
+   * in the same second as the last one kept fold into it (the smaller offset stays), so a key
+   * holds at most one sample per second of the window however fast its messages come, and
+   * the estimate (the smallest offset in the window) is the same as over every message.
+   */
   add(key: string | number, arrivalMs: number, readingMs: number): void {
     let list = this.samples.get(key);
     if (!list) this.samples.set(key, (list = []));
-    list.push({ arrivalMs, offsetMs: arrivalMs - readingMs });
+    const offsetMs = arrivalMs - readingMs;
+    const last = list[list.length - 1];
+    if (last && Math.floor(last.arrivalMs / 1000) === Math.floor(arrivalMs / 1000)) {
+      if (offsetMs < last.offsetMs) last.offsetMs = offsetMs;
+      return;
+    }
+    list.push({ arrivalMs, offsetMs });
     const cut = arrivalMs - this.windowMs;
     let drop = 0;
     while (drop < list.length - 1 && list[drop].arrivalMs < cut) drop++;
-    // keep the list short at high rates: a message a second over five minutes is plenty
     if (drop > 0) list.splice(0, drop);
-    if (list.length > 600) list.splice(0, list.length - 600);
   }
 
   /** The skew estimate (ms; positive = the device clock is behind), or null with no samples. */

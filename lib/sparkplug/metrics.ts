@@ -22,14 +22,20 @@ export function isNumericDatatype(datatype: string): boolean {
 /**
  * The number a metric value stands for, or null when the value does not fit its datatype
  * (a string in a Float metric, a fraction in an Int32 …). 64-bit values arrive as Long objects
- * from the decoder; they are converted with Number() (exact below 2^53).
+ * from the decoder; they are converted with their toNumber() (exact below 2^53).
  */
 export function numericValue(datatype: string, value: unknown): number | null {
   if (datatype === "Boolean") return typeof value === "boolean" ? (value ? 1 : 0) : null;
   if (!NUMERIC.has(datatype)) return null;
   let n: number;
   if (typeof value === "number") n = value;
-  else if (typeof value === "object" && value !== null && "low" in value && "high" in value) n = Number(value);
+  else if (typeof value === "object" && value !== null && "low" in value && "high" in value) {
+    // a Long's own toNumber() is exact and quick; Number() would go through its toString().
+    // Int64 travels in protobuf's uint64 field as two's complement: read it signed.
+    const long = value as { toNumber?: () => number; toSigned?: () => { toNumber(): number } };
+    if (datatype === "Int64" && typeof long.toSigned === "function") n = long.toSigned().toNumber();
+    else n = typeof long.toNumber === "function" ? long.toNumber() : Number(value);
+  }
   else return null;
   if (!Number.isFinite(n)) return null;
   // signed 8–32-bit values travel in protobuf's uint32 field as two's complement

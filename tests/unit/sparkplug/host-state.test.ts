@@ -93,4 +93,31 @@ describe("clock skew", () => {
     expect(readingTime(NOW, "arrival", -90_000)).toBe(NOW - 90_000);
     expect(readingTime(NOW, "device", -90_000)).toBe(NOW);
   });
+
+  it("gives the smallest offset of the window at thousands of messages a second, and forgets what left it", () => {
+    const t = new ClockSkewTracker(60_000);
+    const offsets: Array<{ at: number; off: number }> = [];
+    // 20,000 messages over 100 s: offsets 5,000 ms plus a transit delay drawn from a fixed sequence
+    for (let i = 0; i < 20_000; i++) {
+      const at = NOW + i * 5;
+      const off = 5000 + ((i * 7919) % 997);
+      offsets.push({ at, off });
+      t.add("n", at, at - off);
+    }
+    const last = NOW + 19_999 * 5;
+    // computed here over every message still inside the window (by its second, as the tracker keeps them)
+    const inWindow = offsets.filter((o) => Math.floor(o.at / 1000) * 1000 >= Math.floor((last - 60_000) / 1000) * 1000 - 1000);
+    expect(t.skewMs("n")).toBe(Math.min(...inWindow.map((o) => o.off)));
+    // a smaller offset 70 s ago has left the window
+    const t2 = new ClockSkewTracker(60_000);
+    t2.add("n", NOW, NOW - 100);
+    for (let s2 = 1; s2 <= 70; s2++) t2.add("n", NOW + s2 * 1000, NOW + s2 * 1000 - 900);
+    expect(t2.skewMs("n")).toBe(900);
+    // one second's messages fold into one sample keeping its smallest offset
+    const t3 = new ClockSkewTracker(60_000);
+    t3.add("n", NOW + 10, NOW + 10 - 800);
+    t3.add("n", NOW + 500, NOW + 500 - 200);
+    t3.add("n", NOW + 990, NOW + 990 - 600);
+    expect(t3.skewMs("n")).toBe(200);
+  });
 });
