@@ -11,6 +11,8 @@
 //       broker acknowledged it; duplicated: rollup counts above the raw rows);
 //   (d) drill: kill -9 the alert owner during a charge excursion: the new owner's delay, the
 //       excursion's alert raised once and its first e-mail queued once per on-call person.
+//   (e) drill: stop the read replica (a primary and GTID replica of their own,
+//       scripts/bench-scale-replica.ts): the 7-day chart still answers, from the primary.
 // Last line:
 //   scale: 1 worker <N>/s, 2 workers <N>/s, 3 workers <N>/s, bare <N>/s, lost <n>, duplicated <n>, duplicate alerts <n>, owner failover <S> s
 // Options: --messages (40000 per round) --bare (60000) --drill (30000)
@@ -25,6 +27,7 @@ import { getJson, waitFor } from "../tests/integration/ingest-support/processes"
 import { startPrivateMariadb, withDbPort, type PrivateMariadb } from "../tests/integration/ingest-support/private-mariadb";
 import { ensureMosquitto, startMosquittoStack, type MosquittoStack } from "../tests/integration/mosquitto-support/stack";
 import { cpuMs, describeLost, publishStream, type Ack, type Publisher, type RestartWindow } from "./bench-scale-parts";
+import { replicaDrill } from "./bench-scale-replica";
 
 const { values: argv } = parseArgs({ options: { messages: { type: "string" }, bare: { type: "string" }, drill: { type: "string" } }, strict: true });
 const opts = z
@@ -218,6 +221,9 @@ async function main() {
     const duplicateAlerts = (await ruleAlerts()).length - 1;
     const onCall = Number((await q("SELECT COUNT(*) AS n FROM oncall_shifts WHERE escalation_order = 1 AND start_ts <= ? AND end_ts > ?", [Date.now(), Date.now()]))[0].n);
     log(`(d) alerts for the excursion: ${duplicateAlerts + 1}; first e-mails queued: ${mails.length} (on call at order 1: ${onCall})`);
+    // (e) stop the replica: charts still answer, from the primary
+    const rep = await replicaDrill(log);
+    if (rep.afterPort !== rep.primaryPort || rep.afterPoints !== rep.beforePoints) log("(e) WARNING — the chart did not answer the same from the primary");
     log(`scale: 1 worker ${Math.round(rates[0])}/s, 2 workers ${Math.round(rates[1])}/s, 3 workers ${Math.round(rates[2])}/s, bare ${Math.round(bareRate)}/s, lost ${lost}, duplicated ${duplicated}, duplicate alerts ${duplicateAlerts}, owner failover ${failoverS.toFixed(1)} s`);
     await tdb.close();
   } finally {
