@@ -42,7 +42,7 @@ export function brokerAndWorkers(s: Settings, tsx: string[], env: NodeJS.Process
  * Node options of every ingest worker (also in scripts/systemd/stillfield-worker@.service). The
  * worker keeps little between batches, and V8's default 16 MB semi-spaces kept its resident
  * memory near 190 MB at 2,000 readings/s; with 2 MB it stays near 135 MB at the same rate and
- * throughput (npm run bench:ingest, (d)).
+ * throughput (npm run bench:ingest, (d2)).
  */
 export const WORKER_NODE_ARGS = ["--max-semi-space-size=2"];
 
