@@ -10,6 +10,7 @@ import { createPool, dbOf } from "../db/client";
 import { ReadRouter } from "../db/read-replica";
 import { getHistory } from "../db/queries/history";
 import { aggregateRollups, writeRollups, type ReadingRow } from "../db/queries/readings-write";
+import { replicaPairEnv } from "../tests/helpers/replica-pair";
 
 const ROOT = path.resolve(import.meta.dirname, "..");
 const MINUTE = 60_000;
@@ -21,17 +22,7 @@ export async function replicaDrill(log: (s: string) => void): Promise<ReplicaDri
   const replicaPort = 3490;
   const dataDir = path.join(ROOT, ".data", "bench-replica");
   const dbName = "stillfield_bench_replica";
-  const env: NodeJS.ProcessEnv = {
-    ...process.env,
-    DATA_DIR: dataDir,
-    DB_PORT: String(primaryPort),
-    DB_REPLICA_PORT: String(replicaPort),
-    DB_NAME: dbName,
-    DB_BINLOG: "1",
-    DB_BUFFER_POOL: "64M",
-    DB_REPLICA_BUFFER_POOL: "64M",
-    DB_LOG_FILE_SIZE: "48M",
-  };
+  const env = replicaPairEnv({ dataDir, primaryPort, replicaPort, dbName });
   const sh = (...args: string[]) => execFileSync("bash", args, { cwd: ROOT, env, encoding: "utf8", stdio: ["ignore", "pipe", "pipe"], timeout: 180_000 });
   const stopAll = () => {
     spawnSync("bash", ["scripts/mariadb-replica.sh", "stop"], { cwd: ROOT, env, stdio: "ignore" });

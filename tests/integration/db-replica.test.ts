@@ -10,23 +10,14 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type mysql from "mysql2/promise";
 import { createPool, dbOf, type Db } from "@/db/client";
 import { judgeReplica, ReadRouter } from "@/db/read-replica";
+import { replicaPairEnv } from "../helpers/replica-pair";
 
 const slot = Number(process.env.STACK_SLOT ?? 0);
 const PRIMARY_PORT = 3440 + slot;
 const REPLICA_PORT = 3450 + slot;
 const DATA_DIR = path.resolve(`.data/replica-test${slot}`);
 const DB_NAME = `stillfield_replica_t${slot}`;
-const env: NodeJS.ProcessEnv = {
-  ...process.env,
-  DATA_DIR,
-  DB_PORT: String(PRIMARY_PORT),
-  DB_REPLICA_PORT: String(REPLICA_PORT),
-  DB_NAME,
-  DB_BINLOG: "1",
-  DB_BUFFER_POOL: "64M",
-  DB_REPLICA_BUFFER_POOL: "64M",
-  DB_LOG_FILE_SIZE: "48M",
-};
+const env = replicaPairEnv({ dataDir: DATA_DIR, primaryPort: PRIMARY_PORT, replicaPort: REPLICA_PORT, dbName: DB_NAME });
 const sh = (...args: string[]) => execFileSync("bash", args, { env, encoding: "utf8", stdio: ["ignore", "pipe", "pipe"], timeout: 120_000 });
 const replicaSql = (q: string) => sh("scripts/mariadb-replica.sh", "sql", "-N", "-e", q);
 
