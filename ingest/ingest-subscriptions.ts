@@ -42,7 +42,10 @@ export function subscribeIngest(
   done: (err: Error | null, granted?: ISubscriptionGrant[]) => void,
 ): void {
   if (s.BROKER === "external" && sessionPresent) return renewIngestSubscriptions(client, s, done);
-  const topics = ingestSubscriptions(s);
+  subscribeAt1(client, ingestSubscriptions(s), done);
+}
+
+function subscribeAt1(client: MqttClient, topics: string[], done: (err: Error | null, granted?: ISubscriptionGrant[]) => void): void {
   client.subscribe(Object.fromEntries(topics.map((t) => [t, { qos: 1 as const }])), (err, granted) => done(err ?? null, granted));
 }
 
@@ -50,7 +53,5 @@ export function subscribeIngest(
 export function renewIngestSubscriptions(client: MqttClient, s: Pick<Settings, "BROKER" | "INGEST_SHARE_GROUP">, done: (err: Error | null, granted?: ISubscriptionGrant[]) => void): void {
   const topics = ingestSubscriptions(s);
   // an answer "no subscription existed" (a renewal cut short earlier) is fine: subscribe all the same
-  client.unsubscribe(topics, () => {
-    client.subscribe(Object.fromEntries(topics.map((t) => [t, { qos: 1 as const }])), (err2, granted) => done(err2 ?? null, granted));
-  });
+  client.unsubscribe(topics, () => subscribeAt1(client, topics, done));
 }
