@@ -266,6 +266,7 @@ export async function startSparkplugHost(deps: SparkplugHostDeps) {
 
   // ---- periodic writes and reloads ----
   let busy = false;
+  let failedFlushes = 0;
   async function flush(): Promise<void> {
     if (busy) return;
     busy = true;
@@ -278,10 +279,16 @@ export async function startSparkplugHost(deps: SparkplugHostDeps) {
         pendingRejections = rej.concat(pendingRejections).slice(-1000);
         throw err;
       }
-      const values = [...pendingValues.values()];
+      const values = [...pendingValues];
       pendingValues.clear();
-      await Promise.all([...chains.values()]);
-      await recordLastValues(db, values);
+      try {
+        await Promise.all([...chains.values()]);
+        await recordLastValues(db, values.map(([, v]) => v));
+      } catch (err) {
+        // kept for the next flush unless a newer value came in meanwhile
+        for (const [k, v] of values) if (!pendingValues.has(k)) pendingValues.set(k, v);
+        throw err;
+      }
       const counts = [...pendingCounts];
       pendingCounts.clear();
       for (const [id, c] of counts) await countNodeEvents(db, id, c);
@@ -289,8 +296,12 @@ export async function startSparkplugHost(deps: SparkplugHostDeps) {
         const skew = deps.clocks.skewMs(`node:${n.id}`);
         if (skew !== null) await recordNodeSkew(db, n.id, skew, Date.now());
       }
+      failedFlushes = 0;
     } catch (err) {
-      log.debug("could not store gateway state yet", { error: describeError(err) });
+      // a moment's refusal (the database restarting) is normal; one that lasts is said out loud
+      failedFlushes += 1;
+      if (failedFlushes === 5) log.warn("gateway state has not been stored for 5 s", { error: describeError(err) });
+      else log.debug("could not store gateway state yet", { error: describeError(err) });
     } finally {
       busy = false;
     }

@@ -81,8 +81,12 @@ test("the Gateways page lists the node, its devices and metrics; an engineer sav
   await expect(card).toContainText(`${DEMO_GATEWAY.groupId}/${DEMO_GATEWAY.nodeId}`);
   for (const d of ["liner-unwind-meter", "dispense-meter", "drive"]) await expect(card).toContainText(d);
   await expect(card.getByTestId("metric-row")).toHaveCount(DEMO_GATEWAY_METRICS.length);
-  // last values with their units, and the unmapped metric still listed
-  await expect(card.locator('[data-metric="drive/Web tension"]')).toContainText("49.5 N");
+  // last values with their units, and the unmapped metric still listed; the worker stores last
+  // values about once a second, so the page may have been drawn before the newest were in
+  await expect(async () => {
+    await page.reload();
+    await expect(nodeCard(page).locator('[data-metric="drive/Web tension"]')).toContainText("49.5 N", { timeout: 1000 });
+  }).toPass({ timeout: 20_000 });
   await expect(card.getByLabel("Device for drive Web tension")).toHaveValue("");
   await noSideways(page);
   await shot(page, "gateways-1366");

@@ -81,7 +81,11 @@ describe("backfilled week", () => {
     const late = await reduction(-3 * 24, -2.5 * 24);
     const rhEarly = await mean("th-press-hall", "rh_pct", -6.4 * 24, -5.9 * 24);
     const rhLate = await mean("th-press-hall", "rh_pct", -3 * 24, -2.5 * 24);
-    expect(Math.abs(rhEarly - rhLate)).toBeLessThan(4);
+    // the weather's slow swings move the hall by up to 5.1 % RH between these two half-days,
+    // depending on the date the scenario is anchored at (the model evaluated at 3,001 daily
+    // anchors: median 1.4, 90th percentile 3.3, largest 5.1); a change the fouling could hide
+    // behind would be far larger (the cold snap takes the hall down by more than 12 %)
+    expect(Math.abs(rhEarly - rhLate)).toBeLessThan(6);
     expect(early).toBeGreaterThan(0.7);
     expect(late).toBeLessThan(0.45);
   });
