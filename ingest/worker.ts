@@ -43,6 +43,7 @@ import { startSparkplugFromEnv } from "./sparkplug/start";
 const log = createLogger("worker");
 const PAYLOAD_KEPT_CHARS = 500;
 const utf8 = new TextDecoder("utf-8");
+const noTrace = () => undefined;
 
 export async function startWorker() {
   const env = getEnv();
@@ -101,6 +102,10 @@ export async function startWorker() {
     reconnectPeriod: 1000,
     connectTimeout: 10_000,
     queueQoSZero: false,
+    // mqtt.js's own trace calls (a dozen per message) allocate their arguments even when
+    // tracing is off: at tens of thousands of messages a second that was a sixth of all the
+    // worker allocated (scripts/bench-ingest.ts, part (b)); our logger says what matters
+    log: noTrace,
   });
   const mqttClient = client;
   const acks = new DeferredAcks(mqttClient);
@@ -253,13 +258,25 @@ export async function startWorker() {
     writer.add(device.id, rows, ack);
   }
 
+  // a device sends on the same few topics all day: read each once (bounded; refilled on overflow)
+  const topics = new Map<string, ReturnType<typeof parseDeviceTopic>>();
+  function topicOf(name: string): ReturnType<typeof parseDeviceTopic> {
+    let t = topics.get(name);
+    if (t === undefined) {
+      t = parseDeviceTopic(name);
+      if (topics.size >= 50_000) topics.clear();
+      topics.set(name, t);
+    }
+    return t;
+  }
+
   function handlePacket(packet: IPublishPacket) {
     const ack = acks.token(packet);
     // while stopping, leave messages unacknowledged: the broker keeps them for the next session
     if (closing) return;
     const now = Date.now();
     const payload = Buffer.isBuffer(packet.payload) ? packet.payload : Buffer.from(packet.payload);
-    const topic = parseDeviceTopic(packet.topic);
+    const topic = topicOf(packet.topic);
     if (!topic || topic.kind === "cmd") {
       acks.ack([ack]);
       return;

@@ -4,6 +4,7 @@ import { describe, expect, it } from "vitest";
 import {
   checkReadingSets,
   CHANNEL_RANGES,
+  devicePayloadSchema,
   MAX_BATCH_LENGTH,
   parseDevicePayload,
   type CheckContext,
@@ -62,6 +63,54 @@ describe("parseDevicePayload", () => {
     const long = Array.from({ length: MAX_BATCH_LENGTH + 1 }, (_, i) => ({ ts: NOW - i, values: { charge_kv: 1 } }));
     expect(reasonOf(JSON.stringify({ batch: long }))).toBe("batch_too_long");
     expect(reasonOf(JSON.stringify({ batch: [] }))).toBe("invalid_shape");
+  });
+
+  it("accepts and refuses exactly what the zod schemas do, with or without the hand-checked fast path", () => {
+    // the reference is zod's own parse of the published schemas (devicePayloadSchema)
+    const bodies = [
+      `{"ts":${NOW},"values":{"charge_kv":-3.5}}`,
+      `{"values":{"charge_kv":-3.5},"ts":${NOW}}`,
+      `{"ts":0,"values":{"running":1,"speed_mpm":12.5}}`,
+      `{"ts":${NOW},"values":{}}`,
+      `{"ts":-1,"values":{"charge_kv":1}}`,
+      `{"ts":9007199254740993,"values":{"charge_kv":1}}`,
+      `{"ts":1e21,"values":{"charge_kv":1}}`,
+      `{"ts":${NOW},"values":{"charge_kv":1e999}}`,
+      `{"ts":${NOW},"values":{"charge_kv":-1e999}}`,
+      `{"ts":${NOW},"values":{"charge_kv":null}}`,
+      `{"ts":${NOW},"values":{"charge_kv":[1]}}`,
+      `{"ts":${NOW},"values":{"charge_kv":true}}`,
+      `{"ts":${NOW},"values":{"__proto__":{"charge_kv":1}}}`,
+      `{"__proto__":{"x":1},"ts":${NOW},"values":{"charge_kv":1}}`,
+      `{"ts":${NOW},"values":[1]}`,
+      `{"ts":${NOW},"values":null}`,
+      `{"ts":"${new Date(NOW).toISOString()}","values":{"rh_pct":40}}`,
+      `{"ts":${NOW}}`,
+      `{"ts":${NOW},"values":{"charge_kv":1},"values2":{}}`,
+      `{"batch":[{"ts":${NOW},"values":{"charge_kv":1}},{"ts":${NOW + 1},"values":{"charge_kv":2}}]}`,
+      `{"batch":[{"ts":${NOW},"values":{"charge_kv":1}},{"ts":"${new Date(NOW).toISOString()}","values":{"charge_kv":2}}]}`,
+      `{"batch":[{"ts":${NOW},"values":{"charge_kv":1}},{"ts":${NOW},"values":{"volts":2}}]}`,
+      `{"batch":[]}`,
+      `{"batch":{}}`,
+      `{"batch":[{"ts":${NOW},"values":{"charge_kv":1}}],"ts":${NOW}}`,
+      `{"batch":[${Array.from({ length: MAX_BATCH_LENGTH }, (_, i) => `{"ts":${NOW + i},"values":{"charge_kv":1}}`).join(",")}]}`,
+      `{"batch":[${Array.from({ length: MAX_BATCH_LENGTH + 1 }, (_, i) => `{"ts":${NOW + i},"values":{"charge_kv":1}}`).join(",")}]}`,
+      `[{"ts":${NOW},"values":{"charge_kv":1}}]`,
+      `null`,
+      `42`,
+    ];
+    let accepted = 0;
+    for (const body of bodies) {
+      const ours = parseDevicePayload(body);
+      const ref = devicePayloadSchema.safeParse(JSON.parse(body));
+      expect(ours.ok, body.slice(0, 120)).toBe(ref.success);
+      if (ours.ok && ref.success) {
+        accepted++;
+        const refSets = "batch" in ref.data ? ref.data.batch : [ref.data];
+        expect(ours.sets).toEqual(refSets);
+      }
+    }
+    expect(accepted).toBe(8);
   });
 
   it("reads bytes as well as text", () => {
