@@ -20,7 +20,7 @@ import {
   parseDevicePayload,
   type RejectionReason,
 } from "../lib/contract/readings-payload";
-import { internalTopics, parseDeviceTopic } from "../lib/contract/topics";
+import { deviceTopicReader, internalTopics } from "../lib/contract/topics";
 import type { DeviceStatusChange } from "../lib/live";
 import { SERVICE_ACCOUNTS } from "../lib/settings";
 import { getIngestConfig } from "./config";
@@ -258,18 +258,7 @@ export async function startWorker() {
     writer.add(device.id, rows, ack);
   }
 
-  // a device sends on the same few topics all day: read each once (bounded; refilled on overflow)
-  const topics = new Map<string, ReturnType<typeof parseDeviceTopic>>();
-  function topicOf(name: string): ReturnType<typeof parseDeviceTopic> {
-    let t = topics.get(name);
-    if (t === undefined) {
-      t = parseDeviceTopic(name);
-      if (topics.size >= 50_000) topics.clear();
-      topics.set(name, t);
-    }
-    return t;
-  }
-
+  const topicOf = deviceTopicReader();
   function handlePacket(packet: IPublishPacket) {
     const ack = acks.token(packet);
     // while stopping, leave messages unacknowledged: the broker keeps them for the next session

@@ -43,3 +43,20 @@ export function parseDeviceTopic(topic: string): { code: string; kind: DeviceTop
   if (!DEVICE_CODE_PATTERN.test(code)) return null;
   return { code, kind };
 }
+
+/**
+ * parseDeviceTopic with memory: a device sends on the same few topics all day, so each is read
+ * once (at most `max` kept; the memory starts again when full).
+ */
+export function deviceTopicReader(max = 50_000): (topic: string) => ReturnType<typeof parseDeviceTopic> {
+  const known = new Map<string, ReturnType<typeof parseDeviceTopic>>();
+  return (topic) => {
+    let t = known.get(topic);
+    if (t === undefined) {
+      t = parseDeviceTopic(topic);
+      if (known.size >= max) known.clear();
+      known.set(topic, t);
+    }
+    return t;
+  };
+}

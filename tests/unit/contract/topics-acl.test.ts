@@ -2,7 +2,7 @@
 // own prefix and subscribes to nothing but its command topic; internal topics are the service
 // account's).
 import { describe, expect, it } from "vitest";
-import { deviceTopics, internalTopics, parseDeviceTopic } from "@/lib/contract/topics";
+import { deviceTopicReader, deviceTopics, internalTopics, parseDeviceTopic } from "@/lib/contract/topics";
 import { mayPublish, maySubscribe } from "@/ingest/broker-acl";
 
 const dev = { kind: "device" as const, code: "fm-gravure-1-unwind" };
@@ -18,6 +18,15 @@ describe("device topics", () => {
     for (const t of ["stillfield/d//readings", "stillfield/d/a/b/readings", "stillfield/d/+/readings", "other/d/x/readings", "stillfield/d/x/values"]) {
       expect(parseDeviceTopic(t)).toBeNull();
     }
+  });
+});
+
+describe("the remembering topic reader", () => {
+  it("answers as parseDeviceTopic does, refusals included, and starts again when full", () => {
+    const read = deviceTopicReader(3);
+    const names = [deviceTopics.readings("a-1"), "stillfield/d//readings", deviceTopics.status("b-2"), deviceTopics.readings("c-3"), deviceTopics.readings("a-1"), "other/x"];
+    for (const round of [1, 2]) for (const t of names) expect(read(t), `${t} (round ${round})`).toEqual(parseDeviceTopic(t));
+    expect(read(deviceTopics.readings("a-1"))).toEqual({ code: "a-1", kind: "readings" });
   });
 });
 
