@@ -1,6 +1,7 @@
 // Sparkplug B payloads in and out, with the Eclipse Tahu package (sparkplug-payload 1.0.3).
 // 64-bit fields (seq, timestamps, aliases, Int64/UInt64 values) come back as Long objects and
-// are converted with Number(), exact for every epoch-ms time and every alias in use.
+// are converted with longToNumber (lib/sparkplug/metrics.ts), exact for every epoch-ms time and
+// every alias in use.
 // Sparkplug 3.0 lets data messages leave a metric's datatype out (it was given in the birth);
 // the package then cannot pick the value, so such metrics are read again from the package's own
 // protobuf message and the value field that is set is taken as it stands.

@@ -122,6 +122,8 @@ export async function startSparkplugHost(deps: SparkplugHostDeps) {
     reconnectPeriod: 1000,
     connectTimeout: 10_000,
     queueQoSZero: false,
+    // mqtt.js's trace calls allocate their arguments even when off (as in ingest/worker.ts)
+    log: () => undefined,
     will: { topic: stateTopic, payload: Buffer.from(hostStatePayload(false, stateTs)), qos: 1, retain: true },
   });
   const acks = new DeferredAcks(client);
