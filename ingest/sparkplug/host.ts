@@ -18,7 +18,6 @@ import {
   recordLastValues,
   recordNodeSkew,
   recordOffline,
-  type LastValue,
   type NewGatewayRejection,
 } from "../../db/queries/gateways-write";
 import type { ReadingRow } from "../../db/queries/readings-write";
@@ -30,6 +29,7 @@ import { describeError } from "../log";
 import type { ReadingWriter } from "../writer";
 import type { ClockSkewTracker } from "../../lib/clock-skew";
 import { decodeSparkplug, encodeRebirthCommand } from "./decode";
+import { LatestValues } from "./latest-values";
 
 export type SparkplugHostDeps = {
   env: Env;
@@ -104,7 +104,7 @@ export async function startSparkplugHost(deps: SparkplugHostDeps) {
     });
   }
   let pendingRejections: NewGatewayRejection[] = [];
-  const pendingValues = new Map<string, LastValue>();
+  const pendingValues = new LatestValues();
   const pendingCounts = new Map<number, { rebirths: number; gaps: number; lastSeenTs: number }>();
 
   // ---- MQTT ----
@@ -180,7 +180,7 @@ export async function startSparkplugHost(deps: SparkplugHostDeps) {
       // a birth brings the node's (or device's) points back; a death silences them at once
       if (fed) for (const id of fed) deps.setDeviceOnline(id, o.online, now);
     }
-    for (const v of fx.lastValues) pendingValues.set(`${node.id}\u0000${v.deviceName}\u0000${v.name}`, { edgeNodeId: node.id, ...v });
+    for (const v of fx.lastValues) pendingValues.set(node.id, v);
     if (fx.nodeOffsetMs !== null) deps.clocks.add(`node:${node.id}`, now, now - fx.nodeOffsetMs);
     for (const o of fx.deviceOffsets) deps.clocks.add(o.deviceId, now, now - o.offsetMs);
 
@@ -281,14 +281,12 @@ export async function startSparkplugHost(deps: SparkplugHostDeps) {
         pendingRejections = rej.concat(pendingRejections).slice(-1000);
         throw err;
       }
-      const values = [...pendingValues];
-      pendingValues.clear();
+      const values = pendingValues.take();
       try {
         await Promise.all([...chains.values()]);
-        await recordLastValues(db, values.map(([, v]) => v));
+        await recordLastValues(db, values);
       } catch (err) {
-        // kept for the next flush unless a newer value came in meanwhile
-        for (const [k, v] of values) if (!pendingValues.has(k)) pendingValues.set(k, v);
+        pendingValues.restore(values); // for the next flush, unless newer values came in meanwhile
         throw err;
       }
       const counts = [...pendingCounts];

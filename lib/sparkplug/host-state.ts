@@ -61,6 +61,8 @@ export const BDSEQ_METRIC = "bdSeq";
 const isControlMetric = (name: string) => name === BDSEQ_METRIC || name.startsWith("Node Control/") || name.startsWith("Properties/");
 
 export type MetricDef = { deviceName: string; name: string; alias: number | null; datatype: string; unit: string | null };
+/** A metric of a live session, with its mapping key made once at birth (not per data message). */
+type KnownMetric = MetricDef & { key: string };
 /** Where a mapped metric goes; keyed by metricKey(node, device, name). */
 export type MetricMapping = { targetDeviceId: number; channel: Channel; conversion: Conversion };
 export type DeviceClock = { source: TimeSource; skewMs: number | null };
@@ -86,8 +88,8 @@ export type HostEffects = {
 type Session = {
   bdSeq: number;
   expectedSeq: number;
-  byAlias: Map<number, MetricDef>;
-  byName: Map<string, MetricDef>;
+  byAlias: Map<number, KnownMetric>;
+  byName: Map<string, KnownMetric>;
   devicesBorn: Set<string>;
 };
 
@@ -230,7 +232,7 @@ export class SparkplugHostState {
   private learn(nodeKey: string, s: Session, deviceName: string, p: DecodedPayload, ctx: HandleContext, fx: HostEffects): void {
     const defs: MetricDef[] = [];
     for (const m of p.metrics) {
-      const def: MetricDef = { deviceName, name: m.name!, alias: m.alias, datatype: m.datatype!, unit: m.unit };
+      const def: KnownMetric = { deviceName, name: m.name!, alias: m.alias, datatype: m.datatype!, unit: m.unit, key: metricKey(nodeKey, deviceName, m.name!) };
       if (m.alias !== null) s.byAlias.set(m.alias, def);
       s.byName.set(`${deviceName}\u0000${def.name}`, def);
       if (!isControlMetric(def.name)) defs.push(def);
@@ -275,7 +277,7 @@ export class SparkplugHostState {
         continue;
       }
       if (!m.isHistorical) fx.lastValues.push({ deviceName, name: def.name, value: n, ts });
-      const mapping = this.mappings.get(metricKey(nodeKey, deviceName, def.name));
+      const mapping = this.mappings.get(def.key);
       if (!mapping) continue;
       const clock = ctx.clockOf(mapping.targetDeviceId);
       const storedTs = readingTime(ts, clock.source, clock.skewMs);
