@@ -20,6 +20,7 @@ for (const width of [1366, 390]) {
     // the test stack's worker started minutes ago at most: a recent start, in UTC
     await expect(worker).toContainText(/Running since\s*\d{4}-\d\d-\d\d \d\d:\d\d:\d\d UTC \(/);
     await expect(worker).toContainText("Readings stored per second");
+    await expect(worker).toContainText("Reading age when stored, p95");
     await expect(broker).toContainText("Clients connected");
     await expect(page.getByTestId("health-verdict")).toBeVisible();
     // nothing wider than the screen

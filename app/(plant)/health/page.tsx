@@ -101,7 +101,7 @@ export default async function HealthPage() {
               <Row label="In flight (readings / unacknowledged messages)" value={`${fig(w.inFlightReadings)} / ${fig(w.unackedMessages)}`} />
               <Row label="In spill files now" value={fig(w.spillPendingReadings)} warn={(w.spillPendingReadings ?? 0) > 0} />
               <Row label="Spilled since start" value={fig(w.spilledReadings)} />
-              <Row label="Publish to commit, p95" value={fig(w.commitP95Ms, " ms")} />
+              <Row label="Reading age when stored, p95" value={fig(w.commitP95Ms, " ms")} />
               <Row label="Memory (RSS)" value={fig(w.rssMb, " MB")} />
             </dl>
           </Card>
