@@ -19,7 +19,6 @@
 import { parseArgs } from "node:util";
 import mqtt, { type MqttClient } from "mqtt";
 import { z } from "zod";
-import { workerStatsSchema } from "../db/queries/ingest-diagnostics";
 import { getAlertingSettings, saveAlertingSettings } from "../db/queries/oncall";
 import { readDeviceSecrets } from "../db/seed";
 import { hashDeviceSecret } from "../lib/device-secrets";
@@ -40,7 +39,7 @@ const LEASE = { ALERTS_OWNER: "lease", ALERTS_SNAPSHOT_EVERY_MS: "2000", LOG_LEV
 
 /** Readings the workers say they committed (stored or found stored already), summed. */
 async function committed(s: MosquittoStack, ids: number[]): Promise<number> {
-  const stats = await Promise.all(ids.map(async (i) => workerStatsSchema.parse(await getJson(`http://127.0.0.1:${s.workerHealthPort(i)}/health`))));
+  const stats = await Promise.all(ids.map((i) => s.workerStats(i)));
   return stats.reduce((n, st) => n + st.committed.readings + st.committed.duplicates, 0);
 }
 

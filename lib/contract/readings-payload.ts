@@ -192,7 +192,7 @@ export function parseDevicePayload(body: string | Uint8Array): ParsedPayload {
   }
   const plain = plainPayload(raw);
   if (plain) return { ok: true, sets: plain };
-  const isBatch = raw !== null && typeof raw === "object" && !Array.isArray(raw) && "batch" in raw;
+  const isBatch = isPlainObject(raw) && "batch" in raw;
   if (isBatch) {
     const parsed = readingBatchSchema.safeParse(raw);
     if (parsed.success) return { ok: true, sets: parsed.data.batch };

@@ -10,8 +10,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { readDeviceSecrets } from "../../db/seed";
 import { alertEngineRows, alerts, serviceLeases } from "../../db/schema";
 import { createTestDatabase, type TestDatabase } from "../helpers/test-db";
-import { workerStatsSchema } from "../../db/queries/ingest-diagnostics";
-import { getJson, waitFor } from "./ingest-support/processes";
+import { waitFor } from "./ingest-support/processes";
 import { connectMqtt, ensureMosquitto, startMosquittoStack, type MosquittoStack } from "./mosquitto-support/stack";
 import type { MqttClient } from "mqtt";
 
@@ -80,7 +79,7 @@ describe.skipIf(!ensureMosquitto())("Mosquitto profile: several workers, one ale
     );
     expect(mismatched).toEqual([]);
     // the broker shared the stream: the worker that ran throughout stored part of it, not all
-    const stats = workerStatsSchema.parse(await getJson(`http://127.0.0.1:${stack.workerHealthPort(3 - victim)}/health`));
+    const stats = await stack.workerStats(3 - victim);
     expect(stats.committed.readings).toBeGreaterThan(0);
     expect(stats.committed.readings).toBeLessThan(total);
     await Promise.all(clients.map((c) => c.endAsync()));

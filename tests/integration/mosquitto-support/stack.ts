@@ -5,6 +5,7 @@ import { spawnSync } from "node:child_process";
 import fs from "node:fs";
 import path from "node:path";
 import mqtt, { type IClientOptions, type MqttClient } from "mqtt";
+import { workerStatsSchema, type WorkerStats } from "../../../db/queries/ingest-diagnostics";
 import { freePort, getJson, ROOT, spawnTs, waitFor, type Proc } from "../ingest-support/processes";
 
 /** Installs mosquitto when missing (scripts/ensure-system.sh --mosquitto); true when it is there. */
@@ -23,6 +24,8 @@ export type MosquittoStack = {
   /** starts (or restarts) worker i (1-based) with its own client id, health port and spill folder */
   startWorker(i: number, extraEnv?: Record<string, string>): Promise<Proc>;
   workerHealthPort(i: number): number;
+  /** worker i's own figures (its health endpoint), as IngestStack.workerStats gives the embedded profile's */
+  workerStats(i: number): Promise<WorkerStats>;
   restartBroker(): Promise<void>;
   stop(): Promise<void>;
 };
@@ -65,6 +68,7 @@ export async function startMosquittoStack(name: string, dbEnv: Record<string, st
     broker: await startBroker(),
     workers: new Map(),
     workerHealthPort: (i) => healthPorts[i - 1],
+    workerStats: async (i) => workerStatsSchema.parse(await getJson(`http://127.0.0.1:${healthPorts[i - 1]}/health`)),
     async startWorker(i, extraEnv = {}) {
       const p = spawnTs(`worker-${i}`, "ingest/worker.ts", [], {
         ...env,
