@@ -54,12 +54,16 @@ async function count(code: string, fromH: number, toH: number): Promise<number> 
 describe("backfilled week", () => {
   it("shows the cold snap drying the Press Hall over a few hours", async () => {
     const before = await mean("th-press-hall", "rh_pct", -60, -36);
+    const justBefore = await mean("th-press-hall", "rh_pct", -32, -30);
     const firstHours = await mean("th-press-hall", "rh_pct", -29, -27);
     const during = await mean("th-press-hall", "rh_pct", -18, -6);
     expect(before).toBeGreaterThan(38);
     expect(during).toBeLessThan(26);
-    // not a step: part of the way down a few hours in
-    expect(firstHours).toBeLessThan(before - 1);
+    // not a step: part of the way down a few hours in. Compared with the two hours before the
+    // snap, not with the day before: the weather's day-to-day swings and the night's dip move the
+    // hall more than the snap's first hours do (the model at 3,001 daily anchors: the first hours
+    // are at least 2.3 % RH under the two hours before, and at least 10.9 over the depth)
+    expect(firstHours).toBeLessThan(justBefore - 1);
     expect(firstHours).toBeGreaterThan(during + 3);
     // the same from the hourly rollups the charts read
     const [rows] = await tdb.pool.query(
@@ -91,9 +95,15 @@ describe("backfilled week", () => {
   });
 
   it("shows the power-unit fault on Flexo Press 2 and the silent sensor", async () => {
-    const normal = await mean("fm-flexo-2-print-exit", "charge_kv", -9, -7.5, "AVG(ABS(value))");
-    const fault = await mean("fm-flexo-2-print-exit", "charge_kv", -5.9, -4.6, "AVG(ABS(value))");
-    expect(fault / normal).toBeGreaterThan(3);
+    // what the print-exit bar takes off the charge the unwind meter reads before it: most of it
+    // normally, next to nothing while its power unit is down. Not the print exit's charge alone:
+    // the cold snap deepening, a line stop in either stretch and the bars' cleaning week move
+    // that by more than the fault does on some dates (the model at 3,001 daily anchors: fault ÷
+    // normal from 1.0 up; this reduction at least 0.73 before and at most 0.11 during)
+    const reduction = async (fromH: number, toH: number) =>
+      1 - (await mean("fm-flexo-2-print-exit", "charge_kv", fromH, toH, "AVG(ABS(value))")) / (await mean("fm-flexo-2-unwind", "charge_kv", fromH, toH, "AVG(ABS(value))"));
+    expect(await reduction(-9, -7.5)).toBeGreaterThan(0.5);
+    expect(await reduction(-5.9, -4.6)).toBeLessThan(0.2);
     expect(await count("fm-slitter-1-knife-exit", -9.9, -8.1)).toBe(0);
     expect(await count("fm-slitter-1-knife-exit", -12, -10.1)).toBeGreaterThan(20);
   });
