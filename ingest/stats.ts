@@ -1,6 +1,7 @@
 // Counters of the ingest worker, shown on /health and written to `ingest_status`.
 import type { WorkerStats } from "../db/queries/ingest-diagnostics";
 import type { RejectionReason } from "../lib/contract/readings-payload";
+import type { WorkerAlertsRole } from "../lib/views/health";
 import { RateWindow } from "../lib/rate-window";
 
 /** Percentile of an unsorted sample by nearest rank (null when empty). */
@@ -82,7 +83,11 @@ export class WorkerCounters {
   private readonly committedRate = new RateWindow(Date.now());
   private readonly messageRate = new RateWindow(Date.now());
 
-  constructor(readonly workerId: string) {}
+  /** alerts: the worker's part in alerting, for the Health page (the settings' default: local) */
+  constructor(
+    readonly workerId: string,
+    readonly alerts: WorkerAlertsRole = "local",
+  ) {}
 
   private device(code: string, now: number): DeviceCounters {
     let d = this.devices.get(code);
@@ -163,6 +168,7 @@ export class WorkerCounters {
       nowTs: now,
       mqttConnected: this.mqttConnected,
       dbHealthy: this.dbHealthy,
+      alerts: this.alerts,
       accepted: { messages: this.acceptedMessages, readings: this.acceptedReadings },
       committed: { readings: this.committedReadings, duplicates: this.duplicateReadings },
       rejected: { total: this.rejectedTotal, byReason: { ...this.rejectedByReason } },

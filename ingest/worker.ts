@@ -50,7 +50,7 @@ export async function startWorker() {
   const cfg = getIngestConfig();
   const pool = getPool();
   const db = getDb();
-  const counters = new WorkerCounters(cfg.INGEST_CLIENT_ID);
+  const counters = new WorkerCounters(cfg.INGEST_CLIENT_ID, cfg.ALERTS_RUNNER === "off" ? "off" : cfg.ALERTS_OWNER);
   const directory = new DeviceDirectory(db, log);
   let closing = false;
 

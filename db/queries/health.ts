@@ -94,9 +94,12 @@ export async function getHealthReport(db: Db, replica: ReplicaView, nowTs = Date
         spilledReadings: numOrNull(spilled.readings),
         commitP95Ms: numOrNull(rec(s.freshness).p95Ms),
         rssMb: numOrNull(rec(s.memory).rssMb),
+        alerts: s.alerts === "local" || s.alerts === "lease" || s.alerts === "off" ? s.alerts : null,
       });
     }
   }
   const alertOwner = leaseRows.find((l) => l.name.toLowerCase().includes("alert")) ?? null;
-  return { nowTs, brokers, workers, alertOwner, leases: leaseRows, mail, texts, replica };
+  const local = alertOwner ? undefined : workers.find((w) => !w.stale && w.alerts === "local");
+  const alertsInWorker = local ? { id: local.id, startedTs: local.startedTs } : null;
+  return { nowTs, brokers, workers, alertOwner, alertsInWorker, leases: leaseRows, mail, texts, replica };
 }

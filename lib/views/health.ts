@@ -13,6 +13,12 @@ export type BrokerHealth = {
   messagesIn: number | null;
 };
 
+/**
+ * A worker's part in alerting: it runs the rules on its own readings (ALERTS_OWNER=local, one
+ * worker), takes part in the owner's lease (lease), or none (ALERTS_RUNNER=off).
+ */
+export type WorkerAlertsRole = "local" | "lease" | "off";
+
 export type WorkerHealth = {
   id: string;
   updatedTs: number;
@@ -30,6 +36,7 @@ export type WorkerHealth = {
   spilledReadings: number | null;
   commitP95Ms: number | null;
   rssMb: number | null;
+  alerts: WorkerAlertsRole | null;
 };
 
 export type LeaseHealth = { name: string; holder: string | null; sinceTs: number | null; expiresTs: number; token: number; held: boolean };
@@ -42,6 +49,8 @@ export type HealthReport = {
   workers: WorkerHealth[];
   /** the alert owner's lease; null when no process has reported one */
   alertOwner: LeaseHealth | null;
+  /** without a lease: the reporting worker that runs the rules on its own readings, if any */
+  alertsInWorker: { id: string; startedTs: number | null } | null;
   leases: LeaseHealth[];
   mail: QueueHealth;
   texts: QueueHealth | null;

@@ -22,6 +22,10 @@ for (const width of [1366, 390]) {
     await expect(worker).toContainText("Readings stored per second");
     await expect(worker).toContainText("Reading age when stored, p95");
     await expect(broker).toContainText("Clients connected");
+    // one worker and no lease: the rules run in that worker, and the card names it
+    const workerId = (await page.getByRole("heading", { name: /^Ingest worker / }).first().textContent())!.replace("Ingest worker", "").trim();
+    await expect(page.getByTestId("health-owner")).toContainText(`Rules run in${workerId}`);
+    await expect(page.getByTestId("health-owner")).toContainText("its own readings, no lease (one worker)");
     await expect(page.getByTestId("health-verdict")).toBeVisible();
     // nothing wider than the screen
     expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(width);

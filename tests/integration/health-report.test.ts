@@ -43,11 +43,20 @@ describe("health report", () => {
   });
 
   it("shows the alert owner and since when, and says when nobody holds the lease", async () => {
-    expect((await getHealthReport(tdb.db, replica)).alertOwner).toBeNull();
+    // no lease yet: the rules run in the one worker that reports running them on its own readings
+    // (worker-a, the settings' default); a worker with alerting off is not named
+    await upsertIngestStatus(tdb.db, "worker-off", Date.now(), new WorkerCounters("worker-off", "off").snapshot({ bufferedReadings: 0, unackedMessages: 0 }));
+    const none = await getHealthReport(tdb.db, replica);
+    expect(none.alertOwner).toBeNull();
+    expect(none.workers.find((x) => x.id === "worker-off")!.alerts).toBe("off");
+    expect(none.alertsInWorker).toEqual({ id: "worker-a", startedTs: none.workers.find((x) => x.id === "worker-a")!.startedTs });
+    await tdb.db.execute(sql`DELETE FROM ingest_status WHERE worker_id = 'worker-a'`);
+    expect((await getHealthReport(tdb.db, replica)).alertsInWorker).toBeNull();
     const since = Date.now() - 60_000;
     await tdb.db.execute(sql`INSERT INTO service_leases (name, holder, token, expires_ts, acquired_ts) VALUES ('alert-owner', 'worker-a', 3, CAST(UNIX_TIMESTAMP(NOW(3)) * 1000 AS SIGNED) + 10000, ${since})`);
     const held = await getHealthReport(tdb.db, replica);
     expect(held.alertOwner).toMatchObject({ holder: "worker-a", sinceTs: since, held: true, token: 3 });
+    expect(held.alertsInWorker).toBeNull();
     await tdb.db.execute(sql`UPDATE service_leases SET expires_ts = CAST(UNIX_TIMESTAMP(NOW(3)) * 1000 AS SIGNED) - 1 WHERE name = 'alert-owner'`);
     const lapsed = await getHealthReport(tdb.db, replica);
     expect(lapsed.alertOwner!.held).toBe(false);

@@ -114,6 +114,12 @@ export default async function HealthPage() {
                 <Row label="Since" value={since(r.alertOwner.sinceTs, now)} />
                 <Row label="Hand-overs so far" value={Math.max(0, r.alertOwner.token - 1)} />
               </>
+            ) : r.alertsInWorker ? (
+              <>
+                <Row label="Rules run in" value={r.alertsInWorker.id} />
+                <Row label="How" value="its own readings, no lease (one worker)" />
+                <Row label="Since" value={since(r.alertsInWorker.startedTs, now)} />
+              </>
             ) : (
               <Row label="Held by" value="not reported" />
             )}
